@@ -1,0 +1,92 @@
+// `npm start`: PostgreSQL on loopback (installed from Debian when missing), migrations, the demo
+// scenario when the database is empty, the local fakes, then build and serve the app.
+// Ctrl-C stops everything this script started.
+import { spawn, spawnSync } from 'node:child_process';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { startStack } from './lib/stack.js';
+
+const here = path.dirname(fileURLToPath(import.meta.url));
+const root = path.join(here, '..');
+const num = (v, d) => Number(process.env[v] ?? d);
+
+const o = {
+	root: path.join(root, '.data', 'dev'),
+	pgPort: num('STARGROUND_PG_PORT', 54329),
+	s3Port: num('STARGROUND_S3_PORT', 4569),
+	smtpPort: num('STARGROUND_SMTP_PORT', 2525),
+	mailViewerPort: num('STARGROUND_MAIL_VIEWER_PORT', 2580),
+	appPort: num('PORT', 3000),
+	database: 'starground'
+};
+
+let stack;
+let app;
+let stopping = false;
+async function shutdown(code = 0) {
+	if (stopping) return;
+	stopping = true;
+	if (app && app.exitCode === null) {
+		app.kill('SIGTERM');
+		await new Promise((r) => {
+			const t = setTimeout(() => {
+				app.kill('SIGKILL');
+				r();
+			}, 8000);
+			app.once('exit', () => {
+				clearTimeout(t);
+				r();
+			});
+		});
+	}
+	await stack?.stop();
+	process.exit(code);
+}
+process.on('SIGINT', () => shutdown(0));
+process.on('SIGTERM', () => shutdown(0));
+
+try {
+	console.log('• starting PostgreSQL, fakes and migrations…');
+	stack = await startStack(o);
+	if (process.env.SKIP_BUILD !== '1') {
+		console.log('• building the app…');
+		const b = spawnSync('npx', ['vite', 'build'], { cwd: root, stdio: 'inherit', env: { ...process.env, ...stack.env } });
+		if (b.status !== 0) throw new Error('build failed');
+	}
+	app = spawn(process.execPath, ['build'], {
+		cwd: root,
+		stdio: ['ignore', 'inherit', 'inherit'],
+		env: { ...process.env, ...stack.env, SEED_DEMO: 'true', NODE_ENV: 'production' }
+	});
+	app.once('exit', (code) => {
+		if (!stopping) {
+			console.error(`app exited (${code})`);
+			shutdown(code ?? 1);
+		}
+	});
+	const { DEMO_ACCOUNTS } = await import('./lib/demo-accounts.js');
+	await waitFor(`${stack.env.ORIGIN}/`, 60_000);
+	console.log(`
+Starground is running at ${stack.env.ORIGIN}/
+Local inbox (fake SMTP):  ${stack.env.MAIL_VIEWER_URL}/
+Demo accounts (local use only), password "${DEMO_ACCOUNTS.password}":
+${DEMO_ACCOUNTS.members.map((m) => `  ${m.role.padEnd(10)} ${m.email}`).join('\n')}
+Ctrl-C stops the app, the fakes and PostgreSQL.`);
+} catch (err) {
+	console.error('npm start failed:', err.message);
+	await shutdown(1);
+}
+
+async function waitFor(url, ms) {
+	const until = Date.now() + ms;
+	while (Date.now() < until) {
+		try {
+			const r = await fetch(url);
+			if (r.status < 500) return;
+		} catch {
+			/* not up yet */
+		}
+		await new Promise((r) => setTimeout(r, 300));
+	}
+	throw new Error(`${url} did not answer within ${ms / 1000} s`);
+}

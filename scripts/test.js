@@ -1,0 +1,130 @@
+// `npm test`: its own PostgreSQL (separate data folder and port from `npm start`) and fakes,
+// Vitest (unit + integration), a production build served on loopback, Playwright in Debian's
+// Chromium; everything it started is stopped again, also when tests fail.
+import { spawn, spawnSync, execFileSync } from 'node:child_process';
+import fs from 'node:fs';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { startStack } from './lib/stack.js';
+
+const here = path.dirname(fileURLToPath(import.meta.url));
+const root = path.join(here, '..');
+const num = (v, d) => Number(process.env[v] ?? d);
+const dataRoot = path.join(root, '.data', 'test');
+
+const o = {
+	root: dataRoot,
+	pgPort: num('STARGROUND_TEST_PG_PORT', 54339),
+	s3Port: num('STARGROUND_TEST_S3_PORT', 4579),
+	smtpPort: num('STARGROUND_TEST_SMTP_PORT', 2535),
+	mailViewerPort: num('STARGROUND_TEST_MAIL_VIEWER_PORT', 2590),
+	appPort: num('STARGROUND_TEST_APP_PORT', 3100),
+	database: 'starground_test',
+	fast: true
+};
+
+const only = process.argv[2]; // optional: "unit" or "e2e"
+let stack;
+let app;
+const children = new Set();
+
+async function cleanup() {
+	for (const c of children) if (c.exitCode === null) c.kill('SIGTERM');
+	if (app && app.exitCode === null) {
+		app.kill('SIGTERM');
+		await new Promise((r) => {
+			const t = setTimeout(() => (app.kill('SIGKILL'), r()), 8000);
+			app.once('exit', () => (clearTimeout(t), r()));
+		});
+	}
+	await stack?.stop();
+}
+let cleaning = false;
+for (const sig of ['SIGINT', 'SIGTERM']) {
+	process.on(sig, async () => {
+		if (cleaning) return;
+		cleaning = true;
+		await cleanup();
+		process.exit(130);
+	});
+}
+
+function run(cmd, args, env) {
+	return new Promise((resolve) => {
+		const child = spawn(cmd, args, { cwd: root, stdio: 'inherit', env: { ...process.env, ...env } });
+		children.add(child);
+		child.once('exit', (code) => {
+			children.delete(child);
+			resolve(code ?? 1);
+		});
+	});
+}
+
+function ensureChromium() {
+	const exe = process.env.CHROMIUM_PATH ?? '/usr/bin/chromium';
+	if (fs.existsSync(exe)) return;
+	if (process.getuid?.() !== 0) throw new Error(`${exe} is missing: install Debian's chromium package`);
+	console.log('• installing Debian Chromium (apt-get)…');
+	execFileSync('apt-get', ['update'], { stdio: 'inherit' });
+	execFileSync('apt-get', ['install', '-y', 'chromium'], { stdio: 'inherit', env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' } });
+}
+
+async function waitFor(url, ms) {
+	const until = Date.now() + ms;
+	while (Date.now() < until) {
+		try {
+			if ((await fetch(url)).status < 500) return;
+		} catch {
+			/* not yet */
+		}
+		await new Promise((r) => setTimeout(r, 300));
+	}
+	throw new Error(`${url} did not answer within ${ms / 1000} s`);
+}
+
+let failed = 0;
+const t0 = Date.now();
+try {
+	fs.rmSync(dataRoot, { recursive: true, force: true });
+	if (only !== 'unit') ensureChromium();
+	console.log('• starting test PostgreSQL and fakes…');
+	stack = await startStack(o);
+	const testEnv = {
+		...stack.env,
+		NODE_ENV: 'test',
+		MAIL_POLL_S: '0.5',
+		MAIL_RETRY_DELAY_S: '1',
+		TEST_SMTP_PORT: String(o.smtpPort),
+		TEST_PG_PORT: String(o.pgPort)
+	};
+	if (only !== 'e2e') {
+		console.log('• Vitest: unit and integration tests');
+		const code = await run('npx', ['vitest', 'run'], { ...testEnv, MAIL_WORKER: 'off' });
+		if (code !== 0) failed++;
+	}
+	if (only !== 'unit') {
+		console.log('• building the app for end-to-end tests…');
+		const b = spawnSync('npx', ['vite', 'build'], { cwd: root, stdio: ['ignore', 'ignore', 'inherit'], env: { ...process.env, ...testEnv } });
+		if (b.status !== 0) throw new Error('vite build failed');
+		app = spawn(process.execPath, ['build'], {
+			cwd: root,
+			stdio: ['ignore', fs.openSync(path.join(dataRoot, 'app.log'), 'a'), fs.openSync(path.join(dataRoot, 'app.log'), 'a')],
+			env: { ...process.env, ...testEnv, NODE_ENV: 'production', SEED_DEMO: 'true', AUTH_SIGNIN_MAX: '1000' }
+		});
+		await waitFor(`${testEnv.ORIGIN}/`, 60_000);
+		console.log('• Playwright: end-to-end tests in Debian Chromium');
+		const code = await run('npx', ['playwright', 'test'], testEnv);
+		if (code !== 0) {
+			failed++;
+			console.log('--- last lines of the app log ---');
+			console.log(fs.readFileSync(path.join(dataRoot, 'app.log'), 'utf8').split('\n').slice(-40).join('\n'));
+		}
+	}
+} catch (err) {
+	console.error('npm test could not run:', err.message);
+	failed++;
+} finally {
+	await cleanup();
+}
+console.log(`\nnpm test finished in ${Math.round((Date.now() - t0) / 1000)} s: ${failed ? 'FAILED' : 'all green'}`);
+process.exit(failed ? 1 : 0);

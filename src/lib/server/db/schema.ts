@@ -1,0 +1,316 @@
+import { sql, type SQL } from 'drizzle-orm';
+import {
+	pgTable,
+	text,
+	timestamp,
+	boolean,
+	integer,
+	doublePrecision,
+	jsonb,
+	uuid,
+	index,
+	uniqueIndex,
+	primaryKey,
+	customType,
+	check,
+	type AnyPgColumn
+} from 'drizzle-orm/pg-core';
+import { user } from './auth.schema';
+
+export * from './auth.schema';
+
+const tsvector = customType<{ data: string }>({ dataType: () => 'tsvector' });
+
+/** A build: one maker's project, its steps, spec blocks and parts list. */
+export const build = pgTable(
+	'build',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		slug: text('slug').notNull().unique(),
+		ownerId: text('owner_id')
+			.notNull()
+			.references(() => user.id, { onDelete: 'cascade' }),
+		title: text('title').notNull(),
+		summary: text('summary').default('').notNull(),
+		category: text('category').notNull(),
+		topology: text('topology').notNull(),
+		mainsPowered: boolean('mains_powered').default(false).notNull(),
+		licence: text('licence').default('CC-BY-SA-4.0').notNull(),
+		coverPhotoId: uuid('cover_photo_id'),
+		status: text('status').default('draft').notNull(),
+		locked: boolean('locked').default(false).notNull(),
+		lockedReason: text('locked_reason'),
+		derivedFromId: uuid('derived_from_id').references((): AnyPgColumn => build.id, { onDelete: 'set null' }),
+		/** Current revision number; 0 until first published. */
+		revision: integer('revision').default(0).notNull(),
+		reviewRequestedAt: timestamp('review_requested_at'),
+		lastReviewedAt: timestamp('last_reviewed_at'),
+		derivedCount: integer('derived_count').default(0).notNull(),
+		/** Step text and parts values, kept up to date by the app for full-text search. */
+		searchText: text('search_text').default('').notNull(),
+		search: tsvector('search').generatedAlwaysAs(
+			(): SQL =>
+				sql`setweight(to_tsvector('english', coalesce(${build.title}, '')), 'A') || setweight(to_tsvector('english', coalesce(${build.summary}, '')), 'B') || setweight(to_tsvector('english', coalesce(${build.searchText}, '')), 'C')`
+		),
+		publishedAt: timestamp('published_at'),
+		createdAt: timestamp('created_at').defaultNow().notNull(),
+		updatedAt: timestamp('updated_at').defaultNow().notNull()
+	},
+	(t) => [
+		index('build_owner_idx').on(t.ownerId),
+		index('build_status_published_idx').on(t.status, t.publishedAt, t.id),
+		index('build_derived_from_idx').on(t.derivedFromId),
+		index('build_search_idx').using('gin', t.search),
+		check('build_status_check', sql`${t.status} in ('draft','published','archived')`)
+	]
+);
+
+export const buildStep = pgTable(
+	'build_step',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		buildId: uuid('build_id')
+			.notNull()
+			.references(() => build.id, { onDelete: 'cascade' }),
+		position: integer('position').notNull(),
+		title: text('title').notNull(),
+		bodyMd: text('body_md').default('').notNull(),
+		bodyHtml: text('body_html').default('').notNull(),
+		createdAt: timestamp('created_at').defaultNow().notNull(),
+		updatedAt: timestamp('updated_at').defaultNow().notNull()
+	},
+	(t) => [index('build_step_build_idx').on(t.buildId, t.position)]
+);
+
+/** A processed photo: WebP renditions under `keyPrefix` in object storage. */
+export const photo = pgTable(
+	'photo',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		ownerId: text('owner_id')
+			.notNull()
+			.references(() => user.id, { onDelete: 'cascade' }),
+		buildId: uuid('build_id').references(() => build.id, { onDelete: 'cascade' }),
+		stepId: uuid('step_id').references(() => buildStep.id, { onDelete: 'cascade' }),
+		keyPrefix: text('key_prefix').notNull(),
+		widths: jsonb('widths').$type<number[]>().notNull(),
+		width: integer('width').notNull(),
+		height: integer('height').notNull(),
+		alt: text('alt').notNull(),
+		placeholder: text('placeholder'),
+		position: integer('position').default(0).notNull(),
+		createdAt: timestamp('created_at').defaultNow().notNull()
+	},
+	(t) => [index('photo_build_idx').on(t.buildId), index('photo_step_idx').on(t.stepId)]
+);
+
+export const specBlock = pgTable(
+	'spec_block',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		buildId: uuid('build_id')
+			.notNull()
+			.references(() => build.id, { onDelete: 'cascade' }),
+		kind: text('kind').notNull(),
+		title: text('title').default('').notNull(),
+		data: jsonb('data').$type<Record<string, unknown>>().notNull(),
+		derived: jsonb('derived').$type<Record<string, unknown>>().notNull(),
+		checks: jsonb('checks').$type<StoredCheck[]>().notNull(),
+		position: integer('position').default(0).notNull(),
+		createdAt: timestamp('created_at').defaultNow().notNull(),
+		updatedAt: timestamp('updated_at').defaultNow().notNull()
+	},
+	(t) => [index('spec_block_build_idx').on(t.buildId)]
+);
+
+export interface StoredCheck {
+	id: string;
+	level: 'note' | 'caution' | 'danger';
+	message: string;
+	values: Record<string, unknown>;
+	caution?: string;
+}
+
+export const partLine = pgTable(
+	'part_line',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		buildId: uuid('build_id')
+			.notNull()
+			.references(() => build.id, { onDelete: 'cascade' }),
+		position: integer('position').notNull(),
+		designators: text('designators').default('').notNull(),
+		quantity: integer('quantity').default(1).notNull(),
+		kind: text('kind').notNull(),
+		valueText: text('value_text').default('').notNull(),
+		value: doublePrecision('value'),
+		unit: text('unit'),
+		tolerancePct: doublePrecision('tolerance_pct'),
+		ratingV: doublePrecision('rating_v'),
+		ratingW: doublePrecision('rating_w'),
+		package: text('package').default('').notNull(),
+		notes: text('notes').default('').notNull(),
+		designValueText: text('design_value_text'),
+		designValue: doublePrecision('design_value'),
+		substitutionReason: text('substitution_reason'),
+		deviationPct: doublePrecision('deviation_pct'),
+		checks: jsonb('checks').$type<StoredCheck[]>().default([]).notNull()
+	},
+	(t) => [index('part_line_build_idx').on(t.buildId, t.position)]
+);
+
+/** Snapshot of a published build at each save: r1, r2, … */
+export const buildRevision = pgTable(
+	'build_revision',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		buildId: uuid('build_id')
+			.notNull()
+			.references(() => build.id, { onDelete: 'cascade' }),
+		number: integer('number').notNull(),
+		authorId: text('author_id').references(() => user.id, { onDelete: 'set null' }),
+		summary: text('summary').notNull(),
+		snapshot: jsonb('snapshot').$type<Record<string, unknown>>().notNull(),
+		createdAt: timestamp('created_at').defaultNow().notNull()
+	},
+	(t) => [uniqueIndex('build_revision_number_idx').on(t.buildId, t.number)]
+);
+
+export const review = pgTable(
+	'review',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		buildId: uuid('build_id')
+			.notNull()
+			.references(() => build.id, { onDelete: 'cascade' }),
+		reviewerId: text('reviewer_id')
+			.notNull()
+			.references(() => user.id, { onDelete: 'cascade' }),
+		revision: integer('revision').notNull(),
+		verdict: text('verdict').notNull(),
+		summaryMd: text('summary_md').notNull(),
+		summaryHtml: text('summary_html').notNull(),
+		createdAt: timestamp('created_at').defaultNow().notNull()
+	},
+	(t) => [
+		index('review_build_idx').on(t.buildId, t.createdAt),
+		index('review_reviewer_idx').on(t.reviewerId),
+		check('review_verdict_check', sql`${t.verdict} in ('safe','rework')`)
+	]
+);
+
+export const safetyFlag = pgTable(
+	'safety_flag',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		buildId: uuid('build_id')
+			.notNull()
+			.references(() => build.id, { onDelete: 'cascade' }),
+		raisedById: text('raised_by_id')
+			.notNull()
+			.references(() => user.id, { onDelete: 'cascade' }),
+		targetKind: text('target_kind').notNull(),
+		targetId: uuid('target_id').notNull(),
+		category: text('category').notNull(),
+		severity: text('severity').notNull(),
+		noteMd: text('note_md').notNull(),
+		noteHtml: text('note_html').notNull(),
+		state: text('state').default('open').notNull(),
+		revision: integer('revision').notNull(),
+		addressedNote: text('addressed_note'),
+		addressedAt: timestamp('addressed_at'),
+		resolvedById: text('resolved_by_id').references(() => user.id, { onDelete: 'set null' }),
+		resolvedAt: timestamp('resolved_at'),
+		createdAt: timestamp('created_at').defaultNow().notNull(),
+		updatedAt: timestamp('updated_at').defaultNow().notNull()
+	},
+	(t) => [
+		index('safety_flag_build_idx').on(t.buildId, t.state),
+		check('safety_flag_state_check', sql`${t.state} in ('open','addressed','resolved')`)
+	]
+);
+
+export const comment = pgTable(
+	'comment',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		buildId: uuid('build_id')
+			.notNull()
+			.references(() => build.id, { onDelete: 'cascade' }),
+		authorId: text('author_id')
+			.notNull()
+			.references(() => user.id, { onDelete: 'cascade' }),
+		parentId: uuid('parent_id').references((): AnyPgColumn => comment.id, { onDelete: 'cascade' }),
+		bodyMd: text('body_md').notNull(),
+		bodyHtml: text('body_html').notNull(),
+		hidden: boolean('hidden').default(false).notNull(),
+		hiddenReason: text('hidden_reason'),
+		deletedAt: timestamp('deleted_at'),
+		editedAt: timestamp('edited_at'),
+		createdAt: timestamp('created_at').defaultNow().notNull()
+	},
+	(t) => [index('comment_build_idx').on(t.buildId, t.createdAt), index('comment_parent_idx').on(t.parentId)]
+);
+
+export const report = pgTable(
+	'report',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		reporterId: text('reporter_id')
+			.notNull()
+			.references(() => user.id, { onDelete: 'cascade' }),
+		targetKind: text('target_kind').notNull(),
+		targetId: text('target_id').notNull(),
+		reason: text('reason').notNull(),
+		state: text('state').default('open').notNull(),
+		handledById: text('handled_by_id').references(() => user.id, { onDelete: 'set null' }),
+		handledAt: timestamp('handled_at'),
+		resolution: text('resolution'),
+		createdAt: timestamp('created_at').defaultNow().notNull()
+	},
+	(t) => [index('report_state_idx').on(t.state, t.createdAt)]
+);
+
+/** Every moderator and admin action: who, what, target, reason, when. */
+export const auditEntry = pgTable(
+	'audit_entry',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		actorId: text('actor_id').references(() => user.id, { onDelete: 'set null' }),
+		action: text('action').notNull(),
+		targetKind: text('target_kind').notNull(),
+		targetId: text('target_id').notNull(),
+		reason: text('reason').default('').notNull(),
+		details: jsonb('details').$type<Record<string, unknown>>().default({}).notNull(),
+		createdAt: timestamp('created_at').defaultNow().notNull()
+	},
+	(t) => [index('audit_entry_created_idx').on(t.createdAt), index('audit_entry_action_idx').on(t.action)]
+);
+
+/** A member's saved builds. */
+export const benchItem = pgTable(
+	'bench_item',
+	{
+		userId: text('user_id')
+			.notNull()
+			.references(() => user.id, { onDelete: 'cascade' }),
+		buildId: uuid('build_id')
+			.notNull()
+			.references(() => build.id, { onDelete: 'cascade' }),
+		createdAt: timestamp('created_at').defaultNow().notNull()
+	},
+	(t) => [primaryKey({ columns: [t.userId, t.buildId] })]
+);
+
+export type Build = typeof build.$inferSelect;
+export type BuildStep = typeof buildStep.$inferSelect;
+export type Photo = typeof photo.$inferSelect;
+export type SpecBlock = typeof specBlock.$inferSelect;
+export type PartLine = typeof partLine.$inferSelect;
+export type BuildRevision = typeof buildRevision.$inferSelect;
+export type Review = typeof review.$inferSelect;
+export type SafetyFlag = typeof safetyFlag.$inferSelect;
+export type Comment = typeof comment.$inferSelect;
+export type Report = typeof report.$inferSelect;
+export type AuditEntry = typeof auditEntry.$inferSelect;
+export type User = typeof user.$inferSelect;
