@@ -3,7 +3,7 @@
  * 5-band (3 digits) and 6-band (5-band + temperature coefficient).
  * Colour names are lower-case English; "gray" and "purple" are accepted as spellings of grey and violet.
  */
-import { cleanNumber } from './values';
+import { InputRangeError, cleanNumber } from './values';
 
 /** The colour names of the code, in digit order then gold, silver (API.md); pink is read as ×10⁻³ only. */
 export const BAND_COLORS = [
@@ -119,23 +119,24 @@ export interface BandReading {
 export function normaliseColor(name: string): string {
 	const c = String(name).trim().toLowerCase();
 	const n = ALIASES[c] ?? c;
-	if (!(n in MULTIPLIER_EXP) && !(n in TOLERANCE)) throw new RangeError(`"${name}" is not a resistor colour`);
+	if (!(n in MULTIPLIER_EXP) && !(n in TOLERANCE)) throw new InputRangeError('colors', `"${name}" is not a resistor colour`);
 	return n;
 }
 
 function readStrict(colors: readonly string[]): Omit<BandReading, 'reversed'> {
 	const n = colors.length;
-	if (n < 3 || n > 6) throw new RangeError('a resistor code has 3, 4, 5 or 6 bands');
+	if (n < 3 || n > 6) throw new InputRangeError('colors', 'a resistor code has 3, 4, 5 or 6 bands');
 	const digitCount = n <= 4 ? 2 : 3;
 	const digits = colors.slice(0, digitCount).map((c, i) => {
 		const d = DIGIT[c];
-		if (d === undefined) throw new RangeError(`band ${i + 1} (${c}) is not a digit colour`);
+		if (d === undefined) throw new InputRangeError(`colors.${i}`, `band ${i + 1} (${c}) is not a digit colour`);
 		return d;
 	});
-	if (digits[0] === 0) throw new RangeError('the first band cannot be black (a leading zero)');
+	if (digits[0] === 0) throw new InputRangeError('colors.0', 'the first band cannot be black (a leading zero)');
 	const multColor = colors[digitCount];
 	const exp = MULTIPLIER_EXP[multColor];
-	if (exp === undefined) throw new RangeError(`band ${digitCount + 1} (${multColor}) is not a multiplier colour`);
+	if (exp === undefined)
+		throw new InputRangeError(`colors.${digitCount}`, `band ${digitCount + 1} (${multColor}) is not a multiplier colour`);
 	const significand = Number(digits.join(''));
 	const valueOhm = cleanNumber(exp >= 0 ? significand * 10 ** exp : significand / 10 ** -exp);
 	let tolerancePct = 20;
@@ -143,14 +144,15 @@ function readStrict(colors: readonly string[]): Omit<BandReading, 'reversed'> {
 	if (n >= 4) {
 		const tolColor = colors[digitCount + 1];
 		const t = TOLERANCE[tolColor];
-		if (t === undefined) throw new RangeError(`band ${digitCount + 2} (${tolColor}) is not a tolerance colour`);
+		if (t === undefined)
+			throw new InputRangeError(`colors.${digitCount + 1}`, `band ${digitCount + 2} (${tolColor}) is not a tolerance colour`);
 		tolerancePct = t;
 		ambiguous = TOLERANCE_AMBIGUITY[tolColor];
 	}
 	const out: Omit<BandReading, 'reversed'> = { valueOhm, tolerancePct };
 	if (n === 6) {
 		const tc = TEMPCO[colors[5]];
-		if (tc === undefined) throw new RangeError(`band 6 (${colors[5]}) is not a temperature-coefficient colour`);
+		if (tc === undefined) throw new InputRangeError('colors.5', `band 6 (${colors[5]}) is not a temperature-coefficient colour`);
 		out.tempcoPpmPerK = tc;
 	}
 	if (ambiguous) out.ambiguous = ambiguous;
@@ -164,8 +166,14 @@ function readStrict(colors: readonly string[]): Omit<BandReading, 'reversed'> {
  * valueFromBands(['yellow','violet','red','gold']) → { valueOhm: 4700, tolerancePct: 5 }.
  */
 export function valueFromBands(colors: readonly string[]): BandReading {
-	if (!Array.isArray(colors)) throw new RangeError('colors must be a list');
-	const list = colors.map(normaliseColor);
+	if (!Array.isArray(colors)) throw new InputRangeError('colors', 'colors must be a list');
+	const list = colors.map((c, i) => {
+		try {
+			return normaliseColor(c);
+		} catch {
+			throw new InputRangeError(`colors.${i}`, `"${c}" is not a resistor colour`);
+		}
+	});
 	const reading: BandReading = readStrict(list);
 	if (list.length <= 5) {
 		try {
@@ -185,16 +193,18 @@ export function valueFromBands(colors: readonly string[]): BandReading {
  * gives or a multiplier outside silver…white. bandsFromValue(4700) → ['yellow','violet','red','gold'].
  */
 export function bandsFromValue(valueOhm: number, tolerancePct?: number, bands: 3 | 4 | 5 = 4): BandColor[] {
-	if (bands !== 3 && bands !== 4 && bands !== 5) throw new RangeError('bands must be 3, 4 or 5');
-	if (!(Number.isFinite(valueOhm) && valueOhm > 0)) throw new RangeError('valueOhm must be a finite number greater than 0');
+	if (bands !== 3 && bands !== 4 && bands !== 5) throw new InputRangeError('bands', 'bands must be 3, 4 or 5');
+	if (!(Number.isFinite(valueOhm) && valueOhm > 0))
+		throw new InputRangeError('valueOhm', 'valueOhm must be a finite number greater than 0');
 	const tol = tolerancePct ?? (bands === 5 ? 1 : bands === 4 ? 5 : 20);
 	let tolColor: BandColor | undefined;
 	if (bands === 3) {
-		if (tol !== 20) throw new RangeError('a 3-band code has no tolerance band: it always means ±20 %');
+		if (tol !== 20) throw new InputRangeError('tolerancePct', 'a 3-band code has no tolerance band: it always means ±20 %');
 	} else {
 		tolColor = TOLERANCE_COLOR.find(([t]) => t === tol)?.[1];
 		if (!tolColor)
-			throw new RangeError(
+			throw new InputRangeError(
+				'tolerancePct',
 				tol === 20
 					? '±20 % has no tolerance colour: use bands = 3'
 					: `no tolerance colour for ${tol} %; use one of ${TOLERANCE_COLOR.map(([t]) => t).join(', ')} %`
@@ -206,11 +216,12 @@ export function bandsFromValue(valueOhm: number, tolerancePct?: number, bands: 3
 	const exp = Number(expStr) - (sig - 1);
 	const back = exp >= 0 ? significand * 10 ** exp : significand / 10 ** -exp;
 	if (Math.abs(back - valueOhm) > 1e-9 * valueOhm)
-		throw new RangeError(
+		throw new InputRangeError(
+			'valueOhm',
 			`${valueOhm} Ω needs more than ${sig} significant figures; a ${bands}-band code cannot show it`
 		);
 	if (exp < -2 || exp > 9)
-		throw new RangeError(`${valueOhm} Ω is outside what a ${bands}-band code can show (multiplier silver ×0.01 to white ×10⁹)`);
+		throw new InputRangeError('valueOhm', `${valueOhm} Ω is outside what a ${bands}-band code can show (multiplier silver ×0.01 to white ×10⁹)`);
 	const digitColors = String(significand)
 		.split('')
 		.map((d) => BAND_COLORS[Number(d)]);

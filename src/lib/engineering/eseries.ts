@@ -4,7 +4,7 @@
  * E48/E96/E192 are round(10^(i/n), 3 significant figures), with E192's one known exception 9.20
  * (from memory; the computed value is 9.19).
  */
-import { cleanNumber } from './values';
+import { InputRangeError, cleanNumber } from './values';
 
 /** Series names, coarsest first. */
 export const E_SERIES = ['E3', 'E6', 'E12', 'E24', 'E48', 'E96', 'E192'] as const;
@@ -44,7 +44,7 @@ export function isESeriesName(name: string): name is ESeriesName {
 /** The decade mantissas (1 ≤ m < 10) of a series, ascending. eSeriesMantissas('E6') → [1, 1.5, 2.2, 3.3, 4.7, 6.8]. */
 export function eSeriesMantissas(series: ESeriesName): number[] {
 	const t = TABLE[series];
-	if (!t) throw new RangeError(`unknown E-series "${String(series)}"; use one of ${E_SERIES.join(', ')}`);
+	if (!t) throw new InputRangeError('series', `unknown E-series "${String(series)}"; use one of ${E_SERIES.join(', ')}`);
 	return [...t];
 }
 
@@ -62,7 +62,7 @@ export interface ESeriesSnap {
  * errorPct = 100·(nearest − value)/value. nearestESeries(5000, 'E12') → { nearest: 4700, below: 4700, above: 5600, errorPct: -6 }.
  */
 export function nearestESeries(value: number, series: ESeriesName = 'E12'): ESeriesSnap {
-	if (!(Number.isFinite(value) && value > 0)) throw new RangeError('value must be a finite number greater than 0');
+	if (!(Number.isFinite(value) && value > 0)) throw new InputRangeError('value', 'value must be a finite number greater than 0');
 	const mantissas = eSeriesMantissas(series);
 	const decade = Math.floor(Math.log10(value));
 	const candidates: number[] = [];

@@ -3,16 +3,18 @@
  * (standard circuit theory; inductors assumed uncoupled).
  */
 
+import { InputRangeError } from './values';
+
 /** Part kinds a network can combine. */
 export type NetworkPart = 'resistor' | 'capacitor' | 'inductor';
 /** How the parts are joined. */
 export type NetworkArrangement = 'series' | 'parallel';
 
 function check(values: readonly number[]): void {
-	if (!Array.isArray(values) || values.length === 0) throw new RangeError('values must hold at least one value');
+	if (!Array.isArray(values) || values.length === 0) throw new InputRangeError('values', 'values must hold at least one value');
 	values.forEach((v, i) => {
 		if (!(typeof v === 'number' && Number.isFinite(v) && v > 0))
-			throw new RangeError(`values.${i} must be a finite number greater than 0`);
+			throw new InputRangeError(`values.${i}`, `values.${i} must be a finite number greater than 0`);
 	});
 }
 
@@ -33,9 +35,9 @@ export function parallelValue(values: readonly number[]): number {
  * capacitors add in parallel. networkValue('capacitor', 'series', [1e-6, 1e-6]) → 5e-7 F.
  */
 export function networkValue(part: NetworkPart, arrangement: NetworkArrangement, values: readonly number[]): number {
-	if (part !== 'resistor' && part !== 'capacitor' && part !== 'inductor') throw new RangeError(`unknown part "${String(part)}"`);
+	if (part !== 'resistor' && part !== 'capacitor' && part !== 'inductor') throw new InputRangeError('part', `unknown part "${String(part)}"`);
 	if (arrangement !== 'series' && arrangement !== 'parallel')
-		throw new RangeError(`unknown arrangement "${String(arrangement)}"`);
+		throw new InputRangeError('arrangement', `unknown arrangement "${String(arrangement)}"`);
 	const adds = (part === 'capacitor') === (arrangement === 'parallel');
 	return adds ? seriesValue(values) : parallelValue(values);
 }

@@ -330,7 +330,7 @@ export function decodeMarking(code: string, as: MarkingAs = 'auto'): DecodedMark
 	const dig = /^(\d{1,4})([A-Za-z])?$/.exec(s);
 	if (dig && !(dig[2] && dig[1].length <= 2)) {
 		const digits = dig[1];
-		let letter = dig[2];
+		const letter: string | undefined = dig[2];
 		const kind: ValueKind =
 			as === 'auto' ? (digits.length === 4 ? 'resistance' : 'capacitance') : KIND_OF_MARKING[as];
 		// Resistors and pots: a K/M/R after digits is the RKM multiplier ("470K" = 470 kΩ), not a tolerance.
@@ -341,7 +341,6 @@ export function decodeMarking(code: string, as: MarkingAs = 'auto'): DecodedMark
 		if (!rkmAfterDigits && toleranceCandidate) {
 			let tolerancePct: number | undefined;
 			if (letter !== undefined) tolerancePct = toleranceFromLetter(letter, code);
-			letter = undefined;
 			if (digits.length <= 2) {
 				if (kind === 'inductance') throw new RangeError(`"${code}": 1- and 2-digit inductor markings are not standard`);
 				// One- or two-digit markings are plain pF on capacitors (REFERENCE.md §6.2), plain Ω on resistors.

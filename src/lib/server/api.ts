@@ -64,3 +64,51 @@ export async function readJson(request: Request): Promise<{ ok: true; body: unkn
 		};
 	}
 }
+
+/** 405 `method_not_allowed` for a known route asked with another method; `Allow` lists the methods it answers. */
+export function methodNotAllowed(allowed: readonly string[]): Response {
+	return apiError(405, 'method_not_allowed', `This route answers ${allowed.join(', ')} only.`, [], {
+		Allow: allowed.join(', ')
+	});
+}
+
+/**
+ * 422 for a RangeError from the computation library: the issue path is the error's `field`
+ * (InputRangeError) when it has one, else `fallbackPath`; `prefix` is put in front (e.g. ['data']).
+ */
+export function rangeErrorResponse(err: RangeError, fallbackPath = '', prefix: readonly PropertyKey[] = []): Response {
+	const field = (err as RangeError & { field?: unknown }).field;
+	const own = typeof field === 'string' && field !== '' ? field.split('.') : fallbackPath ? fallbackPath.split('.') : [];
+	return apiError(422, 'invalid', err.message, [
+		{ path: issuePath([...prefix, ...own.map((p) => (/^\d+$/.test(p) ? Number(p) : p))]), message: err.message }
+	]);
+}
+
+/** Query parameters as a plain object for a zod schema; empty values count as missing, the last repeat wins. */
+export function queryObject(url: URL): Record<string, string> {
+	const out: Record<string, string> = {};
+	for (const [k, v] of url.searchParams) if (v.trim() !== '') out[k] = v.trim();
+	return out;
+}
+
+/** Minimal structural view of a zod schema, so this module needs no zod runtime import. */
+interface SafeParser<T> {
+	safeParse(input: unknown): { success: true; data: T } | { success: false; error: ZodError };
+}
+
+/**
+ * Validate `input` with `schema`, run `compute` on the parsed value and answer 200 JSON. Answers the envelope for
+ * a failed parse (400/422 via zodErrorResponse) and for a RangeError from the library (422 at its field or
+ * `fallbackPath`); anything else is logged and answered 500 `internal` without details.
+ */
+export function toolResponse<T>(schema: SafeParser<T>, input: unknown, compute: (value: T) => unknown, fallbackPath = ''): Response {
+	const parsed = schema.safeParse(input);
+	if (!parsed.success) return zodErrorResponse(parsed.error);
+	try {
+		return json(compute(parsed.data));
+	} catch (err) {
+		if (err instanceof RangeError) return rangeErrorResponse(err, fallbackPath);
+		console.error('tool computation failed', err);
+		return apiError(500, 'internal', 'The computation failed unexpectedly.');
+	}
+}

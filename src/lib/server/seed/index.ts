@@ -1,6 +1,6 @@
 import { sql } from 'drizzle-orm';
 import { hashPassword } from 'better-auth/crypto';
-import { db, type Tx } from '../db';
+import { db, type Db, type Tx } from '../db';
 import * as schema from '../db/schema';
 import { DEMO_MEMBERS, DEMO_PASSWORD, type DemoMemberKey } from './members';
 import { seedBuilds } from './builds';
@@ -14,8 +14,8 @@ const SEED_LOCK = 7_311_042;
  * Seed the invented demo scenario when the database has no members yet. Idempotent: a second
  * run (or a concurrent one) finds members and does nothing. Returns true when it seeded.
  */
-export async function seedDemoIfEmpty(): Promise<boolean> {
-	return db.transaction(async (tx) => {
+export async function seedDemoIfEmpty(database: Db = db): Promise<boolean> {
+	return database.transaction(async (tx) => {
 		await tx.execute(sql`select pg_advisory_xact_lock(${SEED_LOCK})`);
 		const [{ n }] = await tx.select({ n: sql<number>`count(*)::int` }).from(schema.user);
 		if (n > 0) return false;

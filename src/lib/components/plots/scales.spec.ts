@@ -1,0 +1,70 @@
+import { describe, expect, it } from 'vitest';
+import { axisDomain, axisTicks, drawable, formatTick, makeScale } from './scales';
+
+describe('axisDomain', () => {
+	it('covers the values, padded on linear axes', () => {
+		expect(axisDomain([2, 8, 5])).toEqual([2, 8]);
+		expect(axisDomain([0, 10], false, 0.1)).toEqual([-1, 11]);
+	});
+	it('never collapses and ignores what cannot be drawn', () => {
+		expect(axisDomain([])).toEqual([0, 1]);
+		expect(axisDomain([], true)).toEqual([1, 10]);
+		const [lo, hi] = axisDomain([5, NaN, Infinity]);
+		expect(lo).toBeLessThan(5);
+		expect(hi).toBeGreaterThan(5);
+		expect(axisDomain([-3, 0, 100, 1000], true)).toEqual([100, 1000]);
+	});
+});
+
+describe('makeScale', () => {
+	it('maps a linear domain onto the range, rounded out to nice ends', () => {
+		const s = makeScale([0.3, 9.7], [0, 100]);
+		expect(s.domain()).toEqual([0, 10]);
+		expect(s(5)).toBeCloseTo(50, 9);
+	});
+	it('maps decades evenly on a log axis', () => {
+		const s = makeScale([1e-4, 1e-1], [0, 300], true);
+		expect(s(1e-3)).toBeCloseTo(100, 9);
+		expect(s(1e-2)).toBeCloseTo(200, 9);
+	});
+});
+
+describe('axisTicks', () => {
+	it('gives round linear ticks inside the domain', () => {
+		const ticks = axisTicks(makeScale([0, 50], [0, 500]), false, 5);
+		expect(ticks.map((t) => t.value)).toEqual([0, 10, 20, 30, 40, 50]);
+		expect(ticks[2].label).toBe('20');
+	});
+	it('gives decades on a wide log axis and 1-2-5 on a narrow one', () => {
+		const wide = axisTicks(makeScale([1e-5, 1e-1], [0, 400], true), true);
+		expect(wide.map((t) => t.value)).toEqual([1e-5, 1e-4, 1e-3, 1e-2, 1e-1]);
+		expect(wide.map((t) => t.label)).toEqual(['10µ', '100µ', '1m', '0.01', '0.1']);
+		const narrow = axisTicks(makeScale([1000, 20000], [0, 400], true), true);
+		expect(narrow.map((t) => t.value)).toEqual([1000, 2000, 5000, 10000, 20000]);
+	});
+});
+
+describe('formatTick', () => {
+	it('uses SI prefixes only for very large or small values', () => {
+		expect(formatTick(0)).toBe('0');
+		expect(formatTick(2.5)).toBe('2.5');
+		expect(formatTick(4700)).toBe('4700');
+		expect(formatTick(47000)).toBe('47k');
+		expect(formatTick(0.0047)).toBe('4.7m');
+		expect(formatTick(2.2e-6)).toBe('2.2µ');
+		expect(formatTick(-1.5e6)).toBe('-1.5M');
+	});
+});
+
+describe('drawable', () => {
+	it('drops non-finite points and non-positive ones on log axes', () => {
+		const pts = [
+			{ x: 0, y: 1 },
+			{ x: 1, y: NaN },
+			{ x: 2, y: -1 },
+			{ x: 3, y: 4 }
+		];
+		expect(drawable(pts)).toHaveLength(3);
+		expect(drawable(pts, true, true)).toEqual([{ x: 3, y: 4 }]);
+	});
+});

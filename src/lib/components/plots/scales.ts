@@ -1,0 +1,102 @@
+/**
+ * Scale and tick helpers for the bench tools' SVG plots. Pure functions on top of d3-scale,
+ * so the same axes come out on the server and in the browser.
+ */
+import { scaleLinear, scaleLog } from 'd3-scale';
+
+export type PlotPoint = { x: number; y: number };
+export type Tick = { value: number; label: string };
+export type AxisScale = ((v: number) => number) & { domain(): number[] };
+
+const SI_PREFIXES: [number, string][] = [
+	[1e12, 'T'],
+	[1e9, 'G'],
+	[1e6, 'M'],
+	[1e3, 'k'],
+	[1, ''],
+	[1e-3, 'm'],
+	[1e-6, 'µ'],
+	[1e-9, 'n'],
+	[1e-12, 'p']
+];
+
+/** Keeps the points a scale can draw: finite, and positive on a log axis. */
+export function drawable(points: PlotPoint[], xLog = false, yLog = false): PlotPoint[] {
+	return points.filter(
+		(p) => Number.isFinite(p.x) && Number.isFinite(p.y) && (!xLog || p.x > 0) && (!yLog || p.y > 0)
+	);
+}
+
+/**
+ * The [min, max] a plot axis should cover. Empty input gives [0, 1] (or [1, 10] on a log axis);
+ * a single value is widened so the axis never collapses. Linear domains are padded by `padFraction`
+ * of the span on each side. [2, 8] → [2, 8] with no padding.
+ */
+export function axisDomain(values: number[], log = false, padFraction = 0): [number, number] {
+	const usable = values.filter((v) => Number.isFinite(v) && (!log || v > 0));
+	if (usable.length === 0) return log ? [1, 10] : [0, 1];
+	let lo = Math.min(...usable);
+	let hi = Math.max(...usable);
+	if (log) {
+		if (lo === hi) return [lo / Math.SQRT2 / Math.SQRT2, hi * 2];
+		return [lo, hi];
+	}
+	if (lo === hi) {
+		const widen = lo === 0 ? 1 : Math.abs(lo) * 0.1;
+		return [lo - widen, hi + widen];
+	}
+	const pad = (hi - lo) * padFraction;
+	lo -= pad;
+	hi += pad;
+	return [lo, hi];
+}
+
+/** A d3 scale (linear or log) from a domain to a pixel range; linear domains are rounded out to nice ticks. */
+export function makeScale(domain: [number, number], range: [number, number], log = false): AxisScale {
+	if (log) return scaleLog().domain(domain).range(range);
+	return scaleLinear().domain(domain).range(range).nice(6);
+}
+
+/**
+ * A compact label for an axis value with SI prefixes for very large or very small numbers:
+ * 4700 → "4700", 47000 → "47k", 0.0047 → "4.7m", 2.5 → "2.5", 0 → "0".
+ */
+export function formatTick(value: number): string {
+	if (value === 0) return '0';
+	const abs = Math.abs(value);
+	if (abs >= 0.01 && abs < 1e4) return trim(value);
+	for (const [factor, prefix] of SI_PREFIXES) {
+		if (abs >= factor * 0.9995) return `${trim(value / factor)}${prefix}`;
+	}
+	return value.toExponential(1);
+}
+
+function trim(v: number): string {
+	return String(Number(v.toPrecision(3)));
+}
+
+/**
+ * Tick marks for an axis. Linear: d3's nice ticks (about `count` of them).
+ * Log: the decades (1, 10, 100 …); when the domain spans less than two decades, also the 2 and 5 of each decade.
+ */
+export function axisTicks(scale: AxisScale, log: boolean, count = 6): Tick[] {
+	const [a, b] = scale.domain();
+	const lo = Math.min(a, b);
+	const hi = Math.max(a, b);
+	let values: number[];
+	if (log) {
+		const first = Math.floor(Math.log10(lo));
+		const last = Math.ceil(Math.log10(hi));
+		const mantissas = last - first <= 2 ? [1, 2, 5] : [1];
+		values = [];
+		for (let e = first; e <= last; e++) {
+			for (const m of mantissas) {
+				const v = Number((m * 10 ** e).toPrecision(12));
+				if (v >= lo * (1 - 1e-9) && v <= hi * (1 + 1e-9)) values.push(v);
+			}
+		}
+	} else {
+		values = (scale as unknown as { ticks(n: number): number[] }).ticks(count);
+	}
+	return values.map((value) => ({ value, label: formatTick(value) }));
+}

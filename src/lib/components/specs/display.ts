@@ -1,0 +1,230 @@
+/**
+ * How spec-block inputs, derived values and check values are shown: a label and a unit from the field name
+ * (every numeric field name ends in its unit, API.md), numbers with 3 significant figures, component values
+ * with an engineering prefix. Pure; used by SpecBlockView, CheckBadge and the spec editor.
+ */
+import { formatValue } from '$lib/engineering';
+
+/** Display names of the spec-block kinds (PRODUCT.md §3). */
+export const KIND_LABELS: Record<string, string> = {
+	amplifier: 'Amplifier',
+	supply: 'Power supply',
+	thermal: 'Thermal',
+	measurements: 'Measurements',
+	bringup: 'Bring-up'
+};
+
+/** Labels of known fields; anything else is spelled out from its camelCase name. */
+const LABELS: Record<string, string> = {
+	channels: 'Channels',
+	topology: 'Topology',
+	supply: 'Supply',
+	railV: 'Rail',
+	loadOhm: 'Nominal load',
+	'device.maxSupplyV': 'Device max supply (total)',
+	'device.dropoutV': 'Device dropout per side',
+	'device.junctionMaxC': 'Device junction max',
+	'device.rthJcKPerW': 'Device Rth junction–case',
+	'device.minLoadOhm': 'Device minimum load',
+	'gain.rfOhm': 'Feedback resistor Rf',
+	'gain.riOhm': 'Ground-leg resistor Ri',
+	'gain.ciF': 'Ground-leg capacitor Ci',
+	'input.rOhm': 'Input resistor to ground',
+	'input.cF': 'Input coupling capacitor',
+	'claimed.powerW': 'Claimed output power',
+	'claimed.thdPct': 'Claimed at THD',
+	maxPowerW: 'Max sine power',
+	peakVoltageV: 'Peak output voltage',
+	peakCurrentA: 'Peak output current',
+	rmsVoltageV: 'RMS output voltage at max power',
+	worstDissipationW: 'Worst-case dissipation per channel',
+	totalWorstDissipationW: 'Worst-case dissipation, all channels',
+	totalSupplyV: 'Total supply',
+	caseMaxC: 'Hottest case allowed',
+	supplyPowerW: 'Supply power at claimed output',
+	dissipationW: 'Dissipation at claimed output',
+	efficiency: 'Efficiency at claimed output',
+	gain: 'Gain',
+	gainDb: 'Gain',
+	inputCornerHz: 'Input high-pass corner',
+	feedbackCornerHz: 'Feedback high-pass corner',
+	lowCornerHz: 'Overall low corner',
+	mainsVac: 'Mains',
+	mainsHz: 'Mains frequency',
+	transformerVA: 'Transformer',
+	secondaryVac: 'Secondary per rail',
+	rectifier: 'Rectifier',
+	diodeDropV: 'Diode drop',
+	reservoirF: 'Reservoir per rail',
+	capRatingV: 'Reservoir voltage rating',
+	loadCurrentA: 'Load current per rail',
+	fuse: 'Primary fuse',
+	'fuse.ratingA': 'Primary fuse rating',
+	'fuse.type': 'Primary fuse type',
+	chassis: 'Chassis',
+	protectiveEarth: 'Protective earth bonded to chassis',
+	doubleInsulated: 'Double insulated',
+	bleeder: 'Bleeder',
+	'bleeder.ohm': 'Bleeder resistor',
+	mainsPowered: 'Mains powered',
+	regulationPct: 'Transformer regulation',
+	mainsHighPct: 'High-mains allowance',
+	amplifierDemandW: 'Amplifier output fed',
+	peakDcV: 'Unloaded DC rail',
+	rippleVpp: 'Ripple',
+	averageDcV: 'Average DC rail',
+	highMainsPeakDcV: 'Unloaded rail at high mains',
+	capMarginRatio: 'Capacitor voltage margin',
+	highMainsCapMarginRatio: 'Capacitor margin at high mains',
+	railCount: 'Rails',
+	primaryCurrentA: 'Primary current',
+	fuseMinA: 'Suggested fuse from',
+	fuseMaxA: 'Suggested fuse up to',
+	storedEnergyJ: 'Stored energy',
+	vaNeeded: 'Transformer VA needed',
+	vaHeadroomRatio: 'VA headroom',
+	bleederTimeS: 'Bleeder discharge time',
+	bleederPowerW: 'Bleeder dissipation',
+	powerW: 'Dissipation',
+	ambientC: 'Ambient',
+	junctionMaxC: 'Junction max',
+	rthJcKPerW: 'Rth junction–case',
+	rthCsKPerW: 'Rth case–sink',
+	rthSaKPerW: 'Rth sink–ambient',
+	tabAtRail: 'Tab at a supply rail',
+	tabInsulated: 'Tab insulated',
+	heatsinkBondedToChassis: 'Heatsink bonded to chassis',
+	junctionC: 'Junction temperature',
+	caseC: 'Case temperature',
+	sinkC: 'Heatsink temperature',
+	requiredRthSaKPerW: 'Largest heatsink Rth (at the limit)',
+	requiredRthSaForMarginKPerW: 'Largest heatsink Rth (with margin)',
+	headroomC: 'Headroom to junction max',
+	dcOffsetMv: 'DC offset per channel',
+	noiseUv: 'Output noise',
+	idleCurrentMa: 'Idle current',
+	maxAbsOffsetMv: 'Largest DC offset',
+	clipPowerW: 'Power at ≤ 1 % THD',
+	maxMeasuredPowerW: 'Highest measured power',
+	responseLowHz: 'Response low corner (−3 dB)',
+	responseHighHz: 'Response high corner (−3 dB)',
+	snr1WDb: 'SNR re 1 W',
+	currentLimited: 'First start current limited',
+	oscillationChecked: 'Oscillation checked',
+	oscillationFound: 'Oscillation found',
+	'heatSoak.minutes': 'Heat soak time',
+	'heatSoak.sinkC': 'Heatsink after heat soak',
+	maxRailDeviationPct: 'Largest rail deviation',
+	maxIdleDeviationPct: 'Largest idle-current deviation'
+};
+
+/** Unit suffixes of field names, longest first (API.md: every numeric field name ends in its unit). */
+const UNIT_SUFFIXES: ReadonlyArray<readonly [RegExp, string]> = [
+	[/KPerW$/, 'K/W'],
+	[/Ohm$/, 'Ω'],
+	[/Vac$/, 'V AC'],
+	[/Vpp$/, 'Vpp'],
+	[/VA$/, 'VA'],
+	[/Hz$/, 'Hz'],
+	[/Db$/, 'dB'],
+	[/Pct$/, '%'],
+	[/Ratio$/, '×'],
+	[/Mv$/, 'mV'],
+	[/Ma$/, 'mA'],
+	[/Uv$/, 'µV'],
+	[/minutes$/, 'min'],
+	[/[a-z]C$/, '°C'],
+	[/[a-z]W$/, 'W'],
+	[/[a-z]V$/, 'V'],
+	[/[a-z]A$/, 'A'],
+	[/[a-z]F$/, 'F'],
+	[/[a-z]S$/, 's'],
+	[/[a-z]J$/, 'J']
+];
+
+/** The unit a field name ends in, or '' (unitOf('rthSaKPerW') → 'K/W', unitOf('device.maxSupplyV') → 'V'). */
+export function unitOf(key: string): string {
+	const last = key.split('.').pop() ?? key;
+	if (last === 'efficiency') return '%';
+	for (const [re, unit] of UNIT_SUFFIXES) if (re.test(last)) return unit;
+	return '';
+}
+
+/** A readable label for a field key (labelOf('maxPowerW') → 'Max sine power'). */
+export function labelOf(key: string): string {
+	if (LABELS[key]) return LABELS[key];
+	const last = key.split('.');
+	const words = last
+		.map((p) => (/^\d+$/.test(p) ? `#${Number(p) + 1}` : p))
+		.join(' ')
+		.replace(/(KPerW|Ohm|Vac|Vpp|VA|Hz|Db|Pct|Ratio|Mv|Ma|Uv|C|W|V|A|F|S|J)$/, '')
+		.replace(/([a-z])([A-Z])/g, '$1 $2')
+		.toLowerCase()
+		.trim();
+	return words.charAt(0).toUpperCase() + words.slice(1);
+}
+
+/** 3 significant figures without trailing noise: sig3(31.0296) → "31"; sig3(0.000123) → "0.000123". */
+export function sig3(x: number): string {
+	if (!Number.isFinite(x)) return String(x);
+	const r = Number(x.toPrecision(3));
+	return Math.abs(r) >= 1e6 || (Math.abs(r) < 1e-3 && r !== 0) ? r.toExponential(2) : String(r);
+}
+
+/**
+ * A value with its unit for display: farads, ohms and henries with an engineering prefix ("10 mF", "4.7 kΩ"),
+ * efficiency 0–1 as percent, booleans as yes/no, others with 3 significant figures ("31 W").
+ */
+export function showValue(key: string, value: unknown): string {
+	if (value === null || value === undefined) return '—';
+	if (typeof value === 'boolean') return value ? 'yes' : 'no';
+	if (typeof value === 'number') {
+		const unit = unitOf(key);
+		const last = key.split('.').pop() ?? key;
+		if (last === 'efficiency') return `${sig3(value * 100)} %`;
+		if (unit === 'F' || unit === 'Ω') {
+			try {
+				return formatValue(value, unit === 'Ω' ? 'ohm' : unit);
+			} catch {
+				return String(value);
+			}
+		}
+		if (unit === '×') return `${sig3(value)} ×`;
+		return unit ? `${sig3(value)} ${unit}` : sig3(value);
+	}
+	if (Array.isArray(value)) return value.map((v) => showValue(key, v)).join(', ');
+	if (typeof value === 'object') return JSON.stringify(value);
+	return String(value);
+}
+
+/**
+ * Flatten a block's nested data into [dotted key, value] rows for display; arrays of numbers stay one row,
+ * arrays of objects (points, rails) are left out (they have their own tables and plots).
+ * flatten({ device: { maxSupplyV: 60 } }) → [['device.maxSupplyV', 60]].
+ */
+export function flatten(data: unknown, prefix = ''): [string, unknown][] {
+	if (data === null || typeof data !== 'object' || Array.isArray(data)) return prefix ? [[prefix, data]] : [];
+	const rows: [string, unknown][] = [];
+	for (const [k, v] of Object.entries(data as Record<string, unknown>)) {
+		const key = prefix ? `${prefix}.${k}` : k;
+		if (Array.isArray(v)) {
+			if (v.every((x) => typeof x === 'number' || typeof x === 'string')) rows.push([key, v]);
+		} else if (v !== null && typeof v === 'object') rows.push(...flatten(v, key));
+		else rows.push([key, v]);
+	}
+	return rows;
+}
+
+/** Check levels, most serious first, and their labels. */
+export const LEVELS = ['danger', 'caution', 'note'] as const;
+/** Label of a check level. */
+export const LEVEL_LABEL: Record<string, string> = { note: 'Note', caution: 'Caution', danger: 'Danger' };
+
+/** Sort checks most serious first (danger, caution, note), stable otherwise. */
+export function bySeverity<T extends { level: string }>(checks: readonly T[]): T[] {
+	const rank = (l: string) => {
+		const i = (LEVELS as readonly string[]).indexOf(l);
+		return i < 0 ? LEVELS.length : i;
+	};
+	return [...checks].sort((a, b) => rank(a.level) - rank(b.level));
+}

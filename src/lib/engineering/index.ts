@@ -1,0 +1,111 @@
+/**
+ * The trade's computations: pure TypeScript, no I/O, no Svelte/Kit/DB imports.
+ * Runs unchanged in the browser (bench tools) and on the server (spec checks).
+ * Plain SI numbers with the unit in every name; RangeError (InputRangeError names the field) for impossible input.
+ */
+export {
+	InputRangeError,
+	MARKING_KINDS,
+	TOLERANCE_LETTERS,
+	cleanNumber,
+	parseValue,
+	decodeMarking,
+	formatValue,
+	taperNoteFor,
+	type ValueKind,
+	type ValueUnit,
+	type ValueAs,
+	type MarkingAs,
+	type ParsedValue,
+	type DecodedMarking
+} from './values';
+export { E_SERIES, isESeriesName, eSeriesMantissas, nearestESeries, type ESeriesName, type ESeriesSnap } from './eseries';
+export {
+	BAND_COLORS,
+	normaliseColor,
+	bandsFromValue,
+	valueFromBands,
+	type BandColor,
+	type BandReading
+} from './bands';
+export { networkValue, seriesValue, parallelValue, type NetworkPart, type NetworkArrangement } from './network';
+export {
+	amplifierOutput,
+	railPerSideV,
+	totalSupplyV,
+	worstCaseDissipationW,
+	nonInvertingGain,
+	rcCornerHz,
+	cascadeHighPassHz,
+	cascadeLowPassHz,
+	zobel,
+	type SupplyKind,
+	type AmplifierInput,
+	type AmplifierOutput,
+	type ZobelInput
+} from './amplifier';
+export {
+	heatsink,
+	junctionTempC,
+	deratedPowerW,
+	CASE_TO_SINK_KPERW,
+	type HeatsinkInput,
+	type HeatsinkOutput,
+	type JunctionInput,
+	type InterfaceKind,
+	type CaseToSinkEntry
+} from './thermal';
+export {
+	RECTIFIERS,
+	DIODE_DROPS,
+	RAIL_COUNT,
+	TRANSFORMER_VA_FACTOR,
+	rippleHz,
+	unloadedRailV,
+	supplyRails,
+	reservoirForRippleF,
+	highMainsRailV,
+	capMarginRatio,
+	transformerVaNeeded,
+	bleederTimeS,
+	bleederPowerW,
+	storedEnergyJ,
+	primaryCurrentA,
+	primaryFuseRangeA,
+	type RectifierKind,
+	type SupplyRailsInput,
+	type SupplyRailsOutput,
+	type ReservoirInput,
+	type HighMainsInput,
+	type BleederInput
+} from './supply';
+export {
+	COPPER_RESISTIVITY_OHM_M,
+	parallelLoadOhm,
+	seriesLoadOhm,
+	minimumImpedanceOhm,
+	cableResistanceOhm,
+	dampingFactor,
+	type DampingInput
+} from './speaker';
+export {
+	DBU_REF_V,
+	voltageRatioDb,
+	powerRatioDb,
+	dbV,
+	dbu,
+	dbW,
+	dbm,
+	vFromDbV,
+	vFromDbu,
+	wFromDbW,
+	wFromDbm,
+	sinePowerW,
+	vrmsForPowerW,
+	thdPct,
+	pctToDb,
+	snrDb,
+	idleCurrentA,
+	responseCornersHz,
+	type ResponsePoint
+} from './measure';

@@ -1,0 +1,214 @@
+/**
+ * Capacitor-input linear supply: transformer → rectifier → reservoir (REFERENCE.md §4).
+ * Sources: Horowitz & Hill, The Art of Electronics, ch. 1 rectifiers and filters (ripple ≈ I/(2·f·C) full wave);
+ * RC discharge for bleeders (standard); transformer and capacitor-margin rules are common practice, no single source.
+ * CAUTION: mains and stored charge can kill or burn. These numbers inform a design, they certify nothing —
+ * defer to local codes and licensed practice.
+ */
+import { InputRangeError } from './values';
+
+/** Rectifier arrangements (API.md /tools/supply). */
+export type RectifierKind = 'bridge' | 'bridge-split' | 'center-tap' | 'half-wave';
+/** All rectifier kinds. */
+export const RECTIFIERS = ['bridge', 'bridge-split', 'center-tap', 'half-wave'] as const;
+
+/** Diode drops in each rail's charging path: bridge 2, bridge-split 1, centre-tap 1, half-wave 1. */
+export const DIODE_DROPS: Readonly<Record<RectifierKind, number>> = {
+	bridge: 2,
+	'bridge-split': 1,
+	'center-tap': 1,
+	'half-wave': 1
+};
+
+/** Rails a rectifier makes: bridge-split gives ± rails, the others one. */
+export const RAIL_COUNT: Readonly<Record<RectifierKind, number>> = {
+	bridge: 1,
+	'bridge-split': 2,
+	'center-tap': 1,
+	'half-wave': 1
+};
+
+/** Ripple frequency as a multiple of mains: 2 for full wave, 1 for half wave. rippleHz('bridge', 50) → 100. */
+export function rippleHz(rectifier: RectifierKind, mainsHz: number): number {
+	if (!(rectifier in DIODE_DROPS)) throw new InputRangeError('rectifier', `unknown rectifier "${String(rectifier)}"`);
+	pos('mainsHz', mainsHz, 'Hz');
+	return rectifier === 'half-wave' ? mainsHz : 2 * mainsHz;
+}
+
+function pos(field: string, v: number, unit: string): void {
+	if (!(typeof v === 'number' && Number.isFinite(v) && v > 0))
+		throw new InputRangeError(field, `${field} must be a finite number greater than 0 ${unit}`);
+}
+function nonNeg(field: string, v: number, unit: string): void {
+	if (!(typeof v === 'number' && Number.isFinite(v) && v >= 0))
+		throw new InputRangeError(field, `${field} must be a finite number of 0 ${unit} or more`);
+}
+
+/** Inputs of supplyRails(). */
+export interface SupplyRailsInput {
+	/** RMS of the winding that feeds one rail (each half of a centre-tapped winding). V. */
+	secondaryVac: number;
+	rectifier: RectifierKind;
+	/** Forward drop per diode. V. */
+	diodeDropV?: number;
+	mainsHz: number;
+	/** Per rail. A. */
+	loadCurrentA: number;
+	/** Per rail. F. */
+	capacitanceF: number;
+}
+
+/** Outputs of supplyRails(): per rail. */
+export interface SupplyRailsOutput {
+	/** Unloaded DC rail √2·Vac − n·Vf. V. */
+	peakDcV: number;
+	/** I/(fr·C), fr = 2f full wave, f half wave. V peak-to-peak. */
+	rippleVpp: number;
+	/** peakDcV − rippleVpp/2. V. */
+	averageDcV: number;
+}
+
+/** Unloaded DC rail √2·Vac − n·Vf, V. unloadedRailV(25, 'bridge-split', 0.8) → 34.56 V. */
+export function unloadedRailV(secondaryVac: number, rectifier: RectifierKind, diodeDropV = 0.7): number {
+	pos('secondaryVac', secondaryVac, 'V');
+	nonNeg('diodeDropV', diodeDropV, 'V');
+	const n = DIODE_DROPS[rectifier];
+	if (n === undefined) throw new InputRangeError('rectifier', `unknown rectifier "${String(rectifier)}"`);
+	const v = Math.SQRT2 * secondaryVac - n * diodeDropV;
+	if (!(v > 0))
+		throw new InputRangeError('diodeDropV', `the diode drops (${n} × ${diodeDropV} V) eat the whole ${secondaryVac} V secondary`);
+	return v;
+}
+
+/**
+ * Rails of a capacitor-input supply (API.md /tools/supply), per rail. Assumes constant load current
+ * discharging the reservoir for a whole ripple period (slightly pessimistic), ESR ignored.
+ * 25 V, bridge-split, 0.8 V, 50 Hz, 3 A, 10 mF → peakDcV 34.56, rippleVpp 3.0, averageDcV 33.06.
+ */
+export function supplyRails(input: SupplyRailsInput): SupplyRailsOutput {
+	const { secondaryVac, rectifier, diodeDropV = 0.7, mainsHz, loadCurrentA, capacitanceF } = input;
+	const peakDcV = unloadedRailV(secondaryVac, rectifier, diodeDropV);
+	nonNeg('loadCurrentA', loadCurrentA, 'A');
+	pos('capacitanceF', capacitanceF, 'F');
+	const rippleVpp = loadCurrentA / (rippleHz(rectifier, mainsHz) * capacitanceF);
+	if (rippleVpp >= peakDcV)
+		throw new InputRangeError(
+			'capacitanceF',
+			`the ripple (${rippleVpp.toFixed(1)} Vpp) would exceed the ${peakDcV.toFixed(1)} V rail: capacitanceF is far too small for loadCurrentA`
+		);
+	return { peakDcV, rippleVpp, averageDcV: peakDcV - rippleVpp / 2 };
+}
+
+/** Inputs of reservoirForRippleF(). */
+export interface ReservoirInput {
+	loadCurrentA: number;
+	mainsHz: number;
+	rippleVpp: number;
+	rectifier?: RectifierKind;
+}
+
+/** Reservoir capacitance for a ripple target, C = I/(fr·Vpp), F. reservoirForRippleF({ loadCurrentA: 2, mainsHz: 50, rippleVpp: 2 }) → 0.01 F (10 000 µF). */
+export function reservoirForRippleF(input: ReservoirInput): number {
+	const { loadCurrentA, mainsHz, rippleVpp, rectifier = 'bridge' } = input;
+	nonNeg('loadCurrentA', loadCurrentA, 'A');
+	pos('rippleVpp', rippleVpp, 'V');
+	return loadCurrentA / (rippleHz(rectifier, mainsHz) * rippleVpp);
+}
+
+/** Inputs of highMainsRailV(). */
+export interface HighMainsInput {
+	secondaryVac: number;
+	rectifier: RectifierKind;
+	diodeDropV?: number;
+	/** Transformer regulation (off-load rise over the full-load rating). % — read the transformer's data. */
+	regulationPct?: number;
+	/** Mains above nominal to design for. % (±10 % is the usual design figure, from memory for national limits). */
+	mainsHighPct?: number;
+}
+
+/**
+ * Worst-case unloaded rail for component ratings: Vac·(1 + reg)·(1 + mains high)·√2 − n·Vf, V.
+ * highMainsRailV({ secondaryVac: 25, rectifier: 'bridge-split', diodeDropV: 0.8, regulationPct: 7, mainsHighPct: 10 }) → 40.81 V.
+ */
+export function highMainsRailV(input: HighMainsInput): number {
+	const { secondaryVac, rectifier, diodeDropV = 0.7, regulationPct = 0, mainsHighPct = 10 } = input;
+	nonNeg('regulationPct', regulationPct, '%');
+	nonNeg('mainsHighPct', mainsHighPct, '%');
+	pos('secondaryVac', secondaryVac, 'V');
+	return unloadedRailV(secondaryVac * (1 + regulationPct / 100) * (1 + mainsHighPct / 100), rectifier, diodeDropV);
+}
+
+/**
+ * Capacitor voltage margin = rating / rail (common practice: ≥ 1.2 against the high-mains rail; < 1 is over-voltage).
+ * capMarginRatio(50, 40.81) → 1.225.
+ */
+export function capMarginRatio(capRatingV: number, railV: number): number {
+	pos('capRatingV', capRatingV, 'V');
+	pos('railV', railV, 'V');
+	return capRatingV / railV;
+}
+
+/** Multiplier of the transformer VA rule (common practice, no single source: 1.0–2.0 × the sum of output powers, 1.5 the middle). */
+export const TRANSFORMER_VA_FACTOR = 1.5;
+
+/**
+ * Transformer VA for a class AB amplifier by the rule of thumb VA ≈ factor × Σ rated output power
+ * (factor 1.5 by default; common practice, no single source). transformerVaNeeded([50, 50]) → 150 VA.
+ */
+export function transformerVaNeeded(outputPowersW: number | readonly number[], factor = TRANSFORMER_VA_FACTOR): number {
+	const list = typeof outputPowersW === 'number' ? [outputPowersW] : [...outputPowersW];
+	if (list.length === 0) throw new InputRangeError('outputPowersW', 'give at least one output power');
+	list.forEach((p, i) => nonNeg(`outputPowersW.${i}`, p, 'W'));
+	pos('factor', factor, '');
+	return factor * list.reduce((a, b) => a + b, 0);
+}
+
+/** Inputs of bleederTimeS(). */
+export interface BleederInput {
+	bleederOhm: number;
+	capacitanceF: number;
+	startV: number;
+	/** Voltage considered discharged. V. */
+	safeV: number;
+}
+
+/** Time for a bleeder to discharge a reservoir from startV to safeV, t = R·C·ln(V0/Vsafe), s. 4.7 kΩ, 10 mF, 50 V → 5 V: 108.2 s. */
+export function bleederTimeS(input: BleederInput): number {
+	const { bleederOhm, capacitanceF, startV, safeV } = input;
+	pos('bleederOhm', bleederOhm, 'Ω');
+	pos('capacitanceF', capacitanceF, 'F');
+	pos('startV', startV, 'V');
+	pos('safeV', safeV, 'V');
+	if (safeV >= startV) return 0;
+	return bleederOhm * capacitanceF * Math.log(startV / safeV);
+}
+
+/** Bleeder dissipation at a rail, P = V²/R, W (choose a part rated well above it). bleederPowerW(50, 4700) → 0.532 W. */
+export function bleederPowerW(railV: number, bleederOhm: number): number {
+	nonNeg('railV', railV, 'V');
+	pos('bleederOhm', bleederOhm, 'Ω');
+	return (railV * railV) / bleederOhm;
+}
+
+/** Energy stored in a capacitor, E = ½·C·V², J. storedEnergyJ(0.01, 40) → 8 J. */
+export function storedEnergyJ(capacitanceF: number, voltageV: number): number {
+	nonNeg('capacitanceF', capacitanceF, 'F');
+	if (!Number.isFinite(voltageV)) throw new InputRangeError('voltageV', 'voltageV must be finite');
+	return 0.5 * capacitanceF * voltageV * voltageV;
+}
+
+/** Full-load primary current Ip = VA/Vmains, A. primaryCurrentA(160, 230) → 0.696 A. */
+export function primaryCurrentA(transformerVA: number, mainsVac: number): number {
+	pos('transformerVA', transformerVA, 'VA');
+	pos('mainsVac', mainsVac, 'V');
+	return transformerVA / mainsVac;
+}
+
+/**
+ * Usual time-delay primary fuse range, 1.5–3 × full-load primary current (common practice, no single source;
+ * toroids may need more for inrush — ask the transformer maker). primaryFuseRangeA(160, 230) → { minA: 1.04, maxA: 2.09 }.
+ */
+export function primaryFuseRangeA(transformerVA: number, mainsVac: number): { minA: number; maxA: number } {
+	const ip = primaryCurrentA(transformerVA, mainsVac);
+	return { minA: 1.5 * ip, maxA: 3 * ip };
+}

@@ -1,0 +1,41 @@
+import { describe, it, expect, afterAll, beforeAll } from 'vitest';
+import postgres from 'postgres';
+import { createScratchDatabase } from '../testing/db';
+import { drizzle } from 'drizzle-orm/postgres-js';
+import * as schema from '../db/schema';
+import { seedDemoIfEmpty, DEMO_MEMBERS } from './index';
+import { DEMO_ACCOUNTS } from '../../../../scripts/lib/demo-accounts.js';
+
+describe('demo seed', async () => {
+	const scratch = await createScratchDatabase('seed');
+	const client = postgres(scratch.url, { max: 4, onnotice: () => {} });
+	const database = drizzle(client, { schema });
+	beforeAll(() => scratch.migrate());
+	afterAll(async () => {
+		await client.end({ timeout: 5 });
+		await scratch.drop();
+	});
+
+	it('seeds once and is idempotent, also when two runs race', async () => {
+		const results = await Promise.all([seedDemoIfEmpty(database), seedDemoIfEmpty(database)]);
+		expect(results.filter(Boolean)).toHaveLength(1);
+		expect(await seedDemoIfEmpty(database)).toBe(false);
+		const sql = postgres(scratch.url, { max: 1 });
+		try {
+			const [{ n }] = await sql`select count(*)::int as n from "user"`;
+			expect(n).toBe(DEMO_MEMBERS.length);
+			const roles = await sql`select distinct role from "user" order by role`;
+			expect(roles.map((r) => r.role)).toEqual(['admin', 'maker', 'moderator', 'reviewer']);
+			const [{ b }] = await sql`select count(*)::int as b from build`;
+			expect(b).toBeGreaterThan(0);
+		} finally {
+			await sql.end({ timeout: 5 });
+		}
+	});
+
+	it('prints the same demo accounts that it seeds', () => {
+		expect(DEMO_ACCOUNTS.members.map((m) => `${m.role}:${m.email}`)).toEqual(
+			DEMO_MEMBERS.map((m) => `${m.role}:${m.email}`)
+		);
+	});
+});

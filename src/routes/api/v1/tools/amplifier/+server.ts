@@ -1,0 +1,14 @@
+import type { RequestHandler } from './$types';
+import { amplifierOutput } from '$lib/engineering';
+import { amplifierToolInput } from '$lib/schemas/tools';
+import { methodNotAllowed, readJson, toolResponse } from '$lib/server/api';
+
+/** POST /api/v1/tools/amplifier — maximum sine power and class B dissipation (API.md). */
+export const POST: RequestHandler = async ({ request }) => {
+	const body = await readJson(request);
+	if (!body.ok) return body.response;
+	return toolResponse(amplifierToolInput, body.body, (input) => amplifierOutput(input));
+};
+
+/** Any other method → 405 method_not_allowed. */
+export const fallback: RequestHandler = () => methodNotAllowed(['POST']);
