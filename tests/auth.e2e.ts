@@ -96,7 +96,7 @@ test('a suspended member cannot sign in; restored, they can', async ({ browser }
 	const row = mod.locator(`tr[data-member="${handle}"]`);
 	await row.getByLabel(/Reason to suspend/).fill('Spam links in comments');
 	await row.getByRole('button', { name: 'Suspend' }).click();
-	await expect(row.getByText('suspended')).toBeVisible();
+	await expect(row.getByText('suspended', { exact: true })).toBeVisible();
 
 	// Their live session has ended…
 	await page.reload();

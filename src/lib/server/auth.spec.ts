@@ -7,7 +7,7 @@ const current: { event: { locals: { user: unknown }; url: URL; request: Request 
 };
 vi.mock('$app/server', () => ({ getRequestEvent: () => current.event }));
 
-const { requireUser, requireRole, auth } = await import('./auth');
+const { requireUser, requireRole, auth, CLIENT_ADDRESS_HEADER } = await import('./auth');
 
 function setUser(user: unknown, path = '/builds/new') {
 	current.event = { locals: { user }, url: new URL(`http://x${path}`), request: new Request(`http://x${path}`) };
@@ -62,7 +62,7 @@ describe('sign-in rate limit (better-auth, stored in PostgreSQL)', () => {
 			const res = await auth.handler(
 				new Request(new URL('/api/auth/sign-in/email', base), {
 					method: 'POST',
-					headers: { 'content-type': 'application/json', 'x-forwarded-for': ip, origin: new URL(base).origin },
+					headers: { 'content-type': 'application/json', [CLIENT_ADDRESS_HEADER]: ip, origin: new URL(base).origin },
 					body: JSON.stringify({ email: 'nobody@example.test', password: 'wrong-password-x' })
 				})
 			);

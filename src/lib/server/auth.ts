@@ -14,6 +14,9 @@ import { ROLES, roleAtLeast, type Role } from '$lib/roles';
 
 export { ROLES, roleAtLeast, type Role };
 
+/** Header the server sets to the client's address before better-auth sees a request. */
+export const CLIENT_ADDRESS_HEADER = 'x-starground-client';
+
 const baseURL = env.BETTER_AUTH_URL ?? env.ORIGIN ?? 'http://127.0.0.1:5173';
 
 export const auth = betterAuth({
@@ -89,6 +92,9 @@ export const auth = betterAuth({
 			'/sign-up/email': { window: 60, max: 10 },
 			'/request-password-reset': { window: 60, max: 5 }
 		}
+	},
+	advanced: {
+		ipAddress: { ipAddressHeaders: [CLIENT_ADDRESS_HEADER] }
 	},
 	databaseHooks: {
 		session: {

@@ -402,3 +402,26 @@ export function toPhotoView(row: schema.Photo): PhotoView & { stepId: string | n
 export async function renderIllustration(svg: string): Promise<Buffer> {
 	return sharp(Buffer.from(svg, 'utf8')).flatten({ background: '#f7f2e8' }).jpeg({ quality: 88 }).toBuffer();
 }
+
+/** The few build columns the photo routes need, found by slug; null when there is no such build. */
+export async function findBuildForPhotos(slug: string) {
+	const [b] = await db
+		.select({
+			id: schema.build.id,
+			slug: schema.build.slug,
+			ownerId: schema.build.ownerId,
+			status: schema.build.status,
+			locked: schema.build.locked,
+			lockedReason: schema.build.lockedReason,
+			coverPhotoId: schema.build.coverPhotoId
+		})
+		.from(schema.build)
+		.where(eq(schema.build.slug, slug));
+	return b ?? null;
+}
+
+/** One photo row, or null. */
+export async function findPhoto(photoId: string): Promise<schema.Photo | null> {
+	const [row] = await db.select().from(schema.photo).where(eq(schema.photo.id, photoId));
+	return row ?? null;
+}

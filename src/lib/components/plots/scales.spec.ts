@@ -4,7 +4,14 @@ import { axisDomain, axisTicks, drawable, formatTick, makeScale } from './scales
 describe('axisDomain', () => {
 	it('covers the values, padded on linear axes', () => {
 		expect(axisDomain([2, 8, 5])).toEqual([2, 8]);
-		expect(axisDomain([0, 10], false, 0.1)).toEqual([-1, 11]);
+		expect(axisDomain([10, 20], false, 0.1)).toEqual([9, 21]);
+		expect(axisDomain([-10, 10], false, 0.1)).toEqual([-12, 12]);
+	});
+	it('does not pad an all-positive axis below zero', () => {
+		expect(axisDomain([0, 10], false, 0.1)).toEqual([0, 11]);
+		const [lo, hi] = axisDomain([0.2, 10], false, 0.1);
+		expect(lo).toBe(0);
+		expect(hi).toBeCloseTo(10.98, 9);
 	});
 	it('never collapses and ignores what cannot be drawn', () => {
 		expect(axisDomain([])).toEqual([0, 1]);

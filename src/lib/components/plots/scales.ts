@@ -30,7 +30,7 @@ export function drawable(points: PlotPoint[], xLog = false, yLog = false): PlotP
 /**
  * The [min, max] a plot axis should cover. Empty input gives [0, 1] (or [1, 10] on a log axis);
  * a single value is widened so the axis never collapses. Linear domains are padded by `padFraction`
- * of the span on each side. [2, 8] → [2, 8] with no padding.
+ * of the span on each side, never below 0 when all values are ≥ 0. [2, 8] → [2, 8] with no padding.
  */
 export function axisDomain(values: number[], log = false, padFraction = 0): [number, number] {
 	const usable = values.filter((v) => Number.isFinite(v) && (!log || v > 0));
@@ -46,7 +46,8 @@ export function axisDomain(values: number[], log = false, padFraction = 0): [num
 		return [lo - widen, hi + widen];
 	}
 	const pad = (hi - lo) * padFraction;
-	lo -= pad;
+	// Padding never pushes an all-positive axis below zero (a power or a temperature axis starts at 0, not −50).
+	lo = lo >= 0 && lo - pad < 0 ? 0 : lo - pad;
 	hi += pad;
 	return [lo, hi];
 }

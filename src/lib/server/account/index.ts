@@ -2,7 +2,7 @@ import { eq } from 'drizzle-orm';
 import type { Cookies } from '@sveltejs/kit';
 import { parseSetCookieHeader, toCookieOptions } from 'better-auth/cookies';
 import { env } from '$env/dynamic/private';
-import { auth } from '../auth';
+import { auth, CLIENT_ADDRESS_HEADER } from '../auth';
 import { db } from '../db';
 import * as schema from '../db/schema';
 
@@ -25,7 +25,7 @@ export async function signInWithPassword(
 	const res = await auth.handler(
 		new Request(new URL('/api/auth/sign-in/email', base), {
 			method: 'POST',
-			headers: { 'content-type': 'application/json', 'x-forwarded-for': clientAddress, origin: new URL(base).origin },
+			headers: { 'content-type': 'application/json', [CLIENT_ADDRESS_HEADER]: clientAddress, origin: new URL(base).origin },
 			body: JSON.stringify({ email, password, rememberMe: true })
 		})
 	);

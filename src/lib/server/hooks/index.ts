@@ -1,7 +1,7 @@
 import type { Handle } from '@sveltejs/kit';
-import { svelteKitHandler } from 'better-auth/svelte-kit';
+import { svelteKitHandler, isAuthPath } from 'better-auth/svelte-kit';
 import { building } from '$app/environment';
-import { auth } from '../auth';
+import { auth, CLIENT_ADDRESS_HEADER } from '../auth';
 import { apiError, type ApiErrorCode } from '../api';
 
 /** Resolve the session once per request into locals, then let better-auth serve /api/auth/*. */
@@ -13,6 +13,13 @@ export const handleAuth: Handle = async ({ event, resolve }) => {
 	} else {
 		event.locals.user = null;
 		event.locals.session = null;
+	}
+	if (!building && isAuthPath(event.url.toString(), auth.options)) {
+		// Pass the client address in a header only the server sets, so better-auth's rate limiter
+		// keys on the real client (a header the client sent under that name is overwritten).
+		const headers = new Headers(event.request.headers);
+		headers.set(CLIENT_ADDRESS_HEADER, event.getClientAddress());
+		return auth.handler(new Request(event.request, { headers }));
 	}
 	return svelteKitHandler({ event, resolve, auth, building });
 };

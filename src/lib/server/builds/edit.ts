@@ -1,0 +1,164 @@
+/** Creating, changing, publishing, archiving and locking builds. Every write checks who is acting. */
+import { error } from '@sveltejs/kit';
+import { count, eq, like, or } from 'drizzle-orm';
+import * as schema from '../db/schema';
+import type { Tx } from '../db';
+import { recordAudit } from '../audit';
+import { buildSchema, type BuildInput } from '$lib/schemas/build';
+import { assertCanEdit, canLock, type Actor } from './access';
+import { nextFreeSlug, slugify } from './slug';
+import { recordRevision } from './revisions';
+import { refreshSearchText } from './search';
+import { inTx, pgCode } from './tx';
+
+/** Load a build by id for a change, locking its row until the transaction ends; 404 when absent. */
+export async function lockBuild(tx: Tx, buildId: string): Promise<schema.Build> {
+	const [b] = await tx.select().from(schema.build).where(eq(schema.build.id, buildId)).for('update');
+	if (!b) error(404, 'Not found');
+	return b;
+}
+
+/** The first free slug for a title, given what is in the table now. */
+async function freeSlug(tx: Tx, title: string, exceptId?: string): Promise<string> {
+	const base = slugify(title);
+	const rows = await tx
+		.select({ slug: schema.build.slug, id: schema.build.id })
+		.from(schema.build)
+		.where(or(eq(schema.build.slug, base), like(schema.build.slug, `${base}-%`)));
+	return nextFreeSlug(
+		base,
+		rows.filter((r) => r.id !== exceptId).map((r) => r.slug)
+	);
+}
+
+/**
+ * Write a row with a fresh slug; on a unique-slug clash with a concurrent writer, take the next one.
+ * Runs each attempt in a savepoint so a clash does not abort the caller's transaction.
+ */
+export async function withFreeSlug<T>(tx: Tx, title: string, write: (tx: Tx, slug: string) => Promise<T>, exceptId?: string): Promise<T> {
+	for (let attempt = 0; ; attempt++) {
+		let slug = await freeSlug(tx, title, exceptId);
+		if (attempt > 0) slug = `${slug}-${crypto.randomUUID().slice(0, 4)}`;
+		try {
+			return await tx.transaction((sp) => write(sp, slug));
+		} catch (e) {
+			if (pgCode(e) !== '23505' || attempt >= 4) throw e;
+		}
+	}
+}
+
+/**
+ * Create a draft build owned by `ownerId` with a unique readable slug from its title (a suffix on a
+ * clash: "chip-amp-2"). Input is validated with buildSchema (throws ZodError on bad input).
+ * Works inside the caller's transaction (`tx`) or its own. → { id, slug }
+ */
+export async function createDraft(
+	ownerId: string,
+	input: BuildInput,
+	tx?: Tx,
+	extra: { derivedFromId?: string } = {}
+): Promise<{ id: string; slug: string }> {
+	const data = buildSchema.parse(input);
+	return inTx(tx, (t) =>
+		withFreeSlug(t, data.title, async (sp, slug) => {
+			const [row] = await sp
+				.insert(schema.build)
+				.values({ ...data, slug, ownerId, status: 'draft', derivedFromId: extra.derivedFromId ?? null })
+				.returning({ id: schema.build.id, slug: schema.build.slug });
+			return row;
+		})
+	);
+}
+
+/**
+ * Change a build's fields (owner or admin; not while locked). While a build has never been
+ * published its slug follows its title; after that the URL stays put. A published build gets a
+ * new revision. → { slug, revision } (revision null when none was recorded)
+ */
+export async function updateBuild(
+	actor: Actor,
+	buildId: string,
+	input: BuildInput,
+	tx?: Tx
+): Promise<{ slug: string; revision: number | null }> {
+	const data = buildSchema.parse(input);
+	return inTx(tx, async (t) => {
+		const b = await lockBuild(t, buildId);
+		assertCanEdit(actor, b);
+		let slug = b.slug;
+		const write = async (w: Tx, newSlug: string) => {
+			await w
+				.update(schema.build)
+				.set({ ...data, slug: newSlug, updatedAt: new Date() })
+				.where(eq(schema.build.id, buildId));
+			return newSlug;
+		};
+		if (b.status === 'draft' && !b.publishedAt && slugify(data.title) !== slugify(b.title)) {
+			slug = await withFreeSlug(t, data.title, write, buildId);
+		} else {
+			await write(t, b.slug);
+		}
+		const rev = await recordRevision(t, buildId, actor.id);
+		return { slug, revision: rev?.number ?? null };
+	});
+}
+
+/**
+ * Publish a draft, or publish again an archived build (owner or admin). Needs at least one step.
+ * The first publication is r1; publishing again after archiving records a revision only if the
+ * content changed meanwhile. → the revision number now current.
+ */
+export async function publish(actor: Actor, buildId: string, tx?: Tx): Promise<number> {
+	return inTx(tx, async (t) => {
+		const b = await lockBuild(t, buildId);
+		assertCanEdit(actor, b);
+		if (b.status === 'published') error(409, 'This build is already published.');
+		const [{ n }] = await t.select({ n: count() }).from(schema.buildStep).where(eq(schema.buildStep.buildId, buildId));
+		if (n === 0) error(422, 'Add at least one step before publishing: readers need to know how it was built.');
+		const now = new Date();
+		await t
+			.update(schema.build)
+			.set({ status: 'published', publishedAt: b.publishedAt ?? now, updatedAt: now })
+			.where(eq(schema.build.id, buildId));
+		await refreshSearchText(t, buildId);
+		const rev = await recordRevision(t, buildId, actor.id);
+		return rev?.number ?? b.revision;
+	});
+}
+
+/** Archive a published build (owner or admin): it leaves lists and feeds but stays readable at its URL. */
+export async function archive(actor: Actor, buildId: string, tx?: Tx): Promise<void> {
+	await inTx(tx, async (t) => {
+		const b = await lockBuild(t, buildId);
+		assertCanEdit(actor, b);
+		if (b.status !== 'published') error(409, 'Only a published build can be archived.');
+		await t.update(schema.build).set({ status: 'archived', updatedAt: new Date() }).where(eq(schema.build.id, buildId));
+	});
+}
+
+/**
+ * Lock or unlock a build (moderators and admins). A locked build cannot be changed by its maker.
+ * Locking needs a reason; both land in the audit log with the reason.
+ */
+export async function setLocked(actor: Actor, buildId: string, locked: boolean, reason: string, tx?: Tx): Promise<void> {
+	if (!canLock(actor)) error(403, 'Only moderators can lock or unlock builds.');
+	const why = reason.trim();
+	if (locked && why.length < 3) error(422, 'Give a reason for the lock (at least 3 characters); the maker sees it.');
+	if (why.length > 500) error(422, 'Keep the reason under 500 characters.');
+	await inTx(tx, async (t) => {
+		const b = await lockBuild(t, buildId);
+		if (b.locked === locked) return;
+		await t
+			.update(schema.build)
+			.set({ locked, lockedReason: locked ? why : null })
+			.where(eq(schema.build.id, buildId));
+		await recordAudit(t, {
+			actorId: actor.id,
+			action: locked ? 'build.lock' : 'build.unlock',
+			targetKind: 'build',
+			targetId: buildId,
+			reason: why,
+			details: { slug: b.slug, title: b.title }
+		});
+	});
+}

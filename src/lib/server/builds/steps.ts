@@ -1,0 +1,120 @@
+/** A build's steps: add, edit, delete, move up/down. Markdown is stored as source plus sanitized HTML. */
+import { error } from '@sveltejs/kit';
+import { and, asc, eq, gt, sql } from 'drizzle-orm';
+import * as schema from '../db/schema';
+import type { Tx } from '../db';
+import { renderMarkdown } from '../markdown';
+import { photoObjectKeys } from '../photos';
+import { deleteObjects } from '../storage';
+import { stepSchema, type StepInput } from '$lib/schemas/build';
+import { assertCanEdit, type Actor } from './access';
+import { lockBuild } from './edit';
+import { recordRevision } from './revisions';
+import { refreshSearchText } from './search';
+import { inTx } from './tx';
+
+/** After any change to a build's content: search text, updatedAt, and a revision if it is published. */
+export async function afterContentChange(tx: Tx, buildId: string, authorId: string): Promise<number | null> {
+	await refreshSearchText(tx, buildId);
+	await tx.update(schema.build).set({ updatedAt: new Date() }).where(eq(schema.build.id, buildId));
+	const rev = await recordRevision(tx, buildId, authorId);
+	return rev?.number ?? null;
+}
+
+/** The step and its build (row-locked), checking that `actor` may edit; 404 when the step is gone. */
+async function stepForEdit(tx: Tx, actor: Actor, stepId: string, buildId?: string) {
+	const [step] = await tx.select().from(schema.buildStep).where(eq(schema.buildStep.id, stepId));
+	if (!step || (buildId && step.buildId !== buildId)) error(404, 'That step no longer exists.');
+	const b = await lockBuild(tx, step.buildId);
+	assertCanEdit(actor, b);
+	return { step, build: b };
+}
+
+/** Add a step at the end (owner or admin). Validated with stepSchema. → { id, position } */
+export async function addStep(actor: Actor, buildId: string, input: StepInput, tx?: Tx): Promise<{ id: string; position: number }> {
+	const data = stepSchema.parse(input);
+	const bodyHtml = renderMarkdown(data.bodyMd);
+	return inTx(tx, async (t) => {
+		const b = await lockBuild(t, buildId);
+		assertCanEdit(actor, b);
+		const [{ next }] = await t
+			.select({ next: sql<number>`coalesce(max(${schema.buildStep.position}) + 1, 0)::int` })
+			.from(schema.buildStep)
+			.where(eq(schema.buildStep.buildId, buildId));
+		const [row] = await t
+			.insert(schema.buildStep)
+			.values({ buildId, position: next, title: data.title, bodyMd: data.bodyMd, bodyHtml })
+			.returning({ id: schema.buildStep.id, position: schema.buildStep.position });
+		await afterContentChange(t, buildId, actor.id);
+		return row;
+	});
+}
+
+/** Change a step's title and text (owner or admin). `buildId`, when given, must be the step's build. */
+export async function updateStep(actor: Actor, stepId: string, input: StepInput, tx?: Tx, buildId?: string): Promise<void> {
+	const data = stepSchema.parse(input);
+	const bodyHtml = renderMarkdown(data.bodyMd);
+	await inTx(tx, async (t) => {
+		const { step } = await stepForEdit(t, actor, stepId, buildId);
+		if (step.title === data.title && step.bodyMd === data.bodyMd && step.bodyHtml === bodyHtml) return;
+		await t
+			.update(schema.buildStep)
+			.set({ title: data.title, bodyMd: data.bodyMd, bodyHtml, updatedAt: new Date() })
+			.where(eq(schema.buildStep.id, stepId));
+		await afterContentChange(t, step.buildId, actor.id);
+	});
+}
+
+/**
+ * Delete a step (owner or admin); later steps move up one place. Its photos go with it: the rows in
+ * the transaction, then their stored objects once the rows are gone.
+ */
+export async function deleteStep(actor: Actor, stepId: string, tx?: Tx, buildId?: string): Promise<void> {
+	const photos = await inTx(tx, async (t) => {
+		const { step } = await stepForEdit(t, actor, stepId, buildId);
+		const gone = await t
+			.delete(schema.photo)
+			.where(eq(schema.photo.stepId, stepId))
+			.returning({ keyPrefix: schema.photo.keyPrefix, widths: schema.photo.widths });
+		await t.delete(schema.buildStep).where(eq(schema.buildStep.id, stepId));
+		await t
+			.update(schema.buildStep)
+			.set({ position: sql`${schema.buildStep.position} - 1` })
+			.where(and(eq(schema.buildStep.buildId, step.buildId), gt(schema.buildStep.position, step.position)));
+		await afterContentChange(t, step.buildId, actor.id);
+		return gone;
+	});
+	if (photos.length) {
+		await deleteObjects(photos.flatMap(photoObjectKeys)).catch((e) =>
+			console.error(`step ${stepId}: could not delete its photos' objects`, e)
+		);
+	}
+}
+
+/**
+ * Move a step one place up or down (owner or admin) by swapping it with its neighbour. Moving the
+ * first step up or the last down changes nothing. → the step's new 0-based index.
+ */
+export async function moveStep(actor: Actor, stepId: string, direction: 'up' | 'down', tx?: Tx, buildId?: string): Promise<number> {
+	return inTx(tx, async (t) => {
+		const { step } = await stepForEdit(t, actor, stepId, buildId);
+		const steps = await t
+			.select({ id: schema.buildStep.id, position: schema.buildStep.position })
+			.from(schema.buildStep)
+			.where(eq(schema.buildStep.buildId, step.buildId))
+			.orderBy(asc(schema.buildStep.position), asc(schema.buildStep.createdAt));
+		const ids = steps.map((s) => s.id);
+		const was = new Map(steps.map((s) => [s.id, s.position]));
+		const from = ids.indexOf(stepId);
+		const to = direction === 'up' ? from - 1 : from + 1;
+		if (to < 0 || to >= ids.length) return from;
+		[ids[from], ids[to]] = [ids[to], ids[from]];
+		// Rewrite every position (also repairs gaps or duplicates left by older data).
+		for (let i = 0; i < ids.length; i++) {
+			if (was.get(ids[i]) === i) continue;
+			await t.update(schema.buildStep).set({ position: i }).where(eq(schema.buildStep.id, ids[i]));
+		}
+		await afterContentChange(t, step.buildId, actor.id);
+		return to;
+	});
+}

@@ -1,0 +1,98 @@
+import { isHttpError, isRedirect } from '@sveltejs/kit';
+import { apiError, type ApiErrorCode } from './api';
+import { requireUser } from './auth';
+import { assertCanEdit, canView, type Viewer } from './builds/access';
+import { PhotoError, deletePhoto, findBuildForPhotos, findPhoto } from './photos';
+
+const codeFor: Record<number, ApiErrorCode> = {
+	400: 'invalid',
+	401: 'unauthenticated',
+	403: 'forbidden',
+	404: 'not_found',
+	409: 'conflict',
+	413: 'too_large',
+	415: 'invalid',
+	422: 'invalid'
+};
+
+/**
+ * Run a photo route handler and answer every expected failure with the JSON error envelope:
+ * a PhotoError (bad upload), or an `error()` thrown by a guard (401/403/404). Redirects and
+ * unexpected errors pass through (the latter become a logged 500 without details).
+ */
+export async function photoRoute(
+	handler: () => Promise<Response>,
+	opts: { htmlBack?: string } = {}
+): Promise<Response> {
+	try {
+		return await handler();
+	} catch (err) {
+		if (isRedirect(err)) throw err;
+		if (err instanceof PhotoError) {
+			if (opts.htmlBack) return htmlRefusal(err.status, err.message, opts.htmlBack);
+			return apiError(err.status, err.code, err.message, [{ path: err.path, message: err.message }]);
+		}
+		if (isHttpError(err)) {
+			if (opts.htmlBack) return htmlRefusal(err.status, err.body.message, opts.htmlBack);
+			return apiError(err.status, codeFor[err.status] ?? 'invalid', err.body.message);
+		}
+		throw err;
+	}
+}
+
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+
+/** True for a well-formed UUID (checked before it reaches a uuid column, which would throw). */
+export function isUuid(value: unknown): value is string {
+	return typeof value === 'string' && UUID.test(value);
+}
+
+/**
+ * The build at `slug` if `viewer` may change it: 404 when it does not exist or is a draft they
+ * cannot see, 401/403 from the build access rules otherwise (locked, another maker).
+ */
+export async function editableBuild(slug: string, viewer: Viewer) {
+	const b = await findBuildForPhotos(slug);
+	if (!b || !canView(viewer, b)) throw new PhotoError(404, 'not_found', 'There is no build at this address.', 'slug');
+	assertCanEdit(viewer, b);
+	return b;
+}
+
+/** Delete photo `photoId` of the build at `slug` for the signed-in maker (or an admin). */
+export async function deleteBuildPhoto(slug: string, photoId: string): Promise<string> {
+	const user = requireUser();
+	const b = await editableBuild(slug, user);
+	const row = isUuid(photoId) ? await findPhoto(photoId) : null;
+	if (!row || row.buildId !== b.id) throw new PhotoError(404, 'not_found', 'That photo is not part of this build (it may already be deleted).', 'id');
+	await deletePhoto(row.id);
+	return row.id;
+}
+
+/** True when the caller is a plain HTML form (no JavaScript), which wants a page back, not JSON. */
+export function wantsHtml(request: Request): boolean {
+	const accept = request.headers.get('accept') ?? '';
+	return accept.includes('text/html') && !accept.includes('application/json');
+}
+
+/** Same-origin page to send a no-JS form back to: the Referer when it is ours, else `fallback`. */
+export function backTo(request: Request, origin: string, fallback: string): string {
+	const ref = request.headers.get('referer');
+	if (ref) {
+		try {
+			const u = new URL(ref);
+			if (u.origin === origin) return u.pathname + u.search;
+		} catch {
+			/* ignore a malformed Referer */
+		}
+	}
+	return fallback;
+}
+
+const escapeHtml = (s: string) =>
+	s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!);
+
+/** A minimal page for a no-JS form whose upload was refused: the sentence and a way back. */
+export function htmlRefusal(status: number, message: string, back: string): Response {
+	const body = `<!doctype html><html lang="en"><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1"><title>Photo not added · Starground</title><body style="font-family:system-ui,sans-serif;max-width:40rem;margin:3rem auto;padding:0 1rem;background:#f7f2e8;color:#1f1d1a"><h1>Photo not added</h1><p>${escapeHtml(message)}</p><p><a href="${escapeHtml(back)}" style="color:#8a4220">Go back</a></p></body></html>`;
+	return new Response(body, { status, headers: { 'content-type': 'text/html; charset=utf-8' } });
+}

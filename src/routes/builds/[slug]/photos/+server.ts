@@ -1,0 +1,68 @@
+import { json, redirect } from '@sveltejs/kit';
+import type { RequestHandler } from './$types';
+import { requireUser } from '$lib/server/auth';
+import { backTo, editableBuild, isUuid, photoRoute, wantsHtml } from '$lib/server/photo-http';
+import { PhotoError, checkAlt, photoMaxBytes, processAndStorePhoto, toPhotoView } from '$lib/server/photos';
+
+/** Multipart overhead allowed on top of the photo itself (boundaries, the alt text, the other fields). */
+const FORM_OVERHEAD = 64 * 1024;
+
+/**
+ * Add a photo to a build: multipart `file`, `alt`, `purpose` ('cover' | 'step'), `stepId` (for a step).
+ * Sent by XHR (answers `{ photo }` or the error envelope) or by a plain form (redirects back).
+ */
+export const POST: RequestHandler = async ({ request, params, locals, url }) => {
+	const html = wantsHtml(request);
+	const back = backTo(request, url.origin, `/builds/${params.slug}/edit`);
+	if (!locals.user && html) redirect(303, `/sign-in?next=${encodeURIComponent(back)}`);
+
+	return photoRoute(
+		async () => {
+			const user = requireUser();
+			const b = await editableBuild(params.slug, user);
+
+			const max = photoMaxBytes();
+			const declared = Number(request.headers.get('content-length') ?? 0);
+			if (declared > max + FORM_OVERHEAD) {
+				throw new PhotoError(413, 'too_large', `The photo is larger than the ${Math.round(max / (1024 * 1024))} MB limit. Export it smaller and try again.`);
+			}
+			if (!(request.headers.get('content-type') ?? '').startsWith('multipart/form-data')) {
+				throw new PhotoError(415, 'invalid', 'Send the photo as a form upload (multipart/form-data).', '');
+			}
+			let form: FormData;
+			try {
+				form = await request.formData();
+			} catch {
+				throw new PhotoError(400, 'invalid', 'The upload arrived incomplete. Try again.', '');
+			}
+
+			const purpose = form.get('purpose');
+			if (purpose !== 'cover' && purpose !== 'step') {
+				throw new PhotoError(400, 'invalid', 'Say whether the photo is the cover or belongs to a step.', 'purpose');
+			}
+			const rawStep = form.get('stepId');
+			let stepId: string | undefined;
+			if (purpose === 'step') {
+				if (!isUuid(rawStep)) throw new PhotoError(400, 'invalid', 'Choose the step this photo belongs to.', 'stepId');
+				stepId = rawStep;
+			}
+			const file = form.get('file');
+			if (!(file instanceof File) || file.size === 0) {
+				throw new PhotoError(400, 'invalid', 'Choose a photo to upload.', 'file');
+			}
+			const alt = checkAlt(form.get('alt'));
+			// The pipeline checks size, content and pixels again on the bytes themselves.
+			const row = await processAndStorePhoto({
+				ownerId: b.ownerId,
+				buildId: b.id,
+				stepId,
+				bytes: new Uint8Array(await file.arrayBuffer()),
+				alt,
+				asCover: purpose === 'cover'
+			});
+			if (html) redirect(303, back);
+			return json({ photo: toPhotoView(row) }, { status: 201 });
+		},
+		{ htmlBack: html ? back : undefined }
+	);
+};

@@ -1,0 +1,7 @@
+import { json } from '@sveltejs/kit';
+import type { RequestHandler } from './$types';
+import { deleteBuildPhoto, photoRoute } from '$lib/server/photo-http';
+
+/** Delete one photo of a build (its row and stored renditions). The maker or an admin only. */
+export const DELETE: RequestHandler = async ({ params }) =>
+	photoRoute(async () => json({ deleted: await deleteBuildPhoto(params.slug, params.id) }));
