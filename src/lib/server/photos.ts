@@ -1,4 +1,4 @@
-import sharp from 'sharp';
+import sharp, { type Metadata, type SharpOptions } from 'sharp';
 import { and, eq, sql } from 'drizzle-orm';
 import { env } from '$env/dynamic/private';
 import { db, type Tx } from './db';
@@ -165,9 +165,9 @@ export async function processPhoto(bytes: Uint8Array): Promise<ProcessedPhoto> {
 	const format = checkPhotoBytes(bytes);
 	const maxPixels = photoMaxPixels();
 	const input = Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength);
-	const options: sharp.SharpOptions = { limitInputPixels: maxPixels, failOn: 'error', sequentialRead: true };
+	const options: SharpOptions = { limitInputPixels: maxPixels, failOn: 'error', sequentialRead: true };
 
-	let meta: sharp.Metadata;
+	let meta: Metadata;
 	try {
 		// Reading the header decodes no pixels, so the limit is checked by hand just below
 		// with the real dimensions in the message.
