@@ -56,6 +56,8 @@ export async function startStack(o) {
 			S3_ACCESS_KEY_ID: 'S3RVER',
 			S3_SECRET_ACCESS_KEY: 'S3RVER',
 			S3_FORCE_PATH_STYLE: 'true',
+			// adapter-node refuses request bodies over 512 KB by default; photos may be up to PHOTO_MAX_BYTES (15 MB).
+			BODY_SIZE_LIMIT: '16M',
 			SMTP_HOST: '127.0.0.1',
 			SMTP_PORT: String(o.smtpPort),
 			MAIL_FROM: 'Starground <no-reply@starground.test>',

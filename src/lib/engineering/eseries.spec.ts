@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { E_SERIES, eSeriesMantissas, nearestESeries, type ESeriesName } from './eseries';
 
-// Published lists, IEC 60063 as tabulated by Wikipedia "E-series of preferred numbers" (E3–E24)
-// and the qsl.net G4USP "Component preferred values" page (E48, E96) — REFERENCE.md §6.4.
+// Published lists: IEC 60063 as tabulated by a public encyclopedia article on E-series (E3–E24)
+// and an amateur-radio "component preferred values" table (E48, E96) — REFERENCE.md §6.4 [IEC63].
 const PUBLISHED: Record<'E3' | 'E6' | 'E12' | 'E24' | 'E48' | 'E96', string> = {
 	E3: '1.0 2.2 4.7',
 	E6: '1.0 1.5 2.2 3.3 4.7 6.8',

@@ -11,7 +11,7 @@ export const E_SERIES = ['E3', 'E6', 'E12', 'E24', 'E48', 'E96', 'E192'] as cons
 /** One of the IEC 60063 series names. */
 export type ESeriesName = (typeof E_SERIES)[number];
 
-// IEC 60063 (via Wikipedia "E-series of preferred numbers"), REFERENCE.md §6.4.
+// IEC 60063 (as tabulated in public encyclopedia summaries of the standard), REFERENCE.md §6.4.
 const E24 = [
 	1.0, 1.1, 1.2, 1.3, 1.5, 1.6, 1.8, 2.0, 2.2, 2.4, 2.7, 3.0, 3.3, 3.6, 3.9, 4.3, 4.7, 5.1, 5.6, 6.2, 6.8, 7.5, 8.2, 9.1
 ];

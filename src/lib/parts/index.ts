@@ -536,7 +536,7 @@ export function normaliseLine(draft: PartLineDraft, line: number, ctx: PartConte
 
 	const pkg = text(draft.package);
 	if (pkg.length > PARTS_LIMITS.package) err('package', `package is at most ${PARTS_LIMITS.package} characters`);
-	const notes = typeof draft.notes === 'string' ? draft.notes.trim() : '';
+	const notes = typeof draft.notes === 'string' ? draft.notes.replace(/\r\n?/g, '\n').trim() : '';
 	if (notes.length > PARTS_LIMITS.notes) err('notes', `notes are at most ${PARTS_LIMITS.notes} characters`);
 	const reason = text(draft.reason);
 	if (reason.length > PARTS_LIMITS.reason) err('reason', `the reason is at most ${PARTS_LIMITS.reason} characters`);

@@ -68,12 +68,15 @@ export const decodeQuery = z.object({
 /** Query number: a decimal string → number; anything else is a wrong type (400). */
 function queryNumber(min: number, max: number, unit: string, strict = false) {
 	const u = unit ? ` ${unit}` : '';
-	const base = z.coerce.number({ error: 'must be a number' });
+	const base = z.number({ error: 'must be a number' });
 	const ranged = (strict ? base.gt(min, `must be greater than ${min}${u}`) : base.min(min, `must be at least ${min}${u}`)).max(
 		max,
 		`must be at most ${max}${u}`
 	);
-	return z.string({ error: (iss) => (iss.input === undefined ? 'required' : 'must be a number') }).pipe(ranged);
+	return z
+		.string({ error: (iss) => (iss.input === undefined ? 'required' : 'must be a number') })
+		.transform((s) => Number(s))
+		.pipe(ranged);
 }
 
 /** GET /api/v1/tools/resistor-bands?valueOhm=…&tolerancePct=…&bands=… */

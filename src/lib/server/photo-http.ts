@@ -1,7 +1,7 @@
 import { isHttpError, isRedirect } from '@sveltejs/kit';
 import { apiError, type ApiErrorCode } from './api';
 import { requireUser } from './auth';
-import { assertCanEdit, canView, type Viewer } from './builds/access';
+import { assertCanEdit, type Viewer } from './builds/access';
 import { PhotoError, deletePhoto, findBuildForPhotos, findPhoto } from './photos';
 
 const codeFor: Record<number, ApiErrorCode> = {
@@ -48,12 +48,12 @@ export function isUuid(value: unknown): value is string {
 }
 
 /**
- * The build at `slug` if `viewer` may change it: 404 when it does not exist or is a draft they
- * cannot see, 401/403 from the build access rules otherwise (locked, another maker).
+ * The build at `slug` if `viewer` may change it: 404 when it does not exist, 401/403 from the
+ * build access rules otherwise (signed out, another maker, locked) — as every build mutation does.
  */
 export async function editableBuild(slug: string, viewer: Viewer) {
 	const b = await findBuildForPhotos(slug);
-	if (!b || !canView(viewer, b)) throw new PhotoError(404, 'not_found', 'There is no build at this address.', 'slug');
+	if (!b) throw new PhotoError(404, 'not_found', 'There is no build at this address.', 'slug');
 	assertCanEdit(viewer, b);
 	return b;
 }

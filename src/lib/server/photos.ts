@@ -195,9 +195,11 @@ export async function processPhoto(bytes: Uint8Array): Promise<ProcessedPhoto> {
 			// Decode once: rotate upright, shrink to the largest rendition, keep raw pixels.
 			const { data, info } = await sharp(input, options)
 				.rotate()
+				// Transparent areas become white, so the blurred placeholder never shows through.
+				.flatten({ background: '#ffffff' })
 				.resize({ width: largest, withoutEnlargement: true })
 				.toColourspace('srgb')
-				.raw()
+				.raw({ depth: 'uchar' })
 				.toBuffer({ resolveWithObject: true });
 			const raw = { raw: { width: info.width, height: info.height, channels: info.channels } };
 

@@ -125,7 +125,7 @@ export function crossChecks(blocks: readonly SpecBlockInput[], parts: readonly P
 	if (supplies.length) {
 		const top = supplies.reduce((a, b) => (b.derived.peakDcV > a.derived.peakDcV ? b : a));
 		for (const p of parts) {
-			if (!p || !/^cap/i.test(String(p.kind))) continue;
+			if (!p || !/cap/i.test(String(p.kind))) continue;
 			if (typeof p.ratingV !== 'number' || !Number.isFinite(p.ratingV)) continue;
 			if (p.ratingV < top.derived.peakDcV)
 				checks.push({

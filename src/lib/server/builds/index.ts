@@ -13,3 +13,4 @@ export * from './derive';
 export * from './queries';
 export * from './api';
 export { inTx, type DbLike } from './tx';
+export { runAction } from './actions';

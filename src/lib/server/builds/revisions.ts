@@ -65,7 +65,8 @@ export async function takeSnapshot(tx: DbLike, buildId: string): Promise<BuildSn
 			designValueText: p.designValueText,
 			designValue: p.designValue,
 			substitutionReason: p.substitutionReason,
-			deviationPct: p.deviationPct
+			deviationPct: p.deviationPct,
+			checks: p.checks
 		}))
 	};
 }

@@ -48,6 +48,8 @@ export interface SnapshotPart {
 	designValue: number | null;
 	substitutionReason: string | null;
 	deviationPct: number | null;
+	/** Checks stored with the line at that time (not compared by the diff: they follow from the fields). */
+	checks?: unknown[];
 }
 
 /** Everything a revision records. Steps, spec blocks and parts are in their display order. */

@@ -302,6 +302,13 @@ export const benchItem = pgTable(
 	(t) => [primaryKey({ columns: [t.userId, t.buildId] })]
 );
 
+/** Counters of the API write rate limiter (rate-limiter-flexible's Drizzle store), shared by every app process. */
+export const apiRateLimit = pgTable('api_rate_limit', {
+	key: text('key').primaryKey(),
+	points: integer('points').default(0).notNull(),
+	expire: timestamp('expire', { withTimezone: true })
+});
+
 export type Build = typeof build.$inferSelect;
 export type BuildStep = typeof buildStep.$inferSelect;
 export type Photo = typeof photo.$inferSelect;

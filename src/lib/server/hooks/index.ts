@@ -72,3 +72,5 @@ export const handleSecurityHeaders: Handle = async ({ event, resolve }) => {
 	}
 	return response;
 };
+
+export { handleApiRateLimit, handleHttpCache } from './api-http';

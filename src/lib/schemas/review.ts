@@ -1,0 +1,68 @@
+/** Input shapes for review, flags, comments and reports: shared by form actions, API routes and forms. */
+import { z } from 'zod';
+import { FLAG_CATEGORY_VALUES, FLAG_SEVERITY_VALUES } from '$lib/reviews';
+
+const uuid = z.string().trim().regex(/^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i, 'Not a valid id.');
+
+/** A reviewer raises a safety flag on a step, a spec block or a part line. */
+export const raiseFlagSchema = z.object({
+	targetKind: z.enum(['step', 'spec', 'part'], { message: 'Choose what the flag points at.' }),
+	targetId: uuid,
+	category: z.enum(FLAG_CATEGORY_VALUES, { message: 'Choose a category.' }),
+	severity: z.enum(FLAG_SEVERITY_VALUES, { message: 'Choose a severity.' }),
+	note: z.string().trim().min(3, 'Say what is wrong and why (at least 3 characters).').max(5000, 'Keep the note under 5000 characters.')
+});
+export type RaiseFlagInput = z.infer<typeof raiseFlagSchema>;
+
+/** The maker says what they changed for a flag. */
+export const addressFlagSchema = z.object({
+	note: z.string().trim().min(3, 'Say what you changed (at least 3 characters).').max(5000, 'Keep the note under 5000 characters.')
+});
+
+/** A reviewer's verdict with its summary. */
+export const reviewSchema = z.object({
+	verdict: z.enum(['safe', 'rework'], { message: 'Choose safe or rework.' }),
+	summary: z
+		.string()
+		.trim()
+		.min(10, 'Write a short summary of what you checked (at least 10 characters).')
+		.max(10000, 'Keep the summary under 10 000 characters.')
+});
+export type ReviewInput = z.infer<typeof reviewSchema>;
+
+export const COMMENT_MAX = 5000;
+
+/** A comment, or a reply when parentId is given. */
+export const commentSchema = z.object({
+	body: z
+		.string({ message: 'Write something first.' })
+		.trim()
+		.min(1, 'Write something first.')
+		.max(COMMENT_MAX, `Keep comments under ${COMMENT_MAX} characters.`),
+	parentId: uuid.nullish()
+});
+
+/** Editing a comment's text. */
+export const commentEditSchema = z.object({ body: commentSchema.shape.body });
+
+export const REPORT_TARGET_KINDS = { build: 'Build', comment: 'Comment', member: 'Member' } as const;
+export type ReportTargetKind = keyof typeof REPORT_TARGET_KINDS;
+
+/** Any member reports a build, a comment or a member. */
+export const reportSchema = z.object({
+	targetKind: z.enum(['build', 'comment', 'member'], { message: 'Choose what you are reporting.' }),
+	targetId: z.string().trim().min(1, 'Say what you are reporting.').max(200),
+	reason: z
+		.string()
+		.trim()
+		.min(5, 'Tell the moderators what is wrong (at least 5 characters).')
+		.max(2000, 'Keep the reason under 2000 characters.')
+});
+export type ReportInput = z.infer<typeof reportSchema>;
+
+/** A moderator's reason for an action (hide, lock, suspend…); required and shown in the audit log. */
+export const moderationReason = z
+	.string()
+	.trim()
+	.min(3, 'Give a reason (at least 3 characters); it goes into the audit log.')
+	.max(500, 'Keep the reason under 500 characters.');

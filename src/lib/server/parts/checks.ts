@@ -1,0 +1,109 @@
+/**
+ * Checks that span a build: the parts list's own checks need the supply rail from the spec blocks, and the
+ * cross checks ($lib/specs crossChecks) read all blocks and the parts list. Both are recomputed and stored
+ * whenever the parts list or a spec block is saved, so the build page, the review desk's counts and the API
+ * read them straight from the rows.
+ * Where a cross check lands: cross.cap-below-rail on the part line it names; the others on one block each
+ * (measurements, thermal, supply, then amplifier — the block whose numbers the maker would change).
+ */
+import { asc, eq } from 'drizzle-orm';
+import * as schema from '../db/schema';
+import type { StoredCheck } from '../db/schema';
+import type { Tx } from '../db';
+import { crossChecks, isSpecKind, type Check } from '$lib/specs';
+import { lineToDraft, normaliseLine, type NormalisedPartLine, type PartCheck } from '$lib/parts';
+
+type BlockRow = Pick<schema.SpecBlock, 'id' | 'kind' | 'data' | 'derived' | 'checks'>;
+type LineLike = Pick<NormalisedPartLine, 'designators' | 'kind' | 'value' | 'ratingV'>;
+
+/**
+ * Highest voltage the parts may see, V: the largest unloaded rail of the supply blocks (derived.peakDcV),
+ * else the largest amplifier block rail (railV; split supplies per side). Null without either.
+ * railFromBlocks([{ kind: 'supply', derived: { peakDcV: 34.6 } }]) → 34.6.
+ */
+export function railFromBlocks(blocks: readonly Pick<BlockRow, 'kind' | 'data' | 'derived'>[]): number | null {
+	const supply = blocks
+		.filter((b) => b.kind === 'supply')
+		.map((b) => Number((b.derived as Record<string, unknown>)?.peakDcV))
+		.filter((v) => Number.isFinite(v) && v > 0);
+	if (supply.length) return Math.max(...supply);
+	const amp = blocks
+		.filter((b) => b.kind === 'amplifier')
+		.map((b) => Number((b.data as Record<string, unknown>)?.railV))
+		.filter((v) => Number.isFinite(v) && v > 0);
+	return amp.length ? Math.max(...amp) : null;
+}
+
+const BLOCK_KEYS = ['measurementsBlock', 'thermalBlock', 'supplyBlock', 'amplifierBlock'] as const;
+
+const toStored = (c: Check | PartCheck): StoredCheck => ({
+	id: c.id,
+	level: c.level,
+	message: c.message,
+	values: { ...c.values },
+	...(c.caution ? { caution: c.caution } : {})
+});
+
+/**
+ * Run the cross checks and say where each lands: per block id and per line index.
+ * Blocks are in display order (the indexes crossChecks reports refer to it).
+ */
+export function placeCrossChecks(
+	blocks: readonly Pick<BlockRow, 'id' | 'kind' | 'data'>[],
+	lines: readonly LineLike[]
+): { byBlock: Map<string, StoredCheck[]>; byLine: StoredCheck[][] } {
+	const valid = blocks.filter((b) => isSpecKind(b.kind));
+	const checks = crossChecks(
+		valid.map((b) => ({ kind: b.kind, data: b.data })),
+		lines.map((l) => ({ designators: l.designators, kind: l.kind, value: l.value, ratingV: l.ratingV }))
+	);
+	const byBlock = new Map<string, StoredCheck[]>();
+	const byLine: StoredCheck[][] = lines.map(() => []);
+	for (const c of checks) {
+		if (c.id === 'cross.cap-below-rail') {
+			lines.forEach((l, i) => {
+				if (l.designators === c.values.designators && l.ratingV === c.values.ratingV && !byLine[i].some((x) => x.id === c.id))
+					byLine[i].push(toStored(c));
+			});
+			continue;
+		}
+		const key = BLOCK_KEYS.find((k) => typeof c.values[k] === 'number');
+		const block = key ? valid[c.values[key] as number] : undefined;
+		if (!block) continue;
+		byBlock.set(block.id, [...(byBlock.get(block.id) ?? []), toStored(c)]);
+	}
+	return { byBlock, byLine };
+}
+
+const own = (checks: readonly StoredCheck[] | null | undefined) => (checks ?? []).filter((c) => !c.id.startsWith('cross.'));
+const same = (a: unknown, b: unknown) => JSON.stringify(a) === JSON.stringify(b);
+
+/**
+ * Recompute and store, in the caller's transaction, every check that depends on more than one row:
+ * the parts list's own checks (they need the rail) and the cross checks on lines and blocks.
+ * Writes only rows whose checks changed.
+ */
+export async function refreshBuildChecks(tx: Tx, buildId: string): Promise<void> {
+	const [blocks, rows] = await Promise.all([
+		tx
+			.select({ id: schema.specBlock.id, kind: schema.specBlock.kind, data: schema.specBlock.data, derived: schema.specBlock.derived, checks: schema.specBlock.checks })
+			.from(schema.specBlock)
+			.where(eq(schema.specBlock.buildId, buildId))
+			.orderBy(asc(schema.specBlock.position), asc(schema.specBlock.createdAt)),
+		tx.select().from(schema.partLine).where(eq(schema.partLine.buildId, buildId)).orderBy(asc(schema.partLine.position))
+	]);
+	const railV = railFromBlocks(blocks);
+	const { byBlock, byLine } = placeCrossChecks(blocks, rows);
+
+	for (const b of blocks) {
+		const next = [...own(b.checks), ...(byBlock.get(b.id) ?? [])];
+		if (!same(next, b.checks)) await tx.update(schema.specBlock).set({ checks: next }).where(eq(schema.specBlock.id, b.id));
+	}
+	for (const [i, row] of rows.entries()) {
+		// A stored line was valid when saved; if the rules changed since, keep its old own checks.
+		const again = normaliseLine(lineToDraft(row), i + 1, { railV });
+		const ownChecks = again.line ? again.line.checks.map(toStored) : own(row.checks);
+		const next = [...ownChecks, ...byLine[i]];
+		if (!same(next, row.checks)) await tx.update(schema.partLine).set({ checks: next }).where(eq(schema.partLine.id, row.id));
+	}
+}

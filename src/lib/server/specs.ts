@@ -1,0 +1,209 @@
+/**
+ * Spec blocks of a build (PRODUCT.md §4.3): validate with the kind's zod schema (field-level issues),
+ * derive values and checks with $lib/specs, store them, and keep the cross checks between blocks and the
+ * parts list current. Owner or admin only; a locked build refuses changes (see builds/access).
+ */
+import { error } from '@sveltejs/kit';
+import { and, asc, eq, max } from 'drizzle-orm';
+import { ZodError } from 'zod';
+import * as schema from './db/schema';
+import type { StoredCheck } from './db/schema';
+import { db, type Tx } from './db';
+import { assertCanEdit, inTx, lockBuild, recordRevision, refreshSearchText, type Actor, type DbLike } from './builds';
+import { InputRangeError } from '$lib/engineering';
+import { isSpecKind, runSpec, specSchemas, SPEC_KINDS, type SpecKind } from '$lib/specs';
+import { refreshBuildChecks } from './parts/checks';
+
+/** One problem with one field of a block: `path` is a dot path into the block's data ("device.dropoutV"). */
+export interface SpecIssue {
+	path: string;
+	message: string;
+}
+
+/** Most blocks one build may hold. */
+export const MAX_SPEC_BLOCKS = 40;
+/** Longest block title. */
+export const SPEC_TITLE_MAX = 120;
+
+/** A block that passed its schema, with what the server derived. */
+export interface ValidSpec {
+	ok: true;
+	kind: SpecKind;
+	data: Record<string, unknown>;
+	derived: Record<string, unknown>;
+	checks: StoredCheck[];
+}
+
+/**
+ * Validate `data` with the schema of `kind` and derive its values and checks. Never throws for bad input:
+ * → { ok: false, issues } with one issue per field (dot paths), or { ok: true, data (parsed, defaults
+ * filled), derived, checks }. validateSpec('amplifier', { …, loadOhm: 0.1 }) → issues [{ path: 'loadOhm', … }].
+ */
+export function validateSpec(kind: string, data: unknown): ValidSpec | { ok: false; issues: SpecIssue[] } {
+	if (!isSpecKind(kind)) return { ok: false, issues: [{ path: 'kind', message: `must be one of ${SPEC_KINDS.join(', ')}` }] };
+	const parsed = specSchemas[kind].safeParse(data);
+	if (!parsed.success) return { ok: false, issues: zodIssues(parsed.error) };
+	try {
+		const { derived, checks } = runSpec(kind, parsed.data);
+		return {
+			ok: true,
+			kind,
+			data: parsed.data as Record<string, unknown>,
+			derived: derived as Record<string, unknown>,
+			checks: checks.map((c) => ({ ...c, values: { ...c.values } }))
+		};
+	} catch (e) {
+		if (e instanceof InputRangeError) return { ok: false, issues: [{ path: e.field, message: e.message }] };
+		if (e instanceof RangeError) return { ok: false, issues: [{ path: '', message: e.message }] };
+		if (e instanceof ZodError) return { ok: false, issues: zodIssues(e) };
+		throw e;
+	}
+}
+
+/** zod issues as dot-path issues, one per path (the first message wins). */
+export function zodIssues(err: ZodError): SpecIssue[] {
+	const out: SpecIssue[] = [];
+	for (const i of err.issues) {
+		const path = i.path.map(String).join('.');
+		if (!out.some((o) => o.path === path)) out.push({ path, message: i.message });
+	}
+	return out;
+}
+
+/** A build's spec blocks in display order. */
+export async function listSpecBlocks(buildId: string, dbx: DbLike = db): Promise<schema.SpecBlock[]> {
+	return dbx
+		.select()
+		.from(schema.specBlock)
+		.where(eq(schema.specBlock.buildId, buildId))
+		.orderBy(asc(schema.specBlock.position), asc(schema.specBlock.createdAt));
+}
+
+/** What a caller saves: a new block (no id) or a change to one of the build's blocks. */
+export interface SpecBlockInput {
+	id?: string | null;
+	kind: string;
+	title?: string;
+	data: unknown;
+}
+
+/** Saving a block either stores it or reports its issues (and stores nothing). */
+export type SaveSpecResult =
+	| { ok: true; id: string; derived: Record<string, unknown>; checks: StoredCheck[]; revision: number | null }
+	| { ok: false; issues: SpecIssue[] };
+
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+
+/** The block `blockId` of build `buildId`, locked for update; 404 when it is not this build's. */
+async function ownBlock(t: Tx, buildId: string, blockId: string): Promise<schema.SpecBlock> {
+	if (!UUID.test(blockId)) error(404, 'No such spec block on this build.');
+	const [row] = await t
+		.select()
+		.from(schema.specBlock)
+		.where(and(eq(schema.specBlock.id, blockId), eq(schema.specBlock.buildId, buildId)))
+		.for('update');
+	if (!row) error(404, 'No such spec block on this build.');
+	return row;
+}
+
+/** After any block change: cross checks and parts checks, search text, updatedAt, and a revision when published. */
+async function afterChange(t: Tx, buildId: string, actor: Actor): Promise<number | null> {
+	await refreshBuildChecks(t, buildId);
+	await refreshSearchText(t, buildId);
+	await t.update(schema.build).set({ updatedAt: new Date() }).where(eq(schema.build.id, buildId));
+	const rev = await recordRevision(t, buildId, actor.id);
+	return rev?.number ?? null;
+}
+
+/**
+ * Add or change a spec block (owner or admin; 403 otherwise or while locked; 404 for another build's block).
+ * Invalid data → { ok: false, issues } and nothing is stored. A block keeps its kind. The stored checks are
+ * the block's own plus the cross checks that land on it.
+ */
+export async function saveSpecBlock(actor: Actor, buildId: string, input: SpecBlockInput, tx?: Tx): Promise<SaveSpecResult> {
+	const title = typeof input.title === 'string' ? input.title.trim() : '';
+	return inTx(tx, async (t) => {
+		const b = await lockBuild(t, buildId);
+		assertCanEdit(actor, b);
+		const existing = input.id ? await ownBlock(t, buildId, input.id) : null;
+		const issues: SpecIssue[] = [];
+		if (title.length > SPEC_TITLE_MAX) issues.push({ path: 'title', message: `must be at most ${SPEC_TITLE_MAX} characters` });
+		if (existing && existing.kind !== input.kind)
+			issues.push({ path: 'kind', message: `a ${existing.kind} block stays a ${existing.kind} block; add a new block for another kind` });
+		const v = validateSpec(input.kind, input.data);
+		if (!v.ok) issues.push(...v.issues);
+		if (issues.length || !v.ok) return { ok: false as const, issues };
+
+		let id: string;
+		if (existing) {
+			await t
+				.update(schema.specBlock)
+				.set({ title, data: v.data, derived: v.derived, checks: v.checks, updatedAt: new Date() })
+				.where(eq(schema.specBlock.id, existing.id));
+			id = existing.id;
+		} else {
+			const rows = await t.select({ id: schema.specBlock.id }).from(schema.specBlock).where(eq(schema.specBlock.buildId, buildId));
+			if (rows.length >= MAX_SPEC_BLOCKS)
+				return { ok: false as const, issues: [{ path: '', message: `A build holds at most ${MAX_SPEC_BLOCKS} spec blocks.` }] };
+			const [{ top }] = await t.select({ top: max(schema.specBlock.position) }).from(schema.specBlock).where(eq(schema.specBlock.buildId, buildId));
+			const [row] = await t
+				.insert(schema.specBlock)
+				.values({ buildId, kind: v.kind, title, data: v.data, derived: v.derived, checks: v.checks, position: (top ?? -1) + 1 })
+				.returning({ id: schema.specBlock.id });
+			id = row.id;
+		}
+		const revision = await afterChange(t, buildId, actor);
+		const [stored] = await t.select({ checks: schema.specBlock.checks }).from(schema.specBlock).where(eq(schema.specBlock.id, id));
+		return { ok: true as const, id, derived: v.derived, checks: stored.checks, revision };
+	});
+}
+
+/** Delete one of the build's spec blocks (owner or admin; not while locked). → the revision made, if any. */
+export async function deleteSpecBlock(actor: Actor, buildId: string, blockId: string, tx?: Tx): Promise<number | null> {
+	return inTx(tx, async (t) => {
+		const b = await lockBuild(t, buildId);
+		assertCanEdit(actor, b);
+		await ownBlock(t, buildId, blockId);
+		await t.delete(schema.specBlock).where(eq(schema.specBlock.id, blockId));
+		return afterChange(t, buildId, actor);
+	});
+}
+
+/** Move a block one place up (-1) or down (+1) in the build's order (owner or admin; not while locked). */
+export async function moveSpecBlock(actor: Actor, buildId: string, blockId: string, direction: -1 | 1, tx?: Tx): Promise<void> {
+	await inTx(tx, async (t) => {
+		const b = await lockBuild(t, buildId);
+		assertCanEdit(actor, b);
+		await ownBlock(t, buildId, blockId);
+		const blocks = await listSpecBlocks(buildId, t);
+		const i = blocks.findIndex((x) => x.id === blockId);
+		const j = i + direction;
+		if (j < 0 || j >= blocks.length) return;
+		[blocks[i], blocks[j]] = [blocks[j], blocks[i]];
+		for (const [pos, blk] of blocks.entries())
+			if (blk.position !== pos) await t.update(schema.specBlock).set({ position: pos }).where(eq(schema.specBlock.id, blk.id));
+		await afterChange(t, buildId, actor);
+	});
+}
+
+/** A cross check with where it is stored: on a block (blockId) or on a part line (partLineId). */
+export interface PlacedCrossCheck {
+	check: StoredCheck;
+	blockId: string | null;
+	partLineId: string | null;
+}
+
+/**
+ * The cross checks of a build as stored (blocks and part lines), for pages that list them in one place.
+ * They are recomputed on every save of a block or of the parts list.
+ */
+export async function buildCrossChecks(buildId: string, dbx: DbLike = db): Promise<PlacedCrossCheck[]> {
+	const [blocks, lines] = await Promise.all([
+		dbx.select({ id: schema.specBlock.id, checks: schema.specBlock.checks }).from(schema.specBlock).where(eq(schema.specBlock.buildId, buildId)).orderBy(asc(schema.specBlock.position)),
+		dbx.select({ id: schema.partLine.id, checks: schema.partLine.checks }).from(schema.partLine).where(eq(schema.partLine.buildId, buildId)).orderBy(asc(schema.partLine.position))
+	]);
+	return [
+		...blocks.flatMap((b) => b.checks.filter((c) => c.id.startsWith('cross.')).map((check) => ({ check, blockId: b.id, partLineId: null }))),
+		...lines.flatMap((l) => l.checks.filter((c) => c.id.startsWith('cross.')).map((check) => ({ check, blockId: null, partLineId: l.id })))
+	];
+}

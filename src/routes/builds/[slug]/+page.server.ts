@@ -1,0 +1,97 @@
+import { error, fail, redirect } from '@sveltejs/kit';
+import { lockSchema } from '$lib/schemas/build';
+import { requireUser } from '$lib/server/auth';
+import {
+	archive,
+	canDerive,
+	canEdit,
+	canLock,
+	derive,
+	getBuildPage,
+	isOwner,
+	publish,
+	getBuildBySlug,
+	runAction,
+	setLocked
+} from '$lib/server/builds';
+import type { Actions, PageServerLoad } from './$types';
+
+export const load: PageServerLoad = async ({ params, locals, url }) => {
+	const viewer = locals.user;
+	const page = await getBuildPage(params.slug, viewer);
+	const b = page.build;
+	return {
+		build: {
+			id: b.id,
+			slug: b.slug,
+			title: b.title,
+			summary: b.summary,
+			category: b.category,
+			topology: b.topology,
+			mainsPowered: b.mainsPowered,
+			licence: b.licence,
+			status: b.status,
+			locked: b.locked,
+			lockedReason: b.lockedReason,
+			revision: b.revision,
+			derivedCount: b.derivedCount,
+			derivedFromId: b.derivedFromId,
+			publishedAt: b.publishedAt,
+			updatedAt: b.updatedAt
+		},
+		maker: { name: page.maker.name, handle: page.maker.handle },
+		cover: page.cover,
+		steps: page.steps.map((s) => ({ id: s.id, title: s.title, bodyHtml: s.bodyHtml, photos: s.photos })),
+		specBlocks: page.specBlocks,
+		parts: page.parts,
+		lineage: page.lineage,
+		can: {
+			edit: canEdit(viewer, b),
+			own: isOwner(viewer, b),
+			derive: canDerive(viewer, b),
+			lock: canLock(viewer)
+		},
+		origin: url.origin
+	};
+};
+
+/** The build for an action; the domain call then decides (403 for someone who may not change it). */
+async function found(slug: string) {
+	const b = await getBuildBySlug(slug);
+	if (!b) error(404, 'Not found');
+	return b;
+}
+
+export const actions: Actions = {
+	publish: async ({ params }) => {
+		const user = requireUser();
+		const b = await found(params.slug);
+		const r = await runAction(() => publish(user, b.id));
+		if (typeof r !== 'number') return r;
+		return { ok: `Published as r${r}.` };
+	},
+	archive: async ({ params }) => {
+		const user = requireUser();
+		const b = await found(params.slug);
+		const r = await runAction(() => archive(user, b.id));
+		if (r) return r;
+		return { ok: 'Archived: it has left the lists but stays readable here.' };
+	},
+	derive: async ({ params }) => {
+		const user = requireUser();
+		const b = await found(params.slug);
+		const r = await runAction(() => derive(user, b.id));
+		if (!('slug' in r)) return r;
+		redirect(303, `/builds/${r.slug}/edit?derived=1`);
+	},
+	lock: async ({ params, request }) => {
+		const user = requireUser();
+		const b = await found(params.slug);
+		const form = await request.formData();
+		const parsed = lockSchema.safeParse({ locked: form.get('locked') === 'true', reason: form.get('reason') ?? '' });
+		if (!parsed.success) return fail(400, { error: parsed.error.issues[0].message });
+		const r = await runAction(() => setLocked(user, b.id, parsed.data.locked, parsed.data.reason));
+		if (r) return r;
+		return { ok: parsed.data.locked ? 'Build locked. Its maker sees your reason.' : 'Build unlocked.' };
+	}
+};
