@@ -27,6 +27,8 @@ test('the maker uploads a cover with alt text, sees the progress bar, and the bu
 	await page.goto(`/builds/${SLUG}/edit`);
 	const uploader = page.locator('form[data-purpose="cover"]');
 	await expect(uploader).toBeVisible();
+	// The page has hydrated: the uploader sends by XHR with progress (without script it posts natively).
+	await expect(uploader).toHaveAttribute('data-ready', 'true');
 
 	const alt = `Folded aluminium case with both amplifier boards, ${Date.now().toString(36)}`;
 	const jpeg = await benchPhoto();

@@ -116,3 +116,55 @@ export type FlagTargetKind = keyof typeof FLAG_TARGET_KINDS;
 /** Shown wherever verdicts show (PRODUCT.md §4.11). */
 export const PEER_OPINION_NOTE =
 	'“Safe” is a peer’s opinion of one revision, not a certification. Mains, stored charge and heat can hurt: defer to local electrical codes and licensed practice.';
+
+/** The build page's review panel (built by getReviewPanel on the server). */
+export interface PanelPerson {
+	name: string;
+	handle: string | null;
+}
+
+export interface PanelFlag {
+	id: string;
+	target: { kind: FlagTargetKind; id: string; label: string; anchor: string };
+	category: FlagCategory;
+	severity: FlagSeverity;
+	state: FlagState;
+	noteHtml: string;
+	raisedBy: PanelPerson;
+	revision: number;
+	createdAt: Date;
+	addressedNote: string | null;
+	addressedAt: Date | null;
+	resolvedBy: PanelPerson | null;
+	resolvedAt: Date | null;
+}
+
+export interface PanelReview {
+	id: string;
+	reviewer: PanelPerson;
+	verdict: Verdict;
+	revision: number;
+	summaryHtml: string;
+	createdAt: Date;
+}
+
+export interface ReviewPanelData {
+	slug: string;
+	status: string;
+	locked: boolean;
+	state: ReviewState;
+	reviews: PanelReview[];
+	/** Open flags first, then addressed, then resolved; newest first within each. */
+	flags: PanelFlag[];
+	can: {
+		/** The maker may ask for review now (published, not locked, not already waiting). */
+		requestReview: boolean;
+		/** The viewer may open review mode (reviewer or above, not the maker, published). */
+		review: boolean;
+		/** The maker may mark open flags addressed. */
+		address: boolean;
+		/** The viewer may resolve and reopen flags. */
+		resolve: boolean;
+	};
+}
+

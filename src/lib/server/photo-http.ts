@@ -21,23 +21,47 @@ const codeFor: Record<number, ApiErrorCode> = {
  * unexpected errors pass through (the latter become a logged 500 without details).
  */
 export async function photoRoute(
+	request: Request,
 	handler: () => Promise<Response>,
-	opts: { htmlBack?: string } = {}
+	opts: { htmlBack?: string; drainLimit?: number } = {}
 ): Promise<Response> {
 	try {
 		return await handler();
 	} catch (err) {
 		if (isRedirect(err)) throw err;
+		let status: number;
+		let response: Response;
 		if (err instanceof PhotoError) {
-			if (opts.htmlBack) return htmlRefusal(err.status, err.message, opts.htmlBack);
-			return apiError(err.status, err.code, err.message, [{ path: err.path, message: err.message }]);
+			status = err.status;
+			response = opts.htmlBack
+				? htmlRefusal(err.status, err.message, opts.htmlBack)
+				: apiError(err.status, err.code, err.message, [{ path: err.path, message: err.message }]);
+		} else if (isHttpError(err)) {
+			status = err.status;
+			response = opts.htmlBack
+				? htmlRefusal(err.status, err.body.message, opts.htmlBack)
+				: apiError(err.status, codeFor[err.status] ?? 'invalid', err.body.message);
+		} else {
+			throw err;
 		}
-		if (isHttpError(err)) {
-			if (opts.htmlBack) return htmlRefusal(err.status, err.body.message, opts.htmlBack);
-			return apiError(err.status, codeFor[err.status] ?? 'invalid', err.body.message);
-		}
-		throw err;
+		return finishEarly(request, response, status, opts.drainLimit ?? 0);
 	}
+}
+
+/**
+ * A refusal sent before the upload was read (signed out, not the maker, too large): read and
+ * discard a body of acceptable size first, else the client may see a reset connection instead
+ * of our answer; for a larger one, tell the client the connection closes.
+ */
+async function finishEarly(request: Request, response: Response, status: number, drainLimit: number): Promise<Response> {
+	if (request.bodyUsed || !request.body) return response;
+	const declared = Number(request.headers.get('content-length') ?? NaN);
+	if (status !== 413 && Number.isFinite(declared) && declared <= drainLimit) {
+		await request.arrayBuffer().catch(() => undefined);
+		return response;
+	}
+	response.headers.set('connection', 'close');
+	return response;
 }
 
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;

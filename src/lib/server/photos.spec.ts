@@ -150,6 +150,10 @@ describe('processAndStorePhoto (PostgreSQL + S3)', () => {
 		await expectRefusal(png, 413, /8000 × 6000 pixels.*limit is 40 megapixels/);
 	});
 
+	it('refuses an extreme strip (over 10:1) with 422 instead of failing later', async () => {
+		await expectRefusal(await blankPng(6000, 400), 422, /6000 × 400 pixels, longer than 10:1/);
+	});
+
 	it('refuses a file over the byte limit with 413', async () => {
 		const huge = Buffer.alloc(15 * 1024 * 1024 + 1);
 		huge.set([0xff, 0xd8, 0xff, 0xe0]);

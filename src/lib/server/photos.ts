@@ -1,5 +1,5 @@
 import sharp, { type Metadata, type SharpOptions } from 'sharp';
-import { and, eq, sql } from 'drizzle-orm';
+import { and, eq, isNull, sql } from 'drizzle-orm';
 import { env } from '$env/dynamic/private';
 import { db, type Tx } from './db';
 import * as schema from './db/schema';
@@ -26,6 +26,8 @@ export const ALT_MIN = 1;
 export const ALT_MAX = 300;
 
 const CACHE_FOREVER = 'public, max-age=31536000, immutable';
+/** Longest side over shortest side; beyond it the renditions would pass WebP's 16383 px limit. */
+const MAX_ASPECT = 10;
 /** At most this many photos are decoded at once in this process (memory bound). */
 const MAX_CONCURRENT = 2;
 
@@ -186,6 +188,16 @@ export async function processPhoto(bytes: Uint8Array): Promise<ProcessedPhoto> {
 		);
 	}
 
+	const long = Math.max(meta.width, meta.height);
+	const short = Math.min(meta.width, meta.height);
+	if (long / short > MAX_ASPECT) {
+		throw new PhotoError(
+			422,
+			'invalid',
+			`The image is ${meta.width} × ${meta.height} pixels, longer than ${MAX_ASPECT}:1. Crop it to a less extreme shape and try again.`
+		);
+	}
+
 	return withSlot(async () => {
 		try {
 			// Orientations 5–8 swap the axes once rotated upright.
@@ -289,7 +301,7 @@ export async function processAndStorePhoto(input: StorePhotoInput): Promise<sche
 					.where(
 						input.stepId
 							? eq(schema.photo.stepId, input.stepId)
-							: and(eq(schema.photo.buildId, input.buildId), sql`${schema.photo.stepId} is null`)
+							: and(eq(schema.photo.buildId, input.buildId), isNull(schema.photo.stepId))
 					);
 				position = next;
 			}
@@ -318,9 +330,10 @@ export async function processAndStorePhoto(input: StorePhotoInput): Promise<sche
 				if (!b) throw new PhotoError(404, 'not_found', 'That build no longer exists.', 'buildSlug');
 				await tx.update(schema.build).set({ coverPhotoId: id }).where(eq(schema.build.id, input.buildId));
 				if (b.coverPhotoId && b.coverPhotoId !== id) {
+					// A previous cover that is also a step's photo stays (only the cover reference moves).
 					const [old] = await tx
 						.delete(schema.photo)
-						.where(eq(schema.photo.id, b.coverPhotoId))
+						.where(and(eq(schema.photo.id, b.coverPhotoId), isNull(schema.photo.stepId)))
 						.returning({ keyPrefix: schema.photo.keyPrefix, widths: schema.photo.widths });
 					previousCover = old ?? null;
 				}

@@ -1,24 +1,52 @@
 /**
- * The builds read API (/api/v1/builds): query logic and JSON serializers. Pages reuse the list query.
- * Filters (category, review state, mains, full-text q) plug in through `ListOptions.where`.
+ * The builds read API (/api/v1/builds): query logic and JSON serializers. Pages reuse the list query
+ * (browse, search, home, maker profiles). Filters: category, topology, review state, mains powered,
+ * maker, full-text `q`; sorts: recent, most derived, recently reviewed, relevance (with `q`); keyset
+ * cursor pagination on (sort key…, id) so pages never repeat or skip while builds are published.
  */
 import { and, desc, eq, sql, type SQL } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/pg-core';
 import { z } from 'zod';
 import * as schema from '../db/schema';
 import { db } from '../db';
-import { photoUrl } from '../photos';
+import { photoUrl, type PhotoView } from '../photos';
+import { reviewLabelCondition } from '../reviews/state';
 import { CATEGORY_LABELS, TOPOLOGY_LABELS, labelOf } from '$lib/labels';
+import { CATEGORIES, TOPOLOGIES } from '$lib/schemas/build';
 import type { Viewer } from './access';
 import { getMaker, loadBuildContent, loadLineage, requireVisibleBuild, type LineageLink } from './queries';
 import type { DbLike } from './tx';
 
 export const LIST_LIMIT_DEFAULT = 20;
 export const LIST_LIMIT_MAX = 100;
+/** Longest accepted search text, in characters. */
+export const QUERY_MAX = 200;
 
-/** Query string of GET /api/v1/builds (filters are added by their own schema). */
+/** Orders of a list. `relevance` needs a search text `q` and is its default. */
+export const LIST_SORTS = ['recent', 'most-derived', 'recently-reviewed', 'relevance'] as const;
+export type ListSort = (typeof LIST_SORTS)[number];
+
+/** Review-state filter values: the review labels, with both "changed since" labels folded into `changed`. */
+export const REVIEW_FILTERS = ['unreviewed', 'waiting', 'safe', 'rework', 'changed'] as const;
+export type ReviewFilter = (typeof REVIEW_FILTERS)[number];
+
+const oneOf = (values: readonly string[]) => ({ error: `must be one of: ${values.join(', ')}` });
+
+/** Query string of GET /api/v1/builds and of the browse and search pages. */
 export const listQuerySchema = z.object({
-	cursor: z.string().max(200).optional(),
+	q: z.string().trim().max(QUERY_MAX, `must be at most ${QUERY_MAX} characters`).optional(),
+	category: z.enum(CATEGORIES, oneOf(CATEGORIES)).optional(),
+	topology: z.enum(TOPOLOGIES, oneOf(TOPOLOGIES)).optional(),
+	review: z.enum(REVIEW_FILTERS, oneOf(REVIEW_FILTERS)).optional(),
+	mains: z.enum(['true', 'false'], oneOf(['true', 'false'])).optional(),
+	maker: z
+		.string()
+		.trim()
+		.toLowerCase()
+		.regex(/^[a-z0-9][a-z0-9-]{0,39}$/, 'must be a member handle')
+		.optional(),
+	sort: z.enum(LIST_SORTS, oneOf(LIST_SORTS)).optional(),
+	cursor: z.string().max(400).optional(),
 	limit: z.coerce
 		.number({ error: 'must be a whole number' })
 		.int('must be a whole number')
@@ -26,30 +54,47 @@ export const listQuerySchema = z.object({
 		.max(LIST_LIMIT_MAX, `must be at most ${LIST_LIMIT_MAX}`)
 		.default(LIST_LIMIT_DEFAULT)
 });
+export type ListQuery = z.infer<typeof listQuerySchema>;
 
-/** Position after the last item of a page: the newest-first keyset (published_at, id). */
+/**
+ * Position after the last item of a page: the sort it belongs to, the sort key values of that item
+ * as PostgreSQL prints them (timestamps to the microsecond, '2026-03-01T10:22:03.123456'; counts;
+ * ranks) and its id, the final tie-breaker.
+ */
 export interface ListCursor {
-	/** published_at to the microsecond, as PostgreSQL prints it: '2026-03-01T10:22:03.123456'. */
-	publishedAt: string;
+	sort: ListSort;
+	keys: string[];
 	id: string;
 }
 
 const CURSOR_TS = /^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}:\d{2}\.\d{6}$/;
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+const isTs = (v: string) => CURSOR_TS.test(v) && !Number.isNaN(Date.parse(`${v.slice(0, 23)}Z`));
+
+/** What each key of a sort must look like in a cursor (checked before it reaches SQL). */
+const KEY_SHAPES: Record<ListSort, ((v: string) => boolean)[]> = {
+	recent: [isTs],
+	'most-derived': [(v) => /^\d{1,9}$/.test(v), isTs],
+	'recently-reviewed': [(v) => v === '-infinity' || isTs(v), isTs],
+	relevance: [(v) => /^-?\d+(\.\d+)?(e[-+]?\d+)?$/i.test(v) && v.length <= 32, isTs]
+};
 
 /** Opaque cursor text: base64url of a small JSON object. */
 export function encodeCursor(c: ListCursor): string {
-	return Buffer.from(JSON.stringify({ p: c.publishedAt, i: c.id }), 'utf8').toString('base64url');
+	return Buffer.from(JSON.stringify({ s: c.sort, k: c.keys, i: c.id }), 'utf8').toString('base64url');
 }
 
 /** Read a cursor made by encodeCursor; null when it is not one (the route answers 400). */
 export function decodeCursor(text: string): ListCursor | null {
-	if (!/^[A-Za-z0-9_-]{1,200}$/.test(text)) return null;
+	if (!/^[A-Za-z0-9_-]{1,400}$/.test(text)) return null;
 	try {
-		const v = JSON.parse(Buffer.from(text, 'base64url').toString('utf8')) as { p?: unknown; i?: unknown };
-		if (typeof v?.p !== 'string' || typeof v?.i !== 'string') return null;
-		if (!CURSOR_TS.test(v.p) || !UUID.test(v.i) || Number.isNaN(Date.parse(`${v.p.slice(0, 23)}Z`))) return null;
-		return { publishedAt: v.p, id: v.i.toLowerCase() };
+		const v = JSON.parse(Buffer.from(text, 'base64url').toString('utf8')) as { s?: unknown; k?: unknown; i?: unknown };
+		if (!v || typeof v !== 'object' || Array.isArray(v)) return null;
+		const sort = v.s as ListSort;
+		if (!LIST_SORTS.includes(sort) || typeof v.i !== 'string' || !UUID.test(v.i) || !Array.isArray(v.k)) return null;
+		const shapes = KEY_SHAPES[sort];
+		if (v.k.length !== shapes.length || !v.k.every((k, n) => typeof k === 'string' && shapes[n](k))) return null;
+		return { sort, keys: v.k as string[], id: v.i.toLowerCase() };
 	} catch {
 		return null;
 	}
@@ -58,6 +103,10 @@ export function decodeCursor(text: string): ListCursor | null {
 export interface ListOptions {
 	limit?: number;
 	cursor?: ListCursor | null;
+	/** Order; `recent` (newest published first) unless given. `relevance` needs `search`. */
+	sort?: ListSort;
+	/** A tsquery (from searchQuery) for the relevance order. */
+	search?: SQL;
 	/** Extra conditions (filters); ANDed with "published". */
 	where?: (SQL | undefined)[];
 }
@@ -65,6 +114,8 @@ export interface ListOptions {
 const maker = alias(schema.user, 'maker');
 const cover = alias(schema.photo, 'cover');
 const origin = alias(schema.build, 'origin');
+
+const microTs = (col: SQL | typeof schema.build.publishedAt) => sql`to_char(${col}, 'YYYY-MM-DD"T"HH24:MI:SS.US')`;
 
 /** Columns every list row carries (also used by other list queries: home, search, profiles). */
 export const listColumns = {
@@ -82,7 +133,7 @@ export const listColumns = {
 	locked: schema.build.locked,
 	publishedAt: schema.build.publishedAt,
 	updatedAt: schema.build.updatedAt,
-	cursorAt: sql<string>`to_char(${schema.build.publishedAt}, 'YYYY-MM-DD"T"HH24:MI:SS.US')`,
+	cursorAt: sql<string>`${microTs(schema.build.publishedAt)}`,
 	makerName: maker.name,
 	makerHandle: maker.handle,
 	cover: {
@@ -111,27 +162,130 @@ export function selectBuildList(dbx: DbLike = db) {
 
 export type BuildListRow = Awaited<ReturnType<ReturnType<typeof selectBuildList>['execute']>>[number];
 
+/** websearch_to_tsquery over the English configuration: quotes, `or` and `-word` work as people expect. */
+export function searchQuery(q: string): SQL {
+	return sql`websearch_to_tsquery('english', ${q})`;
+}
+
+/** Rank of a build against a tsquery: cover density, length-normalised (flag 1: divide by 1 + log(length)). */
+export function searchRank(tsquery: SQL): SQL<number> {
+	return sql<number>`ts_rank_cd(${schema.build.search}, ${tsquery}, 1)`;
+}
+
+/** Sort keys of one order, descending, before the id tie-breaker; `casts` turn cursor text back into values. */
+function sortSpec(sort: ListSort, search?: SQL): { keys: SQL[]; text: SQL[]; casts: string[] } {
+	const b = schema.build;
+	const published = sql`${b.publishedAt}`;
+	switch (sort) {
+		case 'most-derived':
+			return { keys: [sql`${b.derivedCount}`, published], text: [sql`${b.derivedCount}::text`, microTs(published)], casts: ['int', 'timestamp'] };
+		case 'recently-reviewed': {
+			const reviewed = sql`coalesce(${b.lastReviewedAt}, '-infinity'::timestamp)`;
+			return {
+				keys: [reviewed, published],
+				text: [sql`case when ${b.lastReviewedAt} is null then '-infinity' else ${microTs(sql`${b.lastReviewedAt}`)} end`, microTs(published)],
+				casts: ['timestamp', 'timestamp']
+			};
+		}
+		case 'relevance': {
+			if (!search) throw new RangeError('The relevance order needs a search text.');
+			const rank = searchRank(search);
+			return { keys: [rank, published], text: [sql`${rank}::text`, microTs(published)], casts: ['real', 'timestamp'] };
+		}
+		default:
+			return { keys: [published], text: [microTs(published)], casts: ['timestamp'] };
+	}
+}
+
 /**
- * Published builds, newest first, one page at a time: keyset on (published_at, id) so pages stay
- * stable while builds are added. → { rows, next } where next is the cursor of the following page or null.
+ * Published builds, one page at a time, in `sort` order (newest first by default). Keyset on
+ * (sort keys…, id), all descending: an item's position depends only on its own values, so pages stay
+ * stable while builds are published (new ones sort before the cursor). → { rows, next } where next is
+ * the cursor of the following page or null. A cursor from another sort is a RangeError.
  */
 export async function listPublishedBuilds(opts: ListOptions = {}, dbx: DbLike = db) {
 	const limit = Math.min(Math.max(opts.limit ?? LIST_LIMIT_DEFAULT, 1), LIST_LIMIT_MAX);
+	const sort = opts.sort ?? 'recent';
+	const spec = sortSpec(sort, opts.search);
 	const conds: (SQL | undefined)[] = [eq(schema.build.status, 'published'), ...(opts.where ?? [])];
 	if (opts.cursor) {
-		conds.push(
-			sql`(${schema.build.publishedAt}, ${schema.build.id}) < (${opts.cursor.publishedAt}::timestamp, ${opts.cursor.id}::uuid)`
-		);
+		if (opts.cursor.sort !== sort || opts.cursor.keys.length !== spec.keys.length) {
+			throw new RangeError('This cursor belongs to another order; start again from the first page.');
+		}
+		const values = opts.cursor.keys.map((k, n) => sql`${k}::${sql.raw(spec.casts[n])}`);
+		conds.push(sql`(${sql.join([...spec.keys, sql`${schema.build.id}`], sql`, `)}) < (${sql.join([...values, sql`${opts.cursor.id}::uuid`], sql`, `)})`);
 	}
-	const rows = await selectBuildList(dbx)
+	const rows = await dbx
+		.select({ ...listColumns, sortKeys: sql<string[]>`array[${sql.join(spec.text, sql`, `)}]::text[]` })
+		.from(schema.build)
+		.innerJoin(maker, eq(maker.id, schema.build.ownerId))
+		.leftJoin(cover, eq(cover.id, schema.build.coverPhotoId))
+		.leftJoin(origin, eq(origin.id, schema.build.derivedFromId))
 		.where(and(...conds))
-		.orderBy(desc(schema.build.publishedAt), desc(schema.build.id))
+		.orderBy(...spec.keys.map((k) => sql`${k} desc`), desc(schema.build.id))
 		.limit(limit + 1);
 	const more = rows.length > limit;
 	const page = more ? rows.slice(0, limit) : rows;
 	const last = page[page.length - 1];
-	const next = more && last?.cursorAt ? { publishedAt: last.cursorAt, id: last.id } : null;
+	const next: ListCursor | null = more && last ? { sort, keys: last.sortKeys, id: last.id } : null;
 	return { rows: page, next };
+}
+
+/** SQL conditions for the filters of a list query (all optional; ANDed). */
+export function listFilters(q: Pick<ListQuery, 'q' | 'category' | 'topology' | 'review' | 'mains' | 'maker'>): SQL[] {
+	const b = schema.build;
+	const out: SQL[] = [];
+	if (q.q) out.push(sql`${b.search} @@ ${searchQuery(q.q)}`);
+	if (q.category) out.push(eq(b.category, q.category));
+	if (q.topology) out.push(eq(b.topology, q.topology));
+	if (q.mains) out.push(eq(b.mainsPowered, q.mains === 'true'));
+	if (q.maker) out.push(eq(maker.handle, q.maker));
+	switch (q.review) {
+		case 'unreviewed':
+		case 'safe':
+		case 'rework':
+			out.push(reviewLabelCondition(q.review));
+			break;
+		case 'changed':
+			out.push(sql`(${reviewLabelCondition('safe-changed')} or ${reviewLabelCondition('rework-changed')})`);
+			break;
+		case 'waiting':
+			// Asked for review and no review has landed since the request (also after an earlier verdict).
+			out.push(
+				sql`(${b.reviewRequestedAt} is not null and not exists (select 1 from ${schema.review} r where r.build_id = ${b.id} and r.created_at >= ${b.reviewRequestedAt}))`
+			);
+			break;
+	}
+	return out;
+}
+
+/** The order a list query asks for: its `sort`, else relevance when searching, else recent. */
+export function effectiveSort(q: Pick<ListQuery, 'q' | 'sort'>): ListSort {
+	return q.sort ?? (q.q ? 'relevance' : 'recent');
+}
+
+export type ListResult =
+	| { ok: true; rows: Awaited<ReturnType<typeof listPublishedBuilds>>['rows']; next: ListCursor | null; sort: ListSort }
+	| { ok: false; path: string; message: string };
+
+/**
+ * Run a validated list query (filters, sort, cursor, limit): the one entry point of the builds API list,
+ * the browse and search pages. A bad cursor or relevance without `q` → { ok: false, path, message }.
+ */
+export async function queryBuilds(q: ListQuery, dbx: DbLike = db): Promise<ListResult> {
+	const sort = effectiveSort(q);
+	if (sort === 'relevance' && !q.q) return { ok: false, path: 'sort', message: 'sort=relevance needs a search text (q)' };
+	let cursor: ListCursor | null = null;
+	if (q.cursor) {
+		cursor = decodeCursor(q.cursor);
+		if (!cursor) return { ok: false, path: 'cursor', message: 'is not a cursor this list made' };
+		if (cursor.sort !== sort) return { ok: false, path: 'cursor', message: 'belongs to another sort order; start from the first page' };
+	}
+	const { rows, next } = await listPublishedBuilds(
+		{ limit: q.limit, cursor, sort, search: q.q ? searchQuery(q.q) : undefined, where: listFilters(q) },
+		dbx
+	);
+	return { ok: true, rows, next, sort };
 }
 
 /** A photo in API form: pixel sizes, alt text and the URL of every WebP rendition. */
@@ -181,6 +335,30 @@ export function serializeListItem(r: BuildListRow) {
 			r.originSlug && r.originStatus !== 'draft' ? { slug: r.originSlug, title: r.originTitle, url: `/builds/${r.originSlug}` } : null
 	};
 }
+
+/**
+ * What a build card needs (lists on pages): like the API item, but the cover as a PhotoView for the
+ * Photo component. toCardData(row) → BuildCardData.
+ */
+export function toCardData(r: BuildListRow) {
+	return {
+		slug: r.slug,
+		title: r.title,
+		summary: r.summary,
+		category: r.category,
+		topology: r.topology,
+		mainsPowered: r.mainsPowered,
+		status: r.status,
+		revision: r.revision,
+		derivedCount: r.derivedCount,
+		publishedAt: iso(r.publishedAt),
+		makerName: r.makerName,
+		makerHandle: r.makerHandle,
+		cover: r.cover?.id ? (r.cover as PhotoView) : null,
+		derivedFrom: r.originSlug && r.originStatus !== 'draft' ? { slug: r.originSlug, title: r.originTitle ?? '' } : null
+	};
+}
+export type BuildCardData = ReturnType<typeof toCardData>;
 
 function serializeLink(l: LineageLink) {
 	return { slug: l.slug, url: `/builds/${l.slug}`, title: l.title, status: l.status, maker: { name: l.makerName, handle: l.makerHandle } };

@@ -14,7 +14,7 @@ import { crossChecks, isSpecKind, type Check } from '$lib/specs';
 import { lineToDraft, normaliseLine, type NormalisedPartLine, type PartCheck } from '$lib/parts';
 
 type BlockRow = Pick<schema.SpecBlock, 'id' | 'kind' | 'data' | 'derived' | 'checks'>;
-type LineLike = Pick<NormalisedPartLine, 'designators' | 'kind' | 'value' | 'ratingV'>;
+type LineLike = Pick<NormalisedPartLine, 'designators' | 'value' | 'ratingV'> & { kind: string };
 
 /**
  * Highest voltage the parts may see, V: the largest unloaded rail of the supply blocks (derived.peakDcV),

@@ -17,6 +17,7 @@ export const POST: RequestHandler = async ({ request, params, locals, url }) => 
 	if (!locals.user && html) redirect(303, `/sign-in?next=${encodeURIComponent(back)}`);
 
 	return photoRoute(
+		request,
 		async () => {
 			const user = requireUser();
 			const b = await editableBuild(params.slug, user);
@@ -63,6 +64,6 @@ export const POST: RequestHandler = async ({ request, params, locals, url }) => 
 			if (html) redirect(303, back);
 			return json({ photo: toPhotoView(row) }, { status: 201 });
 		},
-		{ htmlBack: html ? back : undefined }
+		{ htmlBack: html ? back : undefined, drainLimit: photoMaxBytes() + FORM_OVERHEAD }
 	);
 };

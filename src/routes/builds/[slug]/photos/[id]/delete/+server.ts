@@ -8,6 +8,7 @@ export const POST: RequestHandler = async ({ params, request, locals, url }) => 
 	const back = backTo(request, url.origin, `/builds/${params.slug}/edit`);
 	if (!locals.user && html) redirect(303, `/sign-in?next=${encodeURIComponent(back)}`);
 	return photoRoute(
+		request,
 		async () => {
 			const deleted = await deleteBuildPhoto(params.slug, params.id);
 			if (html) redirect(303, back);

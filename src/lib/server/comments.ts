@@ -1,0 +1,251 @@
+/**
+ * Comments on builds (PRODUCT.md §4.6): Markdown, sanitized on save, threaded one level deep (a reply
+ * answers a top-level comment). Authors edit within 15 minutes and delete their own; nobody comments on
+ * a locked build; moderators hide and restore (moderation.ts). Readers never see hidden comments.
+ */
+import { error } from '@sveltejs/kit';
+import { and, asc, eq, gt, sql } from 'drizzle-orm';
+import { env } from '$env/dynamic/private';
+import * as schema from './db/schema';
+import { db } from './db';
+import { renderMarkdown } from './markdown';
+import { notifyReply } from './notifications';
+import { roleAtLeast } from '$lib/roles';
+import { commentEditSchema, commentSchema } from '$lib/schemas/review';
+
+/** How long an author may edit a comment after posting it. */
+export const EDIT_WINDOW_MS = 15 * 60 * 1000;
+
+export interface CommentActor {
+	id: string;
+	role?: string | null;
+	name?: string;
+}
+
+/** A comment as the API and the Comments component show it. */
+export interface CommentItem {
+	id: string;
+	author: { name: string; handle: string | null } | null;
+	bodyHtml: string;
+	createdAt: string;
+	editedAt: string | null;
+	parentId: string | null;
+	replies: CommentItem[];
+	/** Only for moderators: the comment is hidden from readers. */
+	hidden?: true;
+	hiddenReason?: string | null;
+	/** Deleted by its author; kept as a placeholder because it has replies. */
+	deleted?: true;
+	/** The viewer wrote it. */
+	mine?: true;
+	/** Until when the viewer may edit it (ISO), when it is theirs and still editable. */
+	editableUntil?: string;
+}
+
+type BuildRef = Pick<schema.Build, 'id' | 'slug' | 'title' | 'status' | 'locked' | 'ownerId'>;
+
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+
+/**
+ * All comments of a build as a tree (top-level oldest first, replies oldest first). Hidden comments are
+ * left out (with their replies) unless the viewer is a moderator; a deleted comment stays only as a
+ * placeholder while it has visible replies.
+ */
+export async function listComments(buildId: string, viewer: CommentActor | null | undefined): Promise<CommentItem[]> {
+	const rows = await db
+		.select({
+			c: schema.comment,
+			name: schema.user.name,
+			handle: schema.user.handle
+		})
+		.from(schema.comment)
+		.innerJoin(schema.user, eq(schema.user.id, schema.comment.authorId))
+		.where(eq(schema.comment.buildId, buildId))
+		.orderBy(asc(schema.comment.createdAt), asc(schema.comment.id))
+		.limit(2000);
+	const moderator = roleAtLeast(viewer?.role, 'moderator');
+	const now = Date.now();
+
+	const toItem = (r: (typeof rows)[number]): CommentItem | null => {
+		const c = r.c;
+		if (c.hidden && !moderator) return null;
+		const mine = !!viewer && viewer.id === c.authorId;
+		if (c.deletedAt) {
+			return { id: c.id, author: null, bodyHtml: '', createdAt: c.createdAt.toISOString(), editedAt: null, parentId: c.parentId, replies: [], deleted: true };
+		}
+		const item: CommentItem = {
+			id: c.id,
+			author: { name: r.name, handle: r.handle },
+			bodyHtml: c.bodyHtml,
+			createdAt: c.createdAt.toISOString(),
+			editedAt: c.editedAt?.toISOString() ?? null,
+			parentId: c.parentId,
+			replies: []
+		};
+		if (c.hidden) {
+			item.hidden = true;
+			item.hiddenReason = c.hiddenReason;
+		}
+		if (mine) {
+			item.mine = true;
+			const until = c.createdAt.getTime() + EDIT_WINDOW_MS;
+			if (until > now) item.editableUntil = new Date(until).toISOString();
+		}
+		return item;
+	};
+
+	const top: CommentItem[] = [];
+	const byId = new Map<string, CommentItem>();
+	for (const r of rows) {
+		if (r.c.parentId) continue;
+		const item = toItem(r);
+		if (!item) continue;
+		byId.set(item.id, item);
+		top.push(item);
+	}
+	for (const r of rows) {
+		if (!r.c.parentId) continue;
+		const parent = byId.get(r.c.parentId);
+		if (!parent) continue;
+		const item = toItem(r);
+		if (item && !item.deleted) parent.replies.push(item);
+	}
+	return top.filter((t) => !t.deleted || t.replies.length > 0);
+}
+
+/** The build with this slug for comment routes: 404 unless it exists and `viewer` may see it (drafts: maker and admins). */
+export async function requireCommentableBuild(slug: string, viewer: CommentActor | null | undefined): Promise<BuildRef> {
+	if (!/^[a-z0-9][a-z0-9-]{0,200}$/.test(slug)) error(404, 'Not found');
+	const [b] = await db
+		.select({
+			id: schema.build.id,
+			slug: schema.build.slug,
+			title: schema.build.title,
+			status: schema.build.status,
+			locked: schema.build.locked,
+			ownerId: schema.build.ownerId
+		})
+		.from(schema.build)
+		.where(eq(schema.build.slug, slug));
+	if (!b) error(404, 'Not found');
+	if (b.status === 'draft' && !(viewer && (viewer.id === b.ownerId || roleAtLeast(viewer.role, 'admin')))) error(404, 'Not found');
+	return b;
+}
+
+function limitPerMinute(): number {
+	return Number(env.COMMENT_RATE_PER_MIN ?? 6);
+}
+function limitPerHour(): number {
+	return Number(env.COMMENT_RATE_PER_HOUR ?? 60);
+}
+
+/**
+ * Refuse (429) when the member posted too often: by default 6 comments a minute, 60 an hour. Counted
+ * from the comment table itself, so every app process sees the same numbers.
+ */
+async function assertRate(authorId: string): Promise<void> {
+	const [{ minute, hour }] = await db
+		.select({
+			minute: sql<number>`count(*) filter (where ${schema.comment.createdAt} > now() - interval '1 minute')::int`,
+			hour: sql<number>`count(*)::int`
+		})
+		.from(schema.comment)
+		.where(and(eq(schema.comment.authorId, authorId), gt(schema.comment.createdAt, sql`now() - interval '1 hour'`)));
+	if (minute >= limitPerMinute() || hour >= limitPerHour()) {
+		error(429, 'You are commenting faster than we allow. Wait a minute and try again; your text is kept.');
+	}
+}
+
+function assertOpen(b: BuildRef): void {
+	if (b.locked) error(403, 'A moderator has locked this build: comments are closed for now.');
+	if (b.status !== 'published') error(403, 'Comments open once the build is published.');
+}
+
+/**
+ * Post a comment or a reply (to a top-level comment of the same build). Replies notify the parent's
+ * author unless they turned reply mail off. → the new comment as the API shows it.
+ */
+export async function postComment(
+	actor: CommentActor,
+	build: BuildRef,
+	input: { body: string; parentId?: string | null }
+): Promise<CommentItem> {
+	const data = commentSchema.parse(input);
+	assertOpen(build);
+	let parent: { id: string; authorId: string } | null = null;
+	if (data.parentId) {
+		const [p] = await db
+			.select({ id: schema.comment.id, authorId: schema.comment.authorId, parentId: schema.comment.parentId, buildId: schema.comment.buildId, hidden: schema.comment.hidden, deletedAt: schema.comment.deletedAt })
+			.from(schema.comment)
+			.where(eq(schema.comment.id, data.parentId));
+		if (!p || p.buildId !== build.id || p.parentId || p.hidden || p.deletedAt) {
+			error(422, 'You can only reply to a top-level comment of this build.');
+		}
+		parent = p;
+	}
+	await assertRate(actor.id);
+	const bodyHtml = renderMarkdown(data.body);
+	const [row] = await db
+		.insert(schema.comment)
+		.values({ buildId: build.id, authorId: actor.id, parentId: parent?.id ?? null, bodyMd: data.body, bodyHtml })
+		.returning();
+	const [me] = await db.select({ name: schema.user.name, handle: schema.user.handle }).from(schema.user).where(eq(schema.user.id, actor.id));
+	if (parent && parent.authorId !== actor.id) {
+		await notifyReply({ parentAuthorId: parent.authorId, replierName: me?.name ?? 'A member', build, commentId: row.id, bodyMd: data.body });
+	}
+	return {
+		id: row.id,
+		author: { name: me?.name ?? '', handle: me?.handle ?? null },
+		bodyHtml: row.bodyHtml,
+		createdAt: row.createdAt.toISOString(),
+		editedAt: null,
+		parentId: row.parentId,
+		replies: [],
+		mine: true,
+		editableUntil: new Date(row.createdAt.getTime() + EDIT_WINDOW_MS).toISOString()
+	};
+}
+
+async function ownComment(actor: CommentActor, build: BuildRef, commentId: string) {
+	if (!UUID.test(commentId)) error(404, 'Not found');
+	const [c] = await db
+		.select()
+		.from(schema.comment)
+		.where(and(eq(schema.comment.id, commentId), eq(schema.comment.buildId, build.id)));
+	if (!c || c.deletedAt || (c.hidden && !roleAtLeast(actor.role, 'moderator'))) error(404, 'Not found');
+	if (c.authorId !== actor.id) error(403, 'Only its author can change or delete a comment.');
+	return c;
+}
+
+/** The author edits a comment within 15 minutes of posting it (not on a locked build, not once hidden). */
+export async function editComment(actor: CommentActor, build: BuildRef, commentId: string, body: string): Promise<CommentItem> {
+	const data = commentEditSchema.parse({ body });
+	const c = await ownComment(actor, build, commentId);
+	if (build.locked) error(403, 'A moderator has locked this build: comments are closed for now.');
+	if (c.hidden) error(403, 'A moderator hid this comment; it cannot be edited.');
+	if (Date.now() - c.createdAt.getTime() > EDIT_WINDOW_MS) error(403, 'Comments can be edited for 15 minutes after posting.');
+	const bodyHtml = renderMarkdown(data.body);
+	const [row] = await db
+		.update(schema.comment)
+		.set({ bodyMd: data.body, bodyHtml, editedAt: new Date() })
+		.where(eq(schema.comment.id, c.id))
+		.returning();
+	const [me] = await db.select({ name: schema.user.name, handle: schema.user.handle }).from(schema.user).where(eq(schema.user.id, actor.id));
+	return {
+		id: row.id,
+		author: { name: me?.name ?? '', handle: me?.handle ?? null },
+		bodyHtml: row.bodyHtml,
+		createdAt: row.createdAt.toISOString(),
+		editedAt: row.editedAt?.toISOString() ?? null,
+		parentId: row.parentId,
+		replies: [],
+		mine: true,
+		editableUntil: new Date(row.createdAt.getTime() + EDIT_WINDOW_MS).toISOString()
+	};
+}
+
+/** The author deletes their comment (kept as a placeholder while it has replies). */
+export async function deleteComment(actor: CommentActor, build: BuildRef, commentId: string): Promise<void> {
+	const c = await ownComment(actor, build, commentId);
+	await db.update(schema.comment).set({ deletedAt: new Date(), bodyMd: '', bodyHtml: '' }).where(eq(schema.comment.id, c.id));
+}

@@ -1,0 +1,101 @@
+import { describe, it, expect, afterAll, beforeAll, vi } from 'vitest';
+import { error } from '@sveltejs/kit';
+
+// photo-http reads no request itself, but auth.ts (imported for requireUser) needs $app/server.
+vi.mock('$app/server', () => ({ getRequestEvent: () => ({ locals: { user: null }, url: new URL('http://x/'), request: new Request('http://x/') }) }));
+
+const { editableBuild, isUuid, photoRoute } = await import('./photo-http');
+const { PhotoError } = await import('./photos');
+const { createMakerWithBuild, removeMaker } = await import('./testing/photos');
+
+async function status(p: Promise<unknown>): Promise<number | string> {
+	return p.then(
+		() => 'ok',
+		(e: unknown) => (e instanceof PhotoError ? e.status : ((e as { status?: number }).status ?? String(e)))
+	);
+}
+
+describe('who may add photos (editableBuild)', () => {
+	let open: Awaited<ReturnType<typeof createMakerWithBuild>>;
+	let locked: Awaited<ReturnType<typeof createMakerWithBuild>>;
+	beforeAll(async () => {
+		open = await createMakerWithBuild();
+		locked = await createMakerWithBuild({ locked: true });
+	});
+	afterAll(async () => {
+		await removeMaker(open.userId);
+		await removeMaker(locked.userId);
+	});
+
+	it('lets the maker and an admin in; refuses others, signed-out visitors and locked builds', async () => {
+		expect(await status(editableBuild(open.build.slug, { id: open.userId, role: 'maker' }))).toBe('ok');
+		expect(await status(editableBuild(open.build.slug, { id: 'someone-else', role: 'maker' }))).toBe(403);
+		expect(await status(editableBuild(open.build.slug, { id: 'a-moderator', role: 'moderator' }))).toBe(403);
+		expect(await status(editableBuild(open.build.slug, null))).toBe(401);
+		expect(await status(editableBuild(locked.build.slug, { id: locked.userId, role: 'maker' }))).toBe(403);
+		expect(await status(editableBuild(locked.build.slug, { id: 'an-admin', role: 'admin' }))).toBe('ok');
+		expect(await status(editableBuild(`no-such-build-${Date.now()}`, { id: open.userId }))).toBe(404);
+	});
+});
+
+describe('photoRoute', () => {
+	const upload = (size: number) =>
+		new Request('http://x/builds/b/photos', {
+			method: 'POST',
+			body: new Uint8Array(size),
+			headers: { 'content-type': 'multipart/form-data; boundary=x', 'content-length': String(size) }
+		});
+
+	it('turns a guard error into the JSON envelope and reads the unread body first', async () => {
+		const req = upload(50_000);
+		const res = await photoRoute(req, async () => error(403, 'Only the maker of this build can change it.'), {
+			drainLimit: 100_000
+		});
+		expect(res.status).toBe(403);
+		expect(await res.json()).toEqual({
+			error: { code: 'forbidden', message: 'Only the maker of this build can change it.', issues: [] }
+		});
+		expect(req.bodyUsed).toBe(true);
+	});
+
+	it('answers a refusal of an oversized body at once and closes the connection', async () => {
+		const req = upload(200_000);
+		const res = await photoRoute(
+			req,
+			async () => {
+				throw new PhotoError(413, 'too_large', 'The photo is larger than the 15 MB limit.');
+			},
+			{ drainLimit: 100_000 }
+		);
+		expect(res.status).toBe(413);
+		expect(res.headers.get('connection')).toBe('close');
+		expect(req.bodyUsed).toBe(false);
+		expect((await res.json()).error).toMatchObject({ code: 'too_large', issues: [{ path: 'file' }] });
+	});
+
+	it('answers a no-script form with a small page and a way back', async () => {
+		const res = await photoRoute(
+			upload(10),
+			async () => {
+				throw new PhotoError(415, 'invalid', 'That file is not a JPEG, PNG or WebP image.');
+			},
+			{ htmlBack: '/builds/b/edit', drainLimit: 100 }
+		);
+		expect(res.status).toBe(415);
+		expect(res.headers.get('content-type')).toContain('text/html');
+		const html = await res.text();
+		expect(html).toContain('That file is not a JPEG, PNG or WebP image.');
+		expect(html).toContain('href="/builds/b/edit"');
+	});
+
+	it('lets unexpected errors through (they become a logged 500 without details)', async () => {
+		await expect(photoRoute(upload(10), async () => Promise.reject(new Error('db down')))).rejects.toThrow('db down');
+	});
+
+	it('checks UUIDs before they reach a uuid column', () => {
+		expect(isUuid('5d1df01b-f98e-473a-96e0-c2407da0b477')).toBe(true);
+		expect(isUuid('5d1df01b')).toBe(false);
+		expect(isUuid("x' or 1=1")).toBe(false);
+		expect(isUuid(null)).toBe(false);
+	});
+});

@@ -1,0 +1,210 @@
+/**
+ * Safety flags (PRODUCT.md §3, §4.5): a reviewer points at a step, a spec block or a part line with a
+ * category, a severity and a Markdown note. Lifecycle:
+ *   open → addressed   by the build's maker, with a note saying what they changed
+ *   open | addressed → resolved   by a reviewer (or above) who is not the maker
+ *   addressed | resolved → open   "reopened", by a reviewer (or above) who is not the maker
+ * Every rule is checked here, whatever route calls it.
+ */
+import { error } from '@sveltejs/kit';
+import { and, eq, inArray, sql } from 'drizzle-orm';
+import * as schema from '../db/schema';
+import { db, type Tx } from '../db';
+import { renderMarkdown } from '../markdown';
+import { recordAudit } from '../audit';
+import { notifyFlag } from '../notifications';
+import { inTx } from '../builds/tx';
+import { roleAtLeast } from '$lib/roles';
+import { addressFlagSchema, raiseFlagSchema, type RaiseFlagInput } from '$lib/schemas/review';
+import type { FlagState } from '$lib/reviews';
+import { requireTarget } from './targets';
+
+export interface Actor {
+	id: string;
+	role?: string | null;
+	name?: string;
+}
+
+type BuildForReview = Pick<schema.Build, 'id' | 'ownerId' | 'status' | 'slug' | 'title' | 'revision'>;
+
+/**
+ * Throw unless `actor` may review `build` (raise flags, give a verdict): 403 below reviewer or for the
+ * build's own maker — a maker can never review their own build — and 409 unless it is published.
+ */
+export function assertCanReview(actor: Actor, build: Pick<schema.Build, 'ownerId' | 'status'>): void {
+	if (!roleAtLeast(actor.role, 'reviewer')) error(403, 'Only reviewers can review builds.');
+	if (actor.id === build.ownerId) error(403, 'A maker can never review their own build.');
+	if (build.status !== 'published') error(409, 'Only published builds can be reviewed.');
+}
+
+/** True when `actor` may review `build` (for showing links; the server still checks on use). */
+export function canReview(actor: Actor | null | undefined, build: Pick<schema.Build, 'ownerId' | 'status'>): boolean {
+	return !!actor && roleAtLeast(actor.role, 'reviewer') && actor.id !== build.ownerId && build.status === 'published';
+}
+
+async function lockBuildRow(tx: Tx, buildId: string): Promise<schema.Build> {
+	const [b] = await tx.select().from(schema.build).where(eq(schema.build.id, buildId)).for('update');
+	if (!b) error(404, 'Not found');
+	return b;
+}
+
+async function lockFlag(tx: Tx, flagId: string): Promise<{ flag: schema.SafetyFlag; build: schema.Build }> {
+	if (!/^[0-9a-f-]{36}$/i.test(flagId)) error(404, 'Not found');
+	const [flag] = await tx.select().from(schema.safetyFlag).where(eq(schema.safetyFlag.id, flagId)).for('update');
+	if (!flag) error(404, 'Not found');
+	const [build] = await tx.select().from(schema.build).where(eq(schema.build.id, flag.buildId));
+	if (!build) error(404, 'Not found');
+	return { flag, build };
+}
+
+/** Options for writes: run in the caller's transaction; `notify: false` queues no mail (seed). */
+export interface WriteOptions {
+	tx?: Tx;
+	notify?: boolean;
+}
+
+/**
+ * Raise a safety flag on a step, spec block or part line of a published build. The flag remembers the
+ * build revision it was raised on. The maker is e-mailed (unless they turned flag mail off).
+ * → the new flag's id.
+ */
+export async function raiseFlag(actor: Actor, buildId: string, input: RaiseFlagInput, opts: WriteOptions = {}): Promise<string> {
+	const data = raiseFlagSchema.parse(input);
+	const noteHtml = renderMarkdown(data.note);
+	const result = await inTx(opts.tx, async (tx) => {
+		const b = await lockBuildRow(tx, buildId);
+		assertCanReview(actor, b);
+		const target = await requireTarget(tx, b.id, data.targetKind, data.targetId);
+		const [row] = await tx
+			.insert(schema.safetyFlag)
+			.values({
+				buildId: b.id,
+				raisedById: actor.id,
+				targetKind: data.targetKind,
+				targetId: data.targetId,
+				category: data.category,
+				severity: data.severity,
+				noteMd: data.note,
+				noteHtml,
+				revision: b.revision
+			})
+			.returning({ id: schema.safetyFlag.id });
+		await recordAudit(tx, {
+			actorId: actor.id,
+			action: 'flag.raise',
+			targetKind: 'flag',
+			targetId: row.id,
+			details: { build: b.slug, category: data.category, severity: data.severity, target: target.label }
+		});
+		return { id: row.id, build: b, target };
+	});
+	if (opts.notify !== false) {
+		await notifyFlag({
+			ownerId: result.build.ownerId,
+			reviewerName: await nameOf(actor),
+			build: result.build,
+			flagId: result.id,
+			category: data.category,
+			severity: data.severity,
+			targetLabel: result.target.label,
+			noteMd: data.note
+		});
+	}
+	return result.id;
+}
+
+/** The maker marks a flag addressed, saying what they changed. Only from "open"; not on a locked build. */
+export async function addressFlag(actor: Actor, flagId: string, note: string, opts: WriteOptions = {}): Promise<BuildForReview> {
+	const data = addressFlagSchema.parse({ note });
+	return inTx(opts.tx, async (tx) => {
+		const { flag, build } = await lockFlag(tx, flagId);
+		if (actor.id !== build.ownerId) error(403, 'Only the maker of this build can mark its flags addressed.');
+		if (build.locked) error(403, 'A moderator has locked this build, so its flags cannot be changed for now.');
+		if (flag.state !== 'open') error(409, `This flag is ${flag.state}, not open: only open flags can be marked addressed.`);
+		await tx
+			.update(schema.safetyFlag)
+			.set({ state: 'addressed', addressedNote: data.note, addressedAt: new Date(), updatedAt: new Date() })
+			.where(eq(schema.safetyFlag.id, flag.id));
+		return build;
+	});
+}
+
+const FROM: Record<'resolve' | 'reopen', FlagState[]> = {
+	resolve: ['open', 'addressed'],
+	reopen: ['addressed', 'resolved']
+};
+
+/**
+ * A reviewer (not the build's maker) resolves a flag (from open or addressed) or reopens it (from
+ * addressed or resolved). Written to the audit log. → the build it belongs to.
+ */
+export async function setFlagState(
+	actor: Actor,
+	flagId: string,
+	change: 'resolve' | 'reopen',
+	opts: WriteOptions = {}
+): Promise<BuildForReview> {
+	return inTx(opts.tx, async (tx) => {
+		const { flag, build } = await lockFlag(tx, flagId);
+		if (!roleAtLeast(actor.role, 'reviewer')) error(403, 'Only reviewers can resolve or reopen flags.');
+		if (actor.id === build.ownerId) error(403, 'A maker cannot resolve or reopen flags on their own build.');
+		if (!FROM[change].includes(flag.state as FlagState)) {
+			error(409, change === 'resolve' ? 'This flag is already resolved.' : 'This flag is already open.');
+		}
+		const now = new Date();
+		await tx
+			.update(schema.safetyFlag)
+			.set(
+				change === 'resolve'
+					? { state: 'resolved', resolvedById: actor.id, resolvedAt: now, updatedAt: now }
+					: { state: 'open', resolvedById: null, resolvedAt: null, updatedAt: now }
+			)
+			.where(eq(schema.safetyFlag.id, flag.id));
+		await recordAudit(tx, {
+			actorId: actor.id,
+			action: change === 'resolve' ? 'flag.resolve' : 'flag.reopen',
+			targetKind: 'flag',
+			targetId: flag.id,
+			details: { build: build.slug, from: flag.state }
+		});
+		return build;
+	});
+}
+
+/** Open flags per target of a build: targetId → count (for inline markers on steps, spec blocks and parts). */
+export async function getFlagMarkers(buildId: string): Promise<Map<string, number>> {
+	if (!/^[0-9a-f-]{36}$/i.test(buildId)) return new Map();
+	const rows = await db
+		.select({ targetId: schema.safetyFlag.targetId, n: sql<number>`count(*)::int` })
+		.from(schema.safetyFlag)
+		.where(and(eq(schema.safetyFlag.buildId, buildId), eq(schema.safetyFlag.state, 'open')))
+		.groupBy(schema.safetyFlag.targetId);
+	return new Map(rows.map((r) => [r.targetId, r.n]));
+}
+
+/** Count of open flags for each of many builds (review desk). */
+export async function openFlagCounts(buildIds: string[]): Promise<Map<string, number>> {
+	if (!buildIds.length) return new Map();
+	const rows = await db
+		.select({ buildId: schema.safetyFlag.buildId, n: sql<number>`count(*)::int` })
+		.from(schema.safetyFlag)
+		.where(and(inArray(schema.safetyFlag.buildId, buildIds), eq(schema.safetyFlag.state, 'open')))
+		.groupBy(schema.safetyFlag.buildId);
+	return new Map(rows.map((r) => [r.buildId, r.n]));
+}
+
+/** One flag with the build it belongs to; 404 when absent. */
+export async function getFlag(flagId: string) {
+	if (!/^[0-9a-f-]{36}$/i.test(flagId)) error(404, 'Not found');
+	const [row] = await db.select().from(schema.safetyFlag).where(eq(schema.safetyFlag.id, flagId));
+	if (!row) error(404, 'Not found');
+	return row;
+}
+
+async function nameOf(actor: Actor): Promise<string> {
+	if (actor.name) return actor.name;
+	const [u] = await db.select({ name: schema.user.name }).from(schema.user).where(eq(schema.user.id, actor.id));
+	return u?.name ?? 'A reviewer';
+}
+
+export { nameOf as reviewerName };

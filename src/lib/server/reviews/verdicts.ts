@@ -1,0 +1,97 @@
+/**
+ * Review requests and verdicts (PRODUCT.md §4.5). A maker asks for review of a published build; a
+ * reviewer (never the maker) gives a verdict, safe or rework, pinned to the revision current at that
+ * moment. Once the build changes, the verdict is "changed since"; asking again puts it back on the desk.
+ */
+import { error } from '@sveltejs/kit';
+import { and, eq, sql } from 'drizzle-orm';
+import * as schema from '../db/schema';
+import type { Tx } from '../db';
+import { renderMarkdown } from '../markdown';
+import { recordAudit } from '../audit';
+import { notifyReview } from '../notifications';
+import { inTx } from '../builds/tx';
+import { reviewSchema, type ReviewInput } from '$lib/schemas/review';
+import { assertCanReview, reviewerName, type Actor, type WriteOptions } from './flags';
+
+/**
+ * The maker asks for review of their published build: it joins the review desk (oldest request first).
+ * Asking while already waiting keeps the original place in the queue. → 'queued' | 'already-waiting'.
+ */
+export async function requestReview(actor: Actor, buildId: string, tx?: Tx): Promise<'queued' | 'already-waiting'> {
+	return inTx(tx, async (t) => {
+		const [b] = await t.select().from(schema.build).where(eq(schema.build.id, buildId)).for('update');
+		if (!b) error(404, 'Not found');
+		if (actor.id !== b.ownerId) error(403, 'Only the maker of this build can ask for its review.');
+		if (b.status !== 'published') error(409, 'Publish the build first: reviewers review published builds.');
+		if (b.locked) error(403, 'A moderator has locked this build; it cannot go to the review desk for now.');
+		if (b.reviewRequestedAt) return 'already-waiting';
+		await t.update(schema.build).set({ reviewRequestedAt: new Date() }).where(eq(schema.build.id, b.id));
+		return 'queued';
+	});
+}
+
+/**
+ * A reviewer gives a verdict on the build's current revision. "safe" is refused while the build has
+ * open flags (resolve them or give "rework"). Clears the review request, stamps last_reviewed_at,
+ * writes the audit log and e-mails the maker. → { id, revision }.
+ */
+export async function submitReview(
+	actor: Actor,
+	buildId: string,
+	input: ReviewInput,
+	opts: WriteOptions = {}
+): Promise<{ id: string; revision: number }> {
+	const data = reviewSchema.parse(input);
+	const summaryHtml = renderMarkdown(data.summary);
+	const result = await inTx(opts.tx, async (tx) => {
+		const [b] = await tx.select().from(schema.build).where(eq(schema.build.id, buildId)).for('update');
+		if (!b) error(404, 'Not found');
+		assertCanReview(actor, b);
+		if (data.verdict === 'safe') {
+			const [{ n }] = await tx
+				.select({ n: sql<number>`count(*)::int` })
+				.from(schema.safetyFlag)
+				.where(and(eq(schema.safetyFlag.buildId, b.id), eq(schema.safetyFlag.state, 'open')));
+			if (n > 0) {
+				error(
+					409,
+					`This build has ${n} open safety flag${n === 1 ? '' : 's'}. Resolve ${n === 1 ? 'it' : 'them'} first, or give the verdict "rework".`
+				);
+			}
+		}
+		const now = new Date();
+		const [row] = await tx
+			.insert(schema.review)
+			.values({
+				buildId: b.id,
+				reviewerId: actor.id,
+				revision: b.revision,
+				verdict: data.verdict,
+				summaryMd: data.summary,
+				summaryHtml,
+				createdAt: now
+			})
+			.returning({ id: schema.review.id });
+		await tx.update(schema.build).set({ reviewRequestedAt: null, lastReviewedAt: now }).where(eq(schema.build.id, b.id));
+		await recordAudit(tx, {
+			actorId: actor.id,
+			action: 'review.submit',
+			targetKind: 'review',
+			targetId: row.id,
+			details: { build: b.slug, verdict: data.verdict, revision: b.revision }
+		});
+		return { id: row.id, revision: b.revision, build: b };
+	});
+	if (opts.notify !== false) {
+		await notifyReview({
+			ownerId: result.build.ownerId,
+			reviewerName: await reviewerName(actor),
+			build: result.build,
+			verdict: data.verdict,
+			revision: result.revision,
+			summaryMd: data.summary
+		});
+	}
+	return { id: result.id, revision: result.revision };
+}

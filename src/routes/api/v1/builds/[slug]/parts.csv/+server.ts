@@ -1,0 +1,25 @@
+import type { RequestHandler } from './$types';
+import { apiError, methodNotAllowed } from '$lib/server/api';
+import { canView, getBuildBySlug } from '$lib/server/builds';
+import { listPartLines, partsToCsv } from '$lib/server/parts';
+
+/**
+ * GET /api/v1/builds/:slug/parts.csv — the parts list as RFC 4180 CSV (API.md). Published and archived
+ * builds for everyone; a draft only for its maker (and admins); anything else is a 404 envelope, so a
+ * draft's existence does not leak.
+ */
+export const GET: RequestHandler = async ({ params, locals }) => {
+	const b = await getBuildBySlug(params.slug);
+	if (!b || !canView(locals.user, b)) return apiError(404, 'not_found', 'No such build.');
+	const csv = partsToCsv(await listPartLines(b.id));
+	return new Response(csv, {
+		headers: {
+			'content-type': 'text/csv; charset=utf-8',
+			'content-disposition': `attachment; filename="${b.slug}-parts.csv"`,
+			'cache-control': b.status === 'draft' ? 'private, no-store' : 'no-cache'
+		}
+	});
+};
+
+/** Any other method → 405 method_not_allowed. */
+export const fallback: RequestHandler = () => methodNotAllowed(['GET']);

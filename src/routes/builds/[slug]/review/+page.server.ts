@@ -1,0 +1,63 @@
+import { error, fail, redirect } from '@sveltejs/kit';
+import { superValidate, message } from 'sveltekit-superforms';
+import { zod4 } from 'sveltekit-superforms/adapters';
+import { requireRole } from '$lib/server/auth';
+import { loadBuildContent, requireVisibleBuild, runAction } from '$lib/server/builds';
+import { assertCanReview, getReviewPanel, raiseFlag, submitReview } from '$lib/server/reviews';
+import { raiseFlagSchema, reviewSchema } from '$lib/schemas/review';
+import type { Actions, PageServerLoad } from './$types';
+
+/** The build, checked: reviewers and up, never the maker, published only. */
+async function reviewable(slug: string) {
+	const user = requireRole('reviewer');
+	const b = await requireVisibleBuild(slug, user);
+	assertCanReview(user, b);
+	return { user, b };
+}
+
+export const load: PageServerLoad = async ({ params }) => {
+	const { user, b } = await reviewable(params.slug);
+	const [content, panel, form] = await Promise.all([
+		loadBuildContent(b),
+		getReviewPanel(b.id, user),
+		superValidate(zod4(reviewSchema))
+	]);
+	return {
+		build: { id: b.id, slug: b.slug, title: b.title, revision: b.revision, mainsPowered: b.mainsPowered, summary: b.summary },
+		steps: content.steps.map((s) => ({ id: s.id, title: s.title, bodyHtml: s.bodyHtml })),
+		specBlocks: content.specBlocks,
+		parts: content.parts,
+		panel,
+		form
+	};
+};
+
+export const actions: Actions = {
+	raiseFlag: async ({ params, request }) => {
+		const { user, b } = await reviewable(params.slug);
+		const data = Object.fromEntries(await request.formData());
+		const values = Object.fromEntries(Object.entries(data).map(([k, v]) => [k, String(v)]));
+		const parsed = raiseFlagSchema.safeParse(values);
+		if (!parsed.success) {
+			const issues: Record<string, string> = {};
+			for (const i of parsed.error.issues) issues[String(i.path[0])] ??= i.message;
+			return fail(400, { flagFailed: { targetId: values.targetId ?? '', message: 'The flag was not raised: check the fields below.', values, issues } });
+		}
+		const r = await runAction(() => raiseFlag({ ...user, name: user.name }, b.id, parsed.data));
+		if (typeof r !== 'string') {
+			const msg = (r.data as { error?: string }).error ?? 'The flag was not raised.';
+			return fail(r.status, { flagFailed: { targetId: parsed.data.targetId, message: msg, values, issues: {} } });
+		}
+		return { flagged: parsed.data.targetId, flagId: r };
+	},
+	submitReview: async ({ params, request }) => {
+		const { user, b } = await reviewable(params.slug);
+		const form = await superValidate(request, zod4(reviewSchema));
+		if (!form.valid) return fail(400, { form });
+		const r = await runAction(() => submitReview({ ...user, name: user.name }, b.id, form.data));
+		if (!('revision' in r)) {
+			return message(form, (r.data as { error?: string }).error ?? 'The review was not saved.', { status: r.status as 409 });
+		}
+		redirect(303, `/builds/${b.slug}#review-state`);
+	}
+};
