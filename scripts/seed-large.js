@@ -222,6 +222,9 @@ try {
 			 where c.rn <= ${COMMENTS_REPLIES}`
 		);
 
+		// Fresh statistics, so the planner hashes the big joins below instead of looping over them.
+		await run('analyze', 'analyze "user", build, build_step, part_line, comment');
+
 		await run(
 			'reviews',
 			`insert into review (build_id, reviewer_id, revision, verdict, summary_md, summary_html, created_at)
@@ -234,6 +237,7 @@ try {
 			 where b.status = 'published' and ${rnd('n', 36, 10)} < 3 and b.owner_id <> 'lg-user-' || (1 + ${rnd('n', 32, REVIEWERS)})`
 		);
 
+		await run('analyze', 'analyze review');
 		await run(
 			'derived counts, review times',
 			`update build b set derived_count = coalesce(d.n, 0),

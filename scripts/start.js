@@ -65,7 +65,7 @@ try {
 		}
 	});
 	const { DEMO_ACCOUNTS } = await import('./lib/demo-accounts.js');
-	await waitFor(`${stack.env.ORIGIN}/`, 60_000);
+	await waitFor(`${stack.env.ORIGIN}/`, 240_000);
 	console.log(`
 Starground is running at ${stack.env.ORIGIN}/
 Local inbox (fake SMTP):  ${stack.env.MAIL_VIEWER_URL}/

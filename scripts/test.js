@@ -111,7 +111,7 @@ try {
 			stdio: ['ignore', fs.openSync(path.join(dataRoot, 'app.log'), 'a'), fs.openSync(path.join(dataRoot, 'app.log'), 'a')],
 			env: { ...process.env, ...testEnv, NODE_ENV: 'production', SEED_DEMO: 'true', AUTH_SIGNIN_MAX: '1000' }
 		});
-		await waitFor(`${testEnv.ORIGIN}/`, 60_000);
+		await waitFor(`${testEnv.ORIGIN}/`, 240_000);
 		console.log('• Playwright: end-to-end tests in Debian Chromium');
 		const code = await run('npx', ['playwright', 'test'], testEnv);
 		if (code !== 0) {

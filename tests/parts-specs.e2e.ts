@@ -131,6 +131,7 @@ test('parts list: a CSV with one bad line is refused with its line number and no
 test('parts editor: a bad value is refused with its line number, nothing saved; the live hint shows the network value', async ({ page }) => {
 	await signIn(page, JOSS);
 	await page.goto(`/builds/${SLUG}/edit/parts`);
+	await expect(page.locator('#parts-form')).toHaveAttribute('data-ready', 'true');
 	const lines = page.locator('fieldset[data-line]');
 	const count = await lines.count();
 	await page.getByRole('button', { name: 'Add a line' }).click();

@@ -12,34 +12,14 @@ import { renderMarkdown } from './markdown';
 import { notifyReply } from './notifications';
 import { roleAtLeast } from '$lib/roles';
 import { commentEditSchema, commentSchema } from '$lib/schemas/review';
+import { EDIT_WINDOW_MS, type CommentItem } from '$lib/comments';
 
-/** How long an author may edit a comment after posting it. */
-export const EDIT_WINDOW_MS = 15 * 60 * 1000;
+export { EDIT_WINDOW_MS, type CommentItem };
 
 export interface CommentActor {
 	id: string;
 	role?: string | null;
 	name?: string;
-}
-
-/** A comment as the API and the Comments component show it. */
-export interface CommentItem {
-	id: string;
-	author: { name: string; handle: string | null } | null;
-	bodyHtml: string;
-	createdAt: string;
-	editedAt: string | null;
-	parentId: string | null;
-	replies: CommentItem[];
-	/** Only for moderators: the comment is hidden from readers. */
-	hidden?: true;
-	hiddenReason?: string | null;
-	/** Deleted by its author; kept as a placeholder because it has replies. */
-	deleted?: true;
-	/** The viewer wrote it. */
-	mine?: true;
-	/** Until when the viewer may edit it (ISO), when it is theirs and still editable. */
-	editableUntil?: string;
 }
 
 type BuildRef = Pick<schema.Build, 'id' | 'slug' | 'title' | 'status' | 'locked' | 'ownerId'>;
@@ -88,6 +68,7 @@ export async function listComments(buildId: string, viewer: CommentActor | null 
 		}
 		if (mine) {
 			item.mine = true;
+			item.bodyMd = c.bodyMd;
 			const until = c.createdAt.getTime() + EDIT_WINDOW_MS;
 			if (until > now) item.editableUntil = new Date(until).toISOString();
 		}
@@ -202,6 +183,7 @@ export async function postComment(
 		parentId: row.parentId,
 		replies: [],
 		mine: true,
+		bodyMd: row.bodyMd,
 		editableUntil: new Date(row.createdAt.getTime() + EDIT_WINDOW_MS).toISOString()
 	};
 }
@@ -240,6 +222,7 @@ export async function editComment(actor: CommentActor, build: BuildRef, commentI
 		parentId: row.parentId,
 		replies: [],
 		mine: true,
+		bodyMd: row.bodyMd,
 		editableUntil: new Date(row.createdAt.getTime() + EDIT_WINDOW_MS).toISOString()
 	};
 }

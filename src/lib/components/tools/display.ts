@@ -29,3 +29,22 @@ export function show(value: number | undefined, unit: string, digits = 3): strin
 export function pct(fraction: number | undefined): string {
 	return fraction === undefined ? '—' : `${sig(fraction * 100, 3)} %`;
 }
+
+/**
+ * A capacitance the way the trade writes reservoirs: show(0.01, 'F') is "10 mF", so values of 1 mF and more
+ * also get their µF figure: showCapacitance(0.01) → "10 000 µF (10 mF)"; below 1 mF it is formatValue's.
+ */
+export function showCapacitance(valueF: number | undefined): string {
+	if (valueF === undefined || !Number.isFinite(valueF)) return '—';
+	const plain = formatValue(valueF, 'F');
+	if (valueF < 1e-3) return plain;
+	const uF = Number((valueF * 1e6).toPrecision(3));
+	return `${uF.toLocaleString('en-GB').replace(/,/g, '\u202f')} µF (${plain})`;
+}
+
+/** A signed percentage with a real minus sign: signedPct(-6) → "−6 %", signedPct(2.2) → "+2.2 %". */
+export function signedPct(value: number, digits = 3): string {
+	if (!Number.isFinite(value)) return '—';
+	if (value === 0) return '0 %';
+	return `${value > 0 ? '+' : '\u2212'}${sig(Math.abs(value), digits)} %`;
+}

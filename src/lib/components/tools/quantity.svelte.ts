@@ -4,14 +4,20 @@ import { readQuantity, type QuantitySpec, type Reading } from './quantity';
 export class Quantity {
 	/** The text in the input, exactly as typed. */
 	text = $state('');
-	readonly spec: QuantitySpec;
+	readonly #spec: QuantitySpec | (() => QuantitySpec);
 	/** Empty text is allowed and reads as "not given" (value undefined, no error). */
 	readonly optional: boolean;
 
-	constructor(initial: string, spec: QuantitySpec, optional = false) {
+	/** `spec` may be a function so a field can change kind with the page's state (it is read reactively). */
+	constructor(initial: string, spec: QuantitySpec | (() => QuantitySpec), optional = false) {
 		this.text = initial;
-		this.spec = spec;
+		this.#spec = spec;
 		this.optional = optional;
+	}
+
+	/** How the text is read. */
+	get spec(): QuantitySpec {
+		return typeof this.#spec === 'function' ? this.#spec() : this.#spec;
 	}
 
 	/** What the text reads as; for an optional, empty field: ok with no value. */

@@ -1,36 +1,158 @@
+import { and, eq } from 'drizzle-orm';
 import type { Tx } from '../db';
 import * as schema from '../db/schema';
-import type { DemoMemberKey } from './members';
+import { createDraft, addStep, publish, derive } from '../builds';
+import { savePartsList } from '../parts';
+import { saveSpecBlock } from '../specs';
+import { processAndStorePhoto, renderIllustration } from '../photos';
+import { renderMarkdown } from '../markdown';
+import { emptyDraft } from '$lib/parts';
+import { DEMO_MEMBERS, type DemoMemberKey } from './members';
+import { DEMO_BUILDS, DEMO_DERIVE, type DemoBuild } from './content';
+import { illustrationSvg } from './illustrations';
 
-/** Invented demo builds (drafts for now). */
-export async function seedBuilds(tx: Tx, ids: Record<DemoMemberKey, string>): Promise<void> {
-	await tx.insert(schema.build).values([
-		{
-			slug: 'bench-stereo-chip-amp',
-			ownerId: ids.maker,
-			title: 'Bench stereo chip amp on ±28 V rails',
-			summary: 'Two 5-pin monolithic power amplifier ICs on a split supply, in a folded aluminium case.',
-			category: 'power-amp',
-			topology: 'class-ab-chip',
-			mainsPowered: true
-		},
-		{
-			slug: 'quiet-class-a-headphone-amp',
-			ownerId: ids.maker2,
-			title: 'Quiet class A headphone amp',
-			summary: 'A discrete single-ended class A stage with a follower output, fed from a small linear supply.',
-			category: 'headphone-amp',
-			topology: 'class-a',
-			mainsPowered: true
-		},
-		{
-			slug: 'dual-rail-lab-supply',
-			ownerId: ids.maker3,
-			title: 'Dual-rail linear supply for amplifier boards',
-			summary: 'Toroid, bridge and reservoirs for ±30 V rails, with bleeders and a soft start.',
-			category: 'power-supply',
-			topology: 'other',
-			mainsPowered: true
+type Ids = Record<DemoMemberKey, string>;
+
+const roleOf = (key: DemoMemberKey) => DEMO_MEMBERS.find((m) => m.key === key)!.role;
+
+interface Seeded {
+	demo: DemoBuild;
+	id: string;
+	ownerId: string;
+	stepIds: string[];
+}
+
+/**
+ * The invented demo builds, written through the same domain functions the pages use, so every spec
+ * block carries its derived values and checks and every published build has its revisions. Runs in
+ * the seed's transaction; photos are drawn and stored in the same transaction too.
+ */
+export async function seedBuilds(tx: Tx, ids: Ids): Promise<void> {
+	const seeded: Seeded[] = [];
+	for (const demo of DEMO_BUILDS) {
+		const ownerId = ids[demo.owner];
+		const actor = { id: ownerId, role: roleOf(demo.owner) };
+		const { id } = await createDraft(
+			ownerId,
+			{
+				title: demo.title,
+				summary: demo.summary,
+				category: demo.category,
+				topology: demo.topology,
+				mainsPowered: demo.mainsPowered,
+				licence: demo.licence
+			} as Parameters<typeof createDraft>[1],
+			tx
+		);
+		await tx.update(schema.build).set({ slug: demo.slug }).where(eq(schema.build.id, id));
+		const stepIds: string[] = [];
+		for (const s of demo.steps) stepIds.push((await addStep(actor, id, { title: s.title, bodyMd: s.body }, tx)).id);
+		for (const block of demo.specs) {
+			const r = await saveSpecBlock(actor, id, { kind: block.kind, data: block.data }, tx);
+			if (!r.ok) throw new Error(`demo spec block ${demo.key}/${block.kind}: ${JSON.stringify(r.issues)}`);
 		}
-	]);
+		if (demo.parts.length) {
+			const drafts = demo.parts.map((p) => ({
+				...emptyDraft(),
+				designators: p.designators,
+				quantity: String(p.quantity),
+				kind: p.kind,
+				value: p.value,
+				tolerance: p.tolerancePct != null ? String(p.tolerancePct) : '',
+				ratingV: p.ratingV != null ? String(p.ratingV) : '',
+				ratingW: p.ratingW != null ? String(p.ratingW) : '',
+				package: p.package ?? '',
+				notes: p.notes ?? '',
+				designValue: p.designValue ?? '',
+				reason: p.reason ?? ''
+			}));
+			const r = await savePartsList(actor, id, drafts, { tx });
+			if (!r.ok) throw new Error(`demo parts ${demo.key}: ${JSON.stringify(r.errors)}`);
+		}
+		await seedPhotos(tx, demo, id, ownerId, stepIds);
+		if (demo.status === 'published') await publish(actor, id, tx);
+		seeded.push({ demo, id, ownerId, stepIds });
+	}
+	await seedReviews(tx, ids, seeded);
+	const origin = seeded.find((s) => s.demo.key === DEMO_DERIVE.from)!;
+	const derived = await derive({ id: ids[DEMO_DERIVE.by], role: roleOf(DEMO_DERIVE.by) }, origin.id, tx);
+	await tx.update(schema.build).set({ title: DEMO_DERIVE.title }).where(eq(schema.build.id, derived.id));
+}
+
+async function seedPhotos(tx: Tx, demo: DemoBuild, buildId: string, ownerId: string, stepIds: string[]) {
+	let seed = demo.slug.length;
+	if (demo.cover) {
+		const bytes = await renderIllustration(illustrationSvg(demo.cover.motif, demo.title, seed++));
+		await processAndStorePhoto({ ownerId, buildId, bytes, alt: demo.cover.alt, asCover: true, tx });
+	}
+	for (const [i, step] of demo.steps.entries()) {
+		if (!step.image) continue;
+		const bytes = await renderIllustration(illustrationSvg(step.image.motif, step.title, seed++));
+		await processAndStorePhoto({ ownerId, buildId, stepId: stepIds[i], bytes, alt: step.image.alt, tx });
+	}
+}
+
+/** Reviews in each state the scenario needs: safe, rework with open flags, waiting, safe but changed since. */
+async function seedReviews(tx: Tx, ids: Ids, seeded: Seeded[]) {
+	const reviewer = ids.reviewer;
+	const day = 24 * 3600 * 1000;
+	for (const [n, s] of seeded.entries()) {
+		const kind = s.demo.review;
+		if (!kind) continue;
+		const [b] = await tx.select().from(schema.build).where(eq(schema.build.id, s.id));
+		const at = new Date(Date.now() - (10 - n) * day);
+		if (kind === 'waiting') {
+			await tx.update(schema.build).set({ reviewRequestedAt: at }).where(eq(schema.build.id, s.id));
+			continue;
+		}
+		const verdict = kind === 'rework' ? 'rework' : 'safe';
+		const summary =
+			verdict === 'safe'
+				? 'Earthing, fusing and the insulated tabs look right to me, and the heatsinks have margin at 40 °C. This is my opinion as a peer, not a certification.'
+				: 'Two things to change before this stays on for long: the output transistors run close to their limit on those small heatsinks, and the output resistor was replaced by a link.';
+		await tx.insert(schema.review).values({
+			buildId: s.id,
+			reviewerId: reviewer,
+			revision: b.revision,
+			verdict,
+			summaryMd: summary,
+			summaryHtml: renderMarkdown(summary),
+			createdAt: at
+		});
+		await tx.update(schema.build).set({ lastReviewedAt: at }).where(eq(schema.build.id, s.id));
+		if (kind === 'rework') {
+			const [thermal] = await tx
+				.select()
+				.from(schema.specBlock)
+				.where(and(eq(schema.specBlock.buildId, s.id), eq(schema.specBlock.kind, 'thermal')));
+			const parts = await tx.select().from(schema.partLine).where(eq(schema.partLine.buildId, s.id));
+			const link = parts.find((p) => p.kind === 'resistor' && p.valueText.startsWith('0R'));
+			const flags = [
+				{ targetKind: 'step', targetId: s.stepIds[1], category: 'heat', severity: 'fix', note: 'About 138 °C at the junction with a 45 °C case inside. Use a larger heatsink (≤ 6 K/W) or lower the idle current.' },
+				...(link ? [{ targetKind: 'part', targetId: link.id, category: 'ratings', severity: 'check', note: 'The link removes the output protection resistor; a shorted jack now loads the follower directly.' }] : []),
+				...(thermal ? [{ targetKind: 'spec', targetId: thermal.id, category: 'heat', severity: 'fix', note: 'Please re-run this block with the heatsink you end up using.' }] : [])
+			];
+			for (const f of flags) {
+				await tx.insert(schema.safetyFlag).values({
+					buildId: s.id,
+					raisedById: reviewer,
+					targetKind: f.targetKind,
+					targetId: f.targetId,
+					category: f.category,
+					severity: f.severity,
+					noteMd: f.note,
+					noteHtml: renderMarkdown(f.note),
+					revision: b.revision,
+					createdAt: at
+				});
+			}
+		}
+		if (kind === 'safe-changed') {
+			// The maker changed the build after the verdict: r2, so the badge reads "safe at r1 · changed since".
+			await addStep({ id: s.ownerId, role: 'maker' }, s.id, {
+				title: 'Later: a soft-start for the toroid',
+				bodyMd: 'I added an inrush limiter (a thermistor shorted by a relay after two seconds). The fuse no longer flickers at switch-on.'
+			}, tx);
+		}
+	}
 }

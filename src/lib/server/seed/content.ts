@@ -377,7 +377,7 @@ export const DEMO_BUILDS: DemoBuild[] = [
 			}
 		],
 		parts: [
-			{ designators: 'VR1', quantity: 1, kind: 'potentiometer', value: 'A103', notes: 'Dual gang, log taper (letter meaning differs by region — measured about 15 % at mid-rotation)' },
+			{ designators: 'VR1', quantity: 1, kind: 'potentiometer', value: '10k', notes: 'Marked A103: dual gang, log taper (letter meaning differs by region — measured about 15 % at mid-rotation)' },
 			{ designators: 'SW1', quantity: 1, kind: 'switch', value: '2-pole 4-way rotary' },
 			{ designators: 'R1–R8', quantity: 8, kind: 'resistor', value: '100k', tolerancePct: 1, ratingW: 0.25, notes: 'Input pull-downs' }
 		]
@@ -455,7 +455,7 @@ export const DEMO_BUILDS: DemoBuild[] = [
 			}
 		],
 		parts: [
-			{ designators: 'U1', quantity: 1, kind: 'module', value: 'stereo DAC module' },
+			{ designators: 'U1', quantity: 1, kind: 'other', value: 'stereo DAC module' },
 			{ designators: 'U2, U3', quantity: 2, kind: 'regulator', value: 'low-noise adjustable regulator', package: 'TO-220' },
 			{ designators: 'C1', quantity: 1, kind: 'capacitor', value: '2200u', tolerancePct: 20, ratingV: 25 },
 			{ designators: 'C2, C3', quantity: 2, kind: 'capacitor', value: '10u', tolerancePct: 5, ratingV: 63, package: 'film' },
@@ -499,7 +499,7 @@ export const DEMO_BUILDS: DemoBuild[] = [
 		],
 		parts: [
 			{ designators: 'R1–R4', quantity: 4, kind: 'resistor', value: '33R', tolerancePct: 5, ratingW: 50, package: 'aluminium clad' },
-			{ designators: 'FAN1', quantity: 1, kind: 'fan', value: '12 V 80 mm fan' }
+			{ designators: 'FAN1', quantity: 1, kind: 'other', value: '12 V 80 mm fan' }
 		]
 	},
 	{

@@ -1,0 +1,218 @@
+// Integration (real PostgreSQL): flag lifecycle and who may move it, verdicts pinned to revisions, the
+// review desk, and notification opt-outs (nothing queued when a member turned a kind off).
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { eq } from 'drizzle-orm';
+import { db } from '../db';
+import * as schema from '../db/schema';
+import { addStep } from '../builds';
+import { stopMail } from '../mail';
+import { createTestUser, removeTestUsers } from '../testing/builds';
+import { createPublishedBuild, queuedMailTo, type TestBuild } from '../testing/reviews';
+import {
+	addressFlag,
+	getFlagMarkers,
+	getReviewPanel,
+	getReviewState,
+	getReviewStates,
+	listWaiting,
+	raiseFlag,
+	requestReview,
+	reviewLabelText,
+	setFlagState,
+	submitReview
+} from './index';
+
+type U = Awaited<ReturnType<typeof createTestUser>>;
+let owner: U, other: U, reviewer: U, reviewer2: U, moderator: U;
+let build: TestBuild;
+const users: string[] = [];
+
+async function emailOf(id: string) {
+	const [u] = await db.select({ email: schema.user.email }).from(schema.user).where(eq(schema.user.id, id));
+	return u.email;
+}
+
+beforeAll(async () => {
+	owner = await createTestUser('maker', 'Owner');
+	other = await createTestUser('maker', 'Other');
+	reviewer = await createTestUser('reviewer', 'Reviewer');
+	reviewer2 = await createTestUser('reviewer', 'Second reviewer');
+	moderator = await createTestUser('moderator', 'Moderator');
+	users.push(owner.id, other.id, reviewer.id, reviewer2.id, moderator.id);
+	build = await createPublishedBuild(owner);
+});
+
+afterAll(async () => {
+	await removeTestUsers(users);
+	await stopMail();
+});
+
+const flagInput = (targetId: string, kind: 'step' | 'spec' | 'part' = 'step') => ({
+	targetKind: kind,
+	targetId,
+	category: 'heat' as const,
+	severity: 'fix' as const,
+	note: 'The tab sits at V− and the heatsink is bonded to the chassis: add an insulator.'
+});
+
+describe('safety flags: who may raise and move them', () => {
+	it('only reviewers who are not the maker raise flags, on targets of the same build', async () => {
+		await expect(raiseFlag(other, build.id, flagInput(build.steps.heatsink))).rejects.toMatchObject({ status: 403 });
+		await expect(raiseFlag(owner, build.id, flagInput(build.steps.heatsink))).rejects.toMatchObject({ status: 403 });
+		// A reviewer's own build: never reviewable by them.
+		const ownReviewerBuild = await createPublishedBuild(reviewer2);
+		await expect(raiseFlag(reviewer2, ownReviewerBuild.id, flagInput(ownReviewerBuild.steps.heatsink))).rejects.toMatchObject({
+			status: 403
+		});
+		// A target of another build is refused.
+		await expect(raiseFlag(reviewer, build.id, flagInput(ownReviewerBuild.steps.heatsink))).rejects.toMatchObject({ status: 422 });
+	});
+
+	it('open → addressed (maker only) → resolved (reviewer only) → reopened → addressed again', async () => {
+		const id = await raiseFlag(reviewer, build.id, flagInput(build.steps.heatsink), { notify: false });
+		const state = async () => (await db.select().from(schema.safetyFlag).where(eq(schema.safetyFlag.id, id)))[0];
+		expect((await state()).state).toBe('open');
+		expect((await state()).revision).toBe((await getReviewState(build.id)).currentRevision);
+		expect((await getFlagMarkers(build.id)).get(build.steps.heatsink)).toBe(1);
+
+		// Nobody but the maker addresses; reviewers do not resolve their way around the maker's note… but may resolve directly.
+		await expect(addressFlag(reviewer, id, 'Fixed it')).rejects.toMatchObject({ status: 403 });
+		await expect(addressFlag(other, id, 'Fixed it')).rejects.toMatchObject({ status: 403 });
+		await expect(addressFlag(owner, id, 'x')).rejects.toThrow();
+		await addressFlag(owner, id, 'Added a mica insulator and a shoulder washer; measured open circuit tab to chassis.');
+		expect((await state()).state).toBe('addressed');
+		expect((await state()).addressedNote).toContain('mica');
+		await expect(addressFlag(owner, id, 'again, please')).rejects.toMatchObject({ status: 409 });
+
+		// The maker cannot resolve their own flags; a maker without the role cannot either.
+		await expect(setFlagState(owner, id, 'resolve')).rejects.toMatchObject({ status: 403 });
+		await expect(setFlagState(other, id, 'resolve')).rejects.toMatchObject({ status: 403 });
+		await setFlagState(reviewer2, id, 'resolve');
+		const resolved = await state();
+		expect(resolved.state).toBe('resolved');
+		expect(resolved.resolvedById).toBe(reviewer2.id);
+		await expect(setFlagState(reviewer, id, 'resolve')).rejects.toMatchObject({ status: 409 });
+		expect((await getFlagMarkers(build.id)).get(build.steps.heatsink)).toBeUndefined();
+
+		await setFlagState(moderator, id, 'reopen');
+		expect((await state()).state).toBe('open');
+		expect((await state()).resolvedById).toBeNull();
+		await expect(setFlagState(reviewer, id, 'reopen')).rejects.toMatchObject({ status: 409 });
+		await addressFlag(owner, id, 'Replaced the insulator with a thicker one.');
+		expect((await state()).state).toBe('addressed');
+
+		const audit = await db.select().from(schema.auditEntry).where(eq(schema.auditEntry.targetId, id));
+		expect(audit.map((a) => a.action).sort()).toEqual(['flag.raise', 'flag.reopen', 'flag.resolve']);
+		// Leave it resolved for the verdict tests.
+		await setFlagState(reviewer, id, 'resolve');
+	});
+
+	it('the maker cannot address flags while a moderator has locked the build', async () => {
+		const id = await raiseFlag(reviewer, build.id, flagInput(build.supplyBlockId, 'spec'), { notify: false });
+		await db.update(schema.build).set({ locked: true, lockedReason: 'test' }).where(eq(schema.build.id, build.id));
+		try {
+			await expect(addressFlag(owner, id, 'Changed the fuse to T2A.')).rejects.toMatchObject({ status: 403 });
+		} finally {
+			await db.update(schema.build).set({ locked: false, lockedReason: null }).where(eq(schema.build.id, build.id));
+		}
+		await setFlagState(reviewer, id, 'resolve');
+	});
+});
+
+describe('verdicts pinned to revisions', () => {
+	it('rework at r1, the build changes, it returns to the desk, safe only once flags are resolved', async () => {
+		const r0 = await getReviewState(build.id);
+		expect(r0.verdict).toBeNull();
+
+		expect(await requestReview(owner, build.id)).toBe('queued');
+		expect(await requestReview(owner, build.id)).toBe('already-waiting');
+		await expect(requestReview(other, build.id)).rejects.toMatchObject({ status: 403 });
+		let s = await getReviewState(build.id);
+		expect(s.label).toBe('waiting');
+		expect(reviewLabelText(s)).toBe('waiting for review');
+		expect((await listWaiting()).some((w) => w.id === build.id)).toBe(true);
+		const desk = (await listWaiting()).find((w) => w.id === build.id)!;
+		expect(desk.mainsPowered).toBe(true);
+
+		const rev1 = s.currentRevision;
+		const flag = await raiseFlag(reviewer, build.id, flagInput(build.steps.heatsink), { notify: false });
+		await expect(submitReview(owner, build.id, { verdict: 'safe', summary: 'Looks fine to me, honestly.' })).rejects.toMatchObject({
+			status: 403
+		});
+		await expect(submitReview(reviewer, build.id, { verdict: 'safe', summary: 'Everything checks out nicely.' })).rejects.toMatchObject({
+			status: 409
+		});
+		await submitReview(reviewer, build.id, { verdict: 'rework', summary: 'Insulate the tab before powering up.' }, { notify: false });
+
+		s = await getReviewState(build.id);
+		expect(s).toMatchObject({ label: 'rework', verdict: 'rework', verdictRevision: rev1, waiting: false, openFlags: 1 });
+		expect(reviewLabelText(s)).toBe(`rework at r${rev1}`);
+		const [row] = await db.select().from(schema.build).where(eq(schema.build.id, build.id));
+		expect(row.reviewRequestedAt).toBeNull();
+		expect(row.lastReviewedAt).not.toBeNull();
+		expect((await listWaiting()).some((w) => w.id === build.id)).toBe(false);
+
+		// The maker changes the build: a new revision; the verdict stays with r1.
+		await addressFlag(owner, flag, 'Insulator fitted, see the new step.');
+		await addStep(owner, build.id, { title: 'Tab insulation', bodyMd: 'Mica, grease, shoulder washer.' });
+		s = await getReviewState(build.id);
+		expect(s.currentRevision).toBe(rev1 + 1);
+		expect(s).toMatchObject({ label: 'rework-changed', verdictRevision: rev1 });
+		expect(reviewLabelText(s)).toBe(`rework at r${rev1} · changed since`);
+
+		await requestReview(owner, build.id);
+		s = await getReviewState(build.id);
+		expect(s.waiting).toBe(true);
+		expect(reviewLabelText(s)).toBe(`rework at r${rev1} · changed since · waiting for review`);
+		expect((await listWaiting()).find((w) => w.id === build.id)?.previous).toEqual({ verdict: 'rework', revision: rev1 });
+
+		await setFlagState(reviewer, flag, 'resolve');
+		const review = await submitReview(reviewer, build.id, { verdict: 'safe', summary: 'Tab insulated, fuse right, earth bonded.' }, { notify: false });
+		expect(review.revision).toBe(rev1 + 1);
+		s = (await getReviewStates([build.id])).get(build.id)!;
+		expect(s).toMatchObject({ label: 'safe', verdict: 'safe', verdictRevision: rev1 + 1, waiting: false, openFlags: 0 });
+		expect(s.reviewer?.name).toContain('Reviewer');
+		expect(reviewLabelText(s)).toBe(`safe at r${rev1 + 1}`);
+
+		// A further change makes it "safe … changed since".
+		await addStep(owner, build.id, { title: 'Listening notes', bodyMd: 'Quiet at idle.' });
+		s = await getReviewState(build.id);
+		expect(s.label).toBe('safe-changed');
+		expect(reviewLabelText(s)).toBe(`safe at r${rev1 + 1} · changed since`);
+
+		const panel = await getReviewPanel(build.id, owner);
+		expect(panel.reviews.map((r) => [r.verdict, r.revision])).toEqual([
+			['safe', rev1 + 1],
+			['rework', rev1]
+		]);
+		expect(panel.can).toMatchObject({ requestReview: true, review: false, address: true, resolve: false });
+		expect((await getReviewPanel(build.id, reviewer)).can).toMatchObject({ requestReview: false, review: true, resolve: true });
+		expect((await getReviewPanel(build.id, null)).can).toMatchObject({ requestReview: false, review: false, address: false, resolve: false });
+	});
+});
+
+describe('notifications respect the opt-outs', () => {
+	it('queues review and flag mail for the maker only while those kinds are on', async () => {
+		const maker = await createTestUser('maker', 'Notified');
+		users.push(maker.id);
+		const b = await createPublishedBuild(maker);
+		const email = await emailOf(maker.id);
+		const t0 = new Date(Date.now() - 1000);
+
+		await raiseFlag({ ...reviewer, name: 'Reviewer R' }, b.id, flagInput(b.steps.heatsink));
+		let mail = await queuedMailTo(email, t0);
+		expect(mail.map((m) => m.subject)).toEqual([`Safety flag on “${b.title}”: Heat`]);
+
+		await db.update(schema.user).set({ notifyFlag: false, notifyReview: false }).where(eq(schema.user.id, maker.id));
+		const t1 = new Date();
+		await raiseFlag(reviewer, b.id, flagInput(b.supplyBlockId, 'spec'));
+		await submitReview(reviewer, b.id, { verdict: 'rework', summary: 'Two flags to deal with first.' });
+		mail = await queuedMailTo(email, t1);
+		expect(mail).toEqual([]);
+
+		await db.update(schema.user).set({ notifyReview: true }).where(eq(schema.user.id, maker.id));
+		await submitReview(reviewer2, b.id, { verdict: 'rework', summary: 'Agree with the flags raised.' });
+		mail = await queuedMailTo(email, t1);
+		expect(mail.map((m) => m.subject)).toEqual([`Review of “${b.title}”: rework at r${(await getReviewState(b.id)).currentRevision}`]);
+	});
+});

@@ -1,0 +1,154 @@
+import { test, expect, type Page, type Locator } from '@playwright/test';
+
+// Every expected number below is worked out here from the formulas in REFERENCE.md with the inputs the
+// test types — never read back from the page. Displays have 3 (or 4) significant figures, so a number
+// is compared within half a unit of its last shown digit.
+
+/** The leading number of a result's text ("78.1 W" → 78.1, "−6 %" → −6). */
+function leadingNumber(text: string): number {
+	const m = /[-\u2212]?\d[\d\s\u202f,]*(?:\.\d+)?/.exec(text);
+	if (!m) throw new Error(`no number in "${text}"`);
+	return Number(m[0].replace(/\u2212/, '-').replace(/[\s\u202f,]/g, ''));
+}
+
+/** Expects the result to show `expected` to the precision displayed (3 significant figures unless told). */
+async function expectShown(result: Locator, expected: number, digits = 3) {
+	await expect
+		.poll(async () => {
+			const shown = leadingNumber((await result.textContent()) ?? '');
+			return Math.abs(shown - expected) <= Math.abs(expected) * 0.5 * 10 ** (1 - digits);
+		}, { message: `expected about ${expected}` })
+		.toBe(true);
+}
+
+/** Marks the page so a reload would be noticed (a reload drops the mark). */
+async function markPage(page: Page) {
+	await page.evaluate(() => ((window as unknown as { __toolMark: number }).__toolMark = 42));
+}
+async function expectSamePage(page: Page) {
+	expect(await page.evaluate(() => (window as unknown as { __toolMark?: number }).__toolMark)).toBe(42);
+}
+
+/** Types into a field once the page has hydrated (retries until the typed value takes effect). */
+async function typeLive(page: Page, label: string | RegExp, text: string, check: () => Promise<void>) {
+	await expect(async () => {
+		await page.getByLabel(label).fill(text);
+		await check();
+	}).toPass({ timeout: 15_000 });
+}
+
+test('amplifier tool: first paint has the plot, results follow the inputs without a reload', async ({ page }) => {
+	await page.goto('/tools/amplifier');
+	// Server-rendered plot with both loads, before anything is typed.
+	const plot = page.getByRole('img', { name: /Maximum sine power against rail voltage/ });
+	await expect(plot).toBeVisible();
+	await expect(plot.locator('path[data-series="8 Ω"]')).toHaveCount(1);
+	await expect(plot.locator('path[data-series="4 Ω"]')).toHaveCount(1);
+	const before4 = await plot.locator('path[data-series="4 Ω"]').getAttribute('d');
+
+	// Defaults ±35 V, 8 Ω, 3 V dropout → (35 − 3)² / (2 · 8) = 64 W.
+	await expectShown(page.getByTestId('maxPowerW'), (35 - 3) ** 2 / (2 * 8));
+	await markPage(page);
+
+	const rail = 28;
+	const dropout = 3;
+	await typeLive(page, 'Rail voltage (each side, ±)', String(rail), async () => {
+		await expectShown(page.getByTestId('maxPowerW'), (rail - dropout) ** 2 / (2 * 8));
+	});
+	const load = 4;
+	await page.getByLabel('Load').fill(String(load));
+	const vpk = rail - dropout;
+	await expectShown(page.getByTestId('maxPowerW'), vpk ** 2 / (2 * load));
+	await expectShown(page.getByTestId('peakCurrentA'), vpk / load);
+	await expectShown(page.getByTestId('worstDissipationW'), (2 * rail ** 2) / (Math.PI ** 2 * load));
+
+	// An output power to evaluate: supply power 2·Vrail·Vpk/(π·RL) with Vpk = √(2·P·RL).
+	const outputW = 20;
+	await page.getByLabel('Output power to evaluate (optional)').fill(String(outputW));
+	const vpkAt = Math.sqrt(2 * outputW * load);
+	const pin = (2 * rail * vpkAt) / (Math.PI * load);
+	await expectShown(page.getByTestId('supplyPowerW'), pin);
+	await expectShown(page.getByTestId('dissipationW'), pin - outputW);
+
+	// More than the rails can give: a clear inline error on that field, the other results stay.
+	await page.getByLabel('Output power to evaluate (optional)').fill('500');
+	await expect(page.getByText(/is above the .* these rails can give/)).toBeVisible();
+	await expect(page.getByLabel('Output power to evaluate (optional)')).toHaveAttribute('aria-invalid', 'true');
+
+	// The plot redrew for the new rail, still with both loads and the chosen point.
+	await expect(plot.locator('path[data-series="4 Ω"]')).not.toHaveAttribute('d', before4 ?? '');
+	await expect(plot.locator('path[data-series="8 Ω"]')).toHaveCount(1);
+	await expect(plot.locator('[data-series="Your rails into 4 Ω"]')).toHaveCount(1);
+
+	// Undecodable input never crashes the page.
+	await page.getByLabel('Load').fill('4x7');
+	await expect(page.getByText(/Cannot read "4x7" as a resistance/)).toBeVisible();
+	await page.getByLabel('Load').fill('8');
+	await expectShown(page.getByTestId('maxPowerW'), vpk ** 2 / (2 * 8));
+	await expectSamePage(page);
+});
+
+test('trade notation in the gain and series/parallel tools', async ({ page }) => {
+	await page.goto('/tools/gain');
+	await markPage(page);
+	// 47k and 2k2: Av = 1 + 47 000 / 2 200.
+	await typeLive(page, 'Rf (output to inverting input)', '47k', async () => {
+		await expectShown(page.getByTestId('gain'), 1 + 47_000 / 1_000, 4);
+	});
+	await page.getByLabel('Ri (inverting input to ground)').fill('2k2');
+	const av = 1 + 47_000 / 2_200;
+	await expectShown(page.getByTestId('gain'), av, 4);
+	await expectShown(page.getByTestId('gainDb'), 20 * Math.log10(av), 4);
+	// Input corner 1/(2π · 22 kΩ · 470 nF).
+	await page.getByLabel('Cin (series input capacitor)').fill('470n');
+	await expectShown(page.getByTestId('inputCornerHz'), 1 / (2 * Math.PI * 22_000 * 470e-9));
+	await expectSamePage(page);
+
+	await page.goto('/tools/network');
+	await markPage(page);
+	await typeLive(page, 'Part 1', '10k', async () => {
+		await expectShown(page.getByTestId('networkValue'), 1 / (1 / 10_000 + 1 / 4_700) / 1000);
+	});
+	await page.getByLabel('Joined in').selectOption('series');
+	await expectShown(page.getByTestId('networkValue'), (10_000 + 4_700) / 1000);
+	await expect(page.getByTestId('networkValue')).toContainText('kΩ');
+	await expectSamePage(page);
+});
+
+test('codes tool decodes 474K as 470 nF ±10 %', async ({ page }) => {
+	await page.goto('/tools/codes');
+	// 474K: 47 × 10⁴ pF, K = ±10 %.
+	const nF = (47 * 10 ** 4) / 1000;
+	await typeLive(page, 'Marking', '103', async () => {
+		await expect(page.getByTestId('decoded')).toHaveText(`${(10 * 10 ** 3) / 1000} nF`);
+	});
+	await page.getByLabel('Marking').fill('474K');
+	await expect(page.getByTestId('decoded')).toHaveText(`${nF} nF`);
+	await expect(page.getByTestId('decodedTolerance')).toHaveText('±10 %');
+	// A potentiometer's taper letter is reported as ambiguous, not guessed.
+	await page.getByLabel('Marking').fill('A104');
+	await expect(page.getByTestId('taper')).toContainText('A');
+	await expect(page.getByTestId('taperNote')).toContainText(/linear/i);
+	await expect(page.getByTestId('taperNote')).toContainText(/log/i);
+	// Nonsense gets a sentence, not a crash.
+	await page.getByLabel('Marking').fill('QQQ');
+	await expect(page.locator('#code-err')).toBeVisible();
+});
+
+test('supply tool shows the mains caution and ripple follows the reservoir', async ({ page }) => {
+	await page.goto('/tools/supply');
+	const caution = page.locator('[data-caution]');
+	await expect(caution).toContainText('Mains voltage');
+	await expect(caution).toContainText(/defer to local codes and licensed practice/i);
+	await expect(page.getByRole('img', { name: /Ripple against reservoir capacitance/ })).toBeVisible();
+
+	// Full wave at 50 Hz: ripple = I / (2 · 50 · C).
+	const amps = 3;
+	await typeLive(page, 'Load current per rail', String(amps), async () => {
+		await expectShown(page.getByTestId('rippleVpp'), amps / (2 * 50 * 10_000e-6));
+	});
+	await page.getByLabel('Reservoir per rail').fill('4700u');
+	await expectShown(page.getByTestId('rippleVpp'), amps / (2 * 50 * 4_700e-6));
+	// Unloaded rail of a 25 V winding, one 0.8 V diode per rail: √2 · 25 − 0.8.
+	await expectShown(page.getByTestId('peakDcV'), Math.SQRT2 * 25 - 0.8);
+});
