@@ -61,7 +61,7 @@ const TOPOLOGY = {
 	other: ['other', 'passive']
 };
 const RAILS = ['±12', '±15', '±18', '±22', '±25', '±28', '±30', '±35', '+24', '+48'];
-const CHASSIS = ['folded aluminium case', 'steel enclosure', 'walnut box', 'recycled instrument case', 'open frame', 'plastic project box'];
+const CHASSIS = ['a folded aluminium case', 'a steel enclosure', 'a walnut box', 'a recycled instrument case', 'an open frame', 'a plastic project box'];
 const STEP_TITLES = ['Planning the rails', 'Ordering parts', 'Populating the board', 'Winding up the supply', 'Heatsink and mounting', 'Chassis wiring', 'Protective earth and fuse', 'First power-up', 'Measuring', 'Listening notes', 'Fixing a hum', 'Final assembly'];
 const SENTENCES = [
 	'The reservoir capacitors sit right next to the output devices to keep the high-current loop small.',
@@ -147,7 +147,7 @@ try {
 			        'lg-' || n || '-' || lower(replace(${pick(ADJ, 'n', 5)}, ' ', '-')),
 			        'lg-user-' || (1 + ${rnd('n', 6, MEMBERS)}),
 			        ${pick(ADJ, 'n', 5)} || ' ' || thing || ' on ' || ${pick(RAILS, 'n', 7)} || ' V rails (no. ' || n || ')',
-			        'A ' || lower(${pick(ADJ, 'n', 5)}) || ' ' || thing || ' in a ' || ${pick(CHASSIS, 'n', 8)} || '. ' || ${pick(SENTENCES, 'n', 9)},
+			        'A ' || lower(${pick(ADJ, 'n', 5)}) || ' ' || thing || ' in ' || ${pick(CHASSIS, 'n', 8)} || '. ' || ${pick(SENTENCES, 'n', 9)},
 			        category,
 			        topology,
 			        category not in ('crossover', 'test-gear') and ${rnd('n', 10, 10)} < 8,

@@ -32,7 +32,7 @@ async function expectSamePage(page: Page) {
 /** Types into a field once the page has hydrated (retries until the typed value takes effect). */
 async function typeLive(page: Page, label: string | RegExp, text: string, check: () => Promise<void>) {
 	await expect(async () => {
-		await page.getByLabel(label).fill(text);
+		await page.getByLabel(label, { exact: true }).fill(text);
 		await check();
 	}).toPass({ timeout: 15_000 });
 }
@@ -56,7 +56,7 @@ test('amplifier tool: first paint has the plot, results follow the inputs withou
 		await expectShown(page.getByTestId('maxPowerW'), (rail - dropout) ** 2 / (2 * 8));
 	});
 	const load = 4;
-	await page.getByLabel('Load').fill(String(load));
+	await page.getByLabel('Load', { exact: true }).fill(String(load));
 	const vpk = rail - dropout;
 	await expectShown(page.getByTestId('maxPowerW'), vpk ** 2 / (2 * load));
 	await expectShown(page.getByTestId('peakCurrentA'), vpk / load);
@@ -64,26 +64,29 @@ test('amplifier tool: first paint has the plot, results follow the inputs withou
 
 	// An output power to evaluate: supply power 2·Vrail·Vpk/(π·RL) with Vpk = √(2·P·RL).
 	const outputW = 20;
-	await page.getByLabel('Output power to evaluate (optional)').fill(String(outputW));
+	await page.getByLabel('Output power to evaluate (optional)', { exact: true }).fill(String(outputW));
 	const vpkAt = Math.sqrt(2 * outputW * load);
 	const pin = (2 * rail * vpkAt) / (Math.PI * load);
 	await expectShown(page.getByTestId('supplyPowerW'), pin);
 	await expectShown(page.getByTestId('dissipationW'), pin - outputW);
-
-	// More than the rails can give: a clear inline error on that field, the other results stay.
-	await page.getByLabel('Output power to evaluate (optional)').fill('500');
-	await expect(page.getByText(/is above the .* these rails can give/)).toBeVisible();
-	await expect(page.getByLabel('Output power to evaluate (optional)')).toHaveAttribute('aria-invalid', 'true');
 
 	// The plot redrew for the new rail, still with both loads and the chosen point.
 	await expect(plot.locator('path[data-series="4 Ω"]')).not.toHaveAttribute('d', before4 ?? '');
 	await expect(plot.locator('path[data-series="8 Ω"]')).toHaveCount(1);
 	await expect(plot.locator('[data-series="Your rails into 4 Ω"]')).toHaveCount(1);
 
+	// More than the rails can give: a clear inline error on that field, the other results stay.
+	await page.getByLabel('Output power to evaluate (optional)', { exact: true }).fill('500');
+	await expect(page.getByText(/is above the .* these rails can give/)).toBeVisible();
+	await expect(page.getByLabel('Output power to evaluate (optional)', { exact: true })).toHaveAttribute('aria-invalid', 'true');
+	await expectShown(page.getByTestId('maxPowerW'), vpk ** 2 / (2 * load));
+	await expect(page.getByTestId('supplyPowerW')).toHaveCount(0);
+
 	// Undecodable input never crashes the page.
-	await page.getByLabel('Load').fill('4x7');
-	await expect(page.getByText(/Cannot read "4x7" as a resistance/)).toBeVisible();
-	await page.getByLabel('Load').fill('8');
+	await page.getByLabel('Load', { exact: true }).fill('4x7');
+	await expect(page.getByRole('alert').filter({ hasText: '4x7' })).toBeVisible();
+	await expect(page.getByLabel('Load', { exact: true })).toHaveAttribute('aria-invalid', 'true');
+	await page.getByLabel('Load', { exact: true }).fill('8');
 	await expectShown(page.getByTestId('maxPowerW'), vpk ** 2 / (2 * 8));
 	await expectSamePage(page);
 });
@@ -95,12 +98,12 @@ test('trade notation in the gain and series/parallel tools', async ({ page }) =>
 	await typeLive(page, 'Rf (output to inverting input)', '47k', async () => {
 		await expectShown(page.getByTestId('gain'), 1 + 47_000 / 1_000, 4);
 	});
-	await page.getByLabel('Ri (inverting input to ground)').fill('2k2');
+	await page.getByLabel('Ri (inverting input to ground)', { exact: true }).fill('2k2');
 	const av = 1 + 47_000 / 2_200;
 	await expectShown(page.getByTestId('gain'), av, 4);
 	await expectShown(page.getByTestId('gainDb'), 20 * Math.log10(av), 4);
 	// Input corner 1/(2π · 22 kΩ · 470 nF).
-	await page.getByLabel('Cin (series input capacitor)').fill('470n');
+	await page.getByLabel('Cin (series input capacitor)', { exact: true }).fill('470n');
 	await expectShown(page.getByTestId('inputCornerHz'), 1 / (2 * Math.PI * 22_000 * 470e-9));
 	await expectSamePage(page);
 
@@ -109,7 +112,7 @@ test('trade notation in the gain and series/parallel tools', async ({ page }) =>
 	await typeLive(page, 'Part 1', '10k', async () => {
 		await expectShown(page.getByTestId('networkValue'), 1 / (1 / 10_000 + 1 / 4_700) / 1000);
 	});
-	await page.getByLabel('Joined in').selectOption('series');
+	await page.getByLabel('Joined in', { exact: true }).selectOption('series');
 	await expectShown(page.getByTestId('networkValue'), (10_000 + 4_700) / 1000);
 	await expect(page.getByTestId('networkValue')).toContainText('kΩ');
 	await expectSamePage(page);
@@ -122,16 +125,16 @@ test('codes tool decodes 474K as 470 nF ±10 %', async ({ page }) => {
 	await typeLive(page, 'Marking', '103', async () => {
 		await expect(page.getByTestId('decoded')).toHaveText(`${(10 * 10 ** 3) / 1000} nF`);
 	});
-	await page.getByLabel('Marking').fill('474K');
+	await page.getByLabel('Marking', { exact: true }).fill('474K');
 	await expect(page.getByTestId('decoded')).toHaveText(`${nF} nF`);
 	await expect(page.getByTestId('decodedTolerance')).toHaveText('±10 %');
 	// A potentiometer's taper letter is reported as ambiguous, not guessed.
-	await page.getByLabel('Marking').fill('A104');
+	await page.getByLabel('Marking', { exact: true }).fill('A104');
 	await expect(page.getByTestId('taper')).toContainText('A');
 	await expect(page.getByTestId('taperNote')).toContainText(/linear/i);
 	await expect(page.getByTestId('taperNote')).toContainText(/log/i);
 	// Nonsense gets a sentence, not a crash.
-	await page.getByLabel('Marking').fill('QQQ');
+	await page.getByLabel('Marking', { exact: true }).fill('QQQ');
 	await expect(page.locator('#code-err')).toBeVisible();
 });
 
@@ -147,7 +150,7 @@ test('supply tool shows the mains caution and ripple follows the reservoir', asy
 	await typeLive(page, 'Load current per rail', String(amps), async () => {
 		await expectShown(page.getByTestId('rippleVpp'), amps / (2 * 50 * 10_000e-6));
 	});
-	await page.getByLabel('Reservoir per rail').fill('4700u');
+	await page.getByLabel('Reservoir per rail', { exact: true }).fill('4700u');
 	await expectShown(page.getByTestId('rippleVpp'), amps / (2 * 50 * 4_700e-6));
 	// Unloaded rail of a 25 V winding, one 0.8 V diode per rail: √2 · 25 − 0.8.
 	await expectShown(page.getByTestId('peakDcV'), Math.SQRT2 * 25 - 0.8);

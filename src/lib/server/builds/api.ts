@@ -13,6 +13,7 @@ import { photoUrl, type PhotoView } from '../photos';
 import { reviewLabelCondition } from '../reviews/state';
 import { CATEGORY_LABELS, TOPOLOGY_LABELS, labelOf } from '$lib/labels';
 import { CATEGORIES, TOPOLOGIES } from '$lib/schemas/build';
+import { LIST_SORTS, REVIEW_FILTERS, type ListSort } from '$lib/schemas/list';
 import type { Viewer } from './access';
 import { getMaker, loadBuildContent, loadLineage, requireVisibleBuild, type LineageLink } from './queries';
 import type { DbLike } from './tx';
@@ -22,13 +23,7 @@ export const LIST_LIMIT_MAX = 100;
 /** Longest accepted search text, in characters. */
 export const QUERY_MAX = 200;
 
-/** Orders of a list. `relevance` needs a search text `q` and is its default. */
-export const LIST_SORTS = ['recent', 'most-derived', 'recently-reviewed', 'relevance'] as const;
-export type ListSort = (typeof LIST_SORTS)[number];
-
-/** Review-state filter values: the review labels, with both "changed since" labels folded into `changed`. */
-export const REVIEW_FILTERS = ['unreviewed', 'waiting', 'safe', 'rework', 'changed'] as const;
-export type ReviewFilter = (typeof REVIEW_FILTERS)[number];
+export { LIST_SORTS, REVIEW_FILTERS, type ListSort, type ReviewFilter } from '$lib/schemas/list';
 
 const oneOf = (values: readonly string[]) => ({ error: `must be one of: ${values.join(', ')}` });
 

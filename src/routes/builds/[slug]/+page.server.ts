@@ -14,13 +14,24 @@ import {
 	runAction,
 	setLocked
 } from '$lib/server/builds';
+import { getFlagMarkers, getReviewPanel } from '$lib/server/reviews';
+import { listComments } from '$lib/server/comments';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ params, locals, url }) => {
 	const viewer = locals.user;
 	const page = await getBuildPage(params.slug, viewer);
 	const b = page.build;
+	const [review, flagMarkers, comments] = await Promise.all([
+		getReviewPanel(b.id, viewer),
+		getFlagMarkers(b.id),
+		b.status === 'draft' ? Promise.resolve([]) : listComments(b.id, viewer)
+	]);
 	return {
+		review,
+		flagMarkers: Object.fromEntries(flagMarkers) as Record<string, number>,
+		comments,
+		viewer: viewer ? { id: viewer.id, name: viewer.name, handle: viewer.handle ?? null, role: (viewer.role as string) ?? 'maker' } : null,
 		build: {
 			id: b.id,
 			slug: b.slug,

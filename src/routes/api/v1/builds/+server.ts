@@ -1,24 +1,42 @@
 import { json } from '@sveltejs/kit';
-import { apiError, zodErrorResponse } from '$lib/server/api';
-import { decodeCursor, encodeCursor, listPublishedBuilds, listQuerySchema, serializeListItem } from '$lib/server/builds';
+import { apiError, methodNotAllowed, queryObject, zodErrorResponse } from '$lib/server/api';
+import { encodeCursor, listQuerySchema, queryBuilds, serializeListItem } from '$lib/server/builds';
+import { getReviewStates, reviewLabelText } from '$lib/server/reviews/state';
+import { highlightBuilds } from '$lib/server/search';
 import type { RequestHandler } from './$types';
 
-/** GET /api/v1/builds — published builds, newest first: { items, nextCursor }. */
+/**
+ * GET /api/v1/builds?q=&category=&topology=&review=&mains=&maker=&sort=&cursor=&limit= — published builds,
+ * one page at a time: { items, nextCursor }. With `q`: full-text search, ranked (sort `relevance` by
+ * default), each item with `match.titleHtml` / `match.snippetHtml` (escaped; hits in <mark>).
+ */
 export const GET: RequestHandler = async ({ url }) => {
-	const parsed = listQuerySchema.safeParse(Object.fromEntries(url.searchParams));
+	const parsed = listQuerySchema.safeParse(queryObject(url));
 	if (!parsed.success) return zodErrorResponse(parsed.error);
-	let cursor = null;
-	if (parsed.data.cursor !== undefined) {
-		cursor = decodeCursor(parsed.data.cursor);
-		if (!cursor) {
-			return apiError(400, 'invalid', 'The cursor is not one this API gave out.', [
-				{ path: 'cursor', message: 'pass nextCursor from a previous page unchanged' }
-			]);
-		}
+	const result = await queryBuilds(parsed.data);
+	if (!result.ok) {
+		return apiError(400, 'invalid', result.path === 'cursor' ? 'The cursor is not one this API gave out for this order.' : 'The request is malformed.', [
+			{ path: result.path, message: result.message }
+		]);
 	}
-	const { rows, next } = await listPublishedBuilds({ limit: parsed.data.limit, cursor });
-	return json(
-		{ items: rows.map(serializeListItem), nextCursor: next ? encodeCursor(next) : null },
-		{ headers: { 'cache-control': 'public, max-age=30' } }
-	);
+	const ids = result.rows.map((r) => r.id);
+	const [states, highlights] = await Promise.all([
+		getReviewStates(ids),
+		parsed.data.q ? highlightBuilds(ids, parsed.data.q) : Promise.resolve(null)
+	]);
+	const items = result.rows.map((r) => {
+		const s = states.get(r.id);
+		const h = highlights?.get(r.id);
+		return {
+			...serializeListItem(r),
+			review: s
+				? { label: s.label, text: reviewLabelText(s), verdict: s.verdict, verdictRevision: s.verdictRevision, waiting: s.waiting, openFlags: s.openFlags }
+				: null,
+			...(highlights ? { match: h ? { titleHtml: h.titleHtml, snippetHtml: h.snippetHtml } : null } : {})
+		};
+	});
+	return json({ items, sort: result.sort, nextCursor: result.next ? encodeCursor(result.next) : null });
 };
+
+/** Any other method → 405 method_not_allowed. */
+export const fallback: RequestHandler = () => methodNotAllowed(['GET']);

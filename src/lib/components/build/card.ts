@@ -1,0 +1,32 @@
+/** What a build card shows (home, browse, search, profiles, bench). Client-safe: plain data. */
+import type { PhotoView } from '$lib/media';
+import type { ReviewState } from '$lib/reviews';
+
+export interface BuildCardData {
+	id: string;
+	slug: string;
+	title: string;
+	summary: string;
+	category: string;
+	categoryLabel: string;
+	topology: string;
+	topologyLabel: string;
+	mainsPowered: boolean;
+	derivedCount: number;
+	/** ISO 8601, UTC. */
+	publishedAt: string | null;
+	maker: { name: string; handle: string | null };
+	cover: PhotoView | null;
+	/** null when the review state was not loaded. */
+	review: ReviewState | null;
+	/** Search only: the title with hits in <mark>, escaped by the server (only <mark> tags). */
+	titleHtml?: string;
+	/** Search only: fragments around the hits, escaped by the server (only <mark> tags). */
+	snippetHtml?: string;
+}
+
+/** '2026-03-04T…' → '4 Mar 2026' (UTC, so server and browser agree). */
+export function shortDate(iso: string | null): string {
+	if (!iso) return '';
+	return new Date(iso).toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric', timeZone: 'UTC' });
+}

@@ -1,0 +1,146 @@
+/**
+ * Discover (PRODUCT.md §4.8): the home page's lists and the card data every build list shows
+ * (cover, category, review badge, maker). Lists come from the one list query in builds/api.ts.
+ */
+import { gt } from 'drizzle-orm';
+import * as schema from './db/schema';
+import { effectiveSort, encodeCursor as encodeCursorFor, listPublishedBuilds, listQuerySchema, queryBuilds, type BuildListRow, type ListQuery } from './builds/api';
+import { getReviewStates, reviewLabelCondition, type ReviewState } from './reviews/state';
+import { highlightBuilds, type SearchHighlight } from './search';
+import { queryObject, type ApiIssue } from './api';
+import { CATEGORY_LABELS, TOPOLOGY_LABELS, labelOf } from '$lib/labels';
+import type { BuildCardData } from '$lib/components/build/card';
+
+export type { BuildCardData };
+
+/** Card data for list rows, with each build's review state (one batch query) and search highlights when given. */
+export async function toCards(
+	rows: BuildListRow[],
+	highlights?: Map<string, SearchHighlight>,
+	states?: Map<string, ReviewState>
+): Promise<BuildCardData[]> {
+	const reviews = states ?? (await getReviewStates(rows.map((r) => r.id)));
+	return rows.map((r) => toCard(r, reviews.get(r.id) ?? null, highlights?.get(r.id)));
+}
+
+/** One card from a list row (pure). */
+export function toCard(r: BuildListRow, review: ReviewState | null, hl?: SearchHighlight): BuildCardData {
+	return {
+		id: r.id,
+		slug: r.slug,
+		title: r.title,
+		summary: r.summary,
+		category: r.category,
+		categoryLabel: labelOf(CATEGORY_LABELS, r.category),
+		topology: r.topology,
+		topologyLabel: labelOf(TOPOLOGY_LABELS, r.topology),
+		mainsPowered: r.mainsPowered,
+		derivedCount: r.derivedCount,
+		publishedAt: r.publishedAt ? r.publishedAt.toISOString() : null,
+		maker: { name: r.makerName, handle: r.makerHandle },
+		cover: r.cover?.id
+			? {
+					id: r.cover.id,
+					keyPrefix: r.cover.keyPrefix!,
+					widths: r.cover.widths!,
+					width: r.cover.width!,
+					height: r.cover.height!,
+					alt: r.cover.alt!,
+					placeholder: r.cover.placeholder
+				}
+			: null,
+		review,
+		titleHtml: hl?.titleHtml,
+		snippetHtml: hl?.snippetHtml
+	};
+}
+
+/** How many cards each home list shows. */
+export const HOME_LIST_SIZE = 6;
+
+/**
+ * The home page's three lists: newest published, most recently reviewed with a current "safe" verdict,
+ * and most derived (only builds derived at least once). Review states load in one batch for all three.
+ */
+export async function homeLists() {
+	const [recent, reviewed, derived] = await Promise.all([
+		listPublishedBuilds({ limit: HOME_LIST_SIZE }),
+		listPublishedBuilds({ limit: HOME_LIST_SIZE, sort: 'recently-reviewed', where: [reviewLabelCondition('safe')] }),
+		listPublishedBuilds({ limit: HOME_LIST_SIZE, sort: 'most-derived', where: [gt(schema.build.derivedCount, 0)] })
+	]);
+	const all = [...recent.rows, ...reviewed.rows, ...derived.rows];
+	const states = await getReviewStates(all.map((r) => r.id));
+	return {
+		recent: await toCards(recent.rows, undefined, states),
+		reviewedSafe: await toCards(reviewed.rows, undefined, states),
+		mostDerived: await toCards(derived.rows, undefined, states)
+	};
+}
+
+/**
+ * Read the list parameters of a page URL (browse, search). Unlike the API, a page never refuses: a bad
+ * value (unknown category, edited cursor…) is dropped and reported in `problems`, the rest still applies.
+ * The page size is the page's own.
+ */
+export function parseListParams(url: URL, pageSize: number): { query: ListQuery; problems: ApiIssue[] } {
+	const raw: Record<string, string> = queryObject(url);
+	raw.limit = String(pageSize);
+	const problems: ApiIssue[] = [];
+	let parsed = listQuerySchema.safeParse(raw);
+	for (let round = 0; !parsed.success && round < 3; round++) {
+		for (const issue of parsed.error.issues) {
+			const key = String(issue.path[0] ?? '');
+			problems.push({ path: key, message: issue.message });
+			delete raw[key];
+		}
+		parsed = listQuerySchema.safeParse(raw);
+	}
+	return { query: parsed.success ? parsed.data : listQuerySchema.parse({ limit: String(pageSize) }), problems };
+}
+
+/**
+ * Everything a list page shows for its URL: the cards (with review states, and highlights when
+ * searching), the order in force, and the link to the next page (same filters, the cursor after the
+ * last card) or null. A stale cursor restarts from the first page with a note.
+ */
+export async function listPage(url: URL, pageSize: number) {
+	const { query, problems } = parseListParams(url, pageSize);
+	let result = await queryBuilds(query);
+	if (!result.ok) {
+		problems.push({ path: result.path, message: result.message });
+		if (result.path === 'cursor') delete query.cursor;
+		if (result.path === 'sort') delete query.sort;
+		result = await queryBuilds(query);
+	}
+	if (!result.ok) throw new Error(`list query refused twice: ${result.path} ${result.message}`);
+	const highlights = query.q ? await highlightBuilds(result.rows.map((r) => r.id), query.q) : undefined;
+	const builds = await toCards(result.rows, highlights);
+	const params = new URLSearchParams();
+	for (const key of ['q', 'category', 'topology', 'review', 'mains', 'maker', 'sort'] as const) {
+		const v = query[key];
+		if (v) params.set(key, v);
+	}
+	const base = params.toString();
+	let nextHref: string | null = null;
+	if (result.next) {
+		const p = new URLSearchParams(params);
+		p.set('cursor', encodeCursorFor(result.next));
+		nextHref = `${url.pathname}?${p}`;
+	}
+	return {
+		builds,
+		filters: {
+			q: query.q ?? '',
+			category: query.category ?? '',
+			topology: query.topology ?? '',
+			review: query.review ?? '',
+			mains: query.mains ?? '',
+			maker: query.maker ?? '',
+			sort: effectiveSort(query)
+		},
+		problems,
+		paged: !!query.cursor,
+		firstHref: base ? `${url.pathname}?${base}` : url.pathname,
+		nextHref
+	};
+}

@@ -1,0 +1,99 @@
+/**
+ * Full-text search over builds (PRODUCT.md §4.8): `build.search` is a generated tsvector (title A,
+ * summary B, step text and parts values C) with a GIN index. Matching and ranking live in the list
+ * query ($lib/server/builds/api.ts: searchQuery, searchRank, sort `relevance`); this module adds the
+ * highlighted snippets and the search-as-you-type title suggestions.
+ */
+import { and, desc, eq, inArray, sql } from 'drizzle-orm';
+import { db } from './db';
+import * as schema from './db/schema';
+import { searchQuery } from './builds/api';
+
+/** Private-use characters that mark a hit inside ts_headline output; they never reach a page. */
+const START = '\uE000';
+const STOP = '\uE001';
+
+const esc = (s: string) => s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
+
+/**
+ * Turn ts_headline output with START/STOP markers into safe HTML: everything escaped, then each
+ * balanced marker pair becomes <mark>…</mark>; stray markers are dropped. The only tag it can emit is
+ * <mark>. 'a \uE000b<\uE001' → 'a <mark>b&lt;</mark>'.
+ */
+export function markedToHtml(text: string): string {
+	return esc(text)
+		.replace(/\uE000([^\uE000\uE001]*)\uE001/g, '<mark>$1</mark>')
+		.replace(/[\uE000\uE001]/g, '');
+}
+
+/** Markdown punctuation that reads as noise inside a one-line snippet ('## Wiring **earth**' → 'Wiring earth'). */
+export function plainSnippet(text: string): string {
+	return text
+		.replace(/!\[[^\]]*\]\([^)]*\)/g, ' ')
+		.replace(/\[([^\]]*)\]\([^)]*\)/g, '$1')
+		.replace(/[#*_`>|~]+/g, ' ')
+		.replace(/\s+/g, ' ')
+		.trim();
+}
+
+export interface SearchHighlight {
+	/** The title with hits in <mark> (escaped otherwise). */
+	titleHtml: string;
+	/** One or two fragments of summary, steps or parts around the hits, in <mark>; may be empty. */
+	snippetHtml: string;
+}
+
+/** Characters of step and parts text scanned for a snippet (ts_headline re-parses the text; keep it cheap). */
+const SNIPPET_SCAN = 20_000;
+
+/**
+ * Highlighted title and snippet for builds that matched `q` (one query for the whole page).
+ * ts_headline with websearch_to_tsquery('english', q); output sanitized by markedToHtml.
+ */
+export async function highlightBuilds(ids: string[], q: string): Promise<Map<string, SearchHighlight>> {
+	const out = new Map<string, SearchHighlight>();
+	if (ids.length === 0 || !q.trim()) return out;
+	const query = searchQuery(q);
+	const titleOpts = `StartSel=${START}, StopSel=${STOP}, HighlightAll=true`;
+	const snippetOpts = `StartSel=${START}, StopSel=${STOP}, MaxWords=26, MinWords=10, ShortWord=2, MaxFragments=2, FragmentDelimiter=" … "`;
+	const rows = await db
+		.select({
+			id: schema.build.id,
+			title: sql<string>`ts_headline('english', ${schema.build.title}, ${query}, ${titleOpts})`,
+			snippet: sql<string>`ts_headline('english', ${schema.build.summary} || E'\n' || left(${schema.build.searchText}, ${SNIPPET_SCAN}), ${query}, ${snippetOpts})`
+		})
+		.from(schema.build)
+		.where(inArray(schema.build.id, ids));
+	for (const r of rows) {
+		out.set(r.id, { titleHtml: markedToHtml(r.title), snippetHtml: markedToHtml(plainSnippet(r.snippet)) });
+	}
+	return out;
+}
+
+/**
+ * A prefix tsquery for search-as-you-type over titles only (weight A): every word must match, the
+ * last one as a prefix. 'dual rail sup' → 'dual:A & rail:A & sup:*A'; null when no word is left.
+ */
+export function suggestTsquery(q: string): string | null {
+	const words = (q.toLowerCase().match(/[\p{L}\p{N}]+/gu) ?? []).slice(0, 8);
+	if (words.length === 0) return null;
+	return words.map((w, i) => (i === words.length - 1 ? `${w}:*A` : `${w}:A`)).join(' & ');
+}
+
+export interface Suggestion {
+	slug: string;
+	title: string;
+}
+
+/** Up to `limit` published build titles that start matching what the reader has typed, best first. */
+export async function suggestTitles(q: string, limit = 8): Promise<Suggestion[]> {
+	const tq = suggestTsquery(q);
+	if (!tq) return [];
+	const query = sql`to_tsquery('english', ${tq})`;
+	return db
+		.select({ slug: schema.build.slug, title: schema.build.title })
+		.from(schema.build)
+		.where(and(eq(schema.build.status, 'published'), sql`${schema.build.search} @@ ${query}`))
+		.orderBy(sql`ts_rank_cd(${schema.build.search}, ${query}) desc`, desc(schema.build.publishedAt))
+		.limit(Math.min(Math.max(limit, 1), 20));
+}

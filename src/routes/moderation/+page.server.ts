@@ -1,0 +1,98 @@
+import { fail } from '@sveltejs/kit';
+import { z } from 'zod';
+import { requireRole } from '$lib/server/auth';
+import { runAction } from '$lib/server/builds';
+import { setRole } from '$lib/server/members';
+import {
+	closeReport,
+	listHiddenComments,
+	listLockedBuilds,
+	listReports,
+	setBuildLocked,
+	setCommentHidden,
+	setMemberSuspended
+} from '$lib/server/moderation';
+import { moderationReason } from '$lib/schemas/review';
+import type { Actions, PageServerLoad } from './$types';
+
+/** The moderation desk: the report queue with context, hidden comments and locked builds. Moderators and up. */
+export const load: PageServerLoad = async () => {
+	const user = requireRole('moderator');
+	const [open, closed, locked, hidden] = await Promise.all([listReports('open'), listReports('closed', 20), listLockedBuilds(), listHiddenComments()]);
+	return { open, closed, locked, hidden, me: { id: user.id, role: user.role as string } };
+};
+
+const id = z.string().trim().min(1).max(100);
+const withReason = <T extends z.ZodRawShape>(shape: T) => z.object({ ...shape, reason: moderationReason });
+
+/** Parse the posted form; on failure answer 400 with the first message. */
+async function parse<T extends z.ZodTypeAny>(request: Request, schema: T) {
+	const data = Object.fromEntries(await request.formData());
+	const parsed = schema.safeParse(data);
+	if (!parsed.success) return { error: fail(400, { error: parsed.error.issues[0].message, target: String(data.target ?? '') }) };
+	return { data: parsed.data as z.infer<T>, target: String(data.target ?? '') };
+}
+
+function actor() {
+	const u = requireRole('moderator');
+	return { id: u.id, role: u.role as string };
+}
+
+export const actions: Actions = {
+	hideComment: async ({ request }) => {
+		const me = actor();
+		const p = await parse(request, withReason({ commentId: id }));
+		if (p.error) return p.error;
+		const r = await runAction(() => setCommentHidden(me, p.data.commentId, true, p.data.reason));
+		return r ?? { ok: 'Comment hidden from readers; reports about it are closed.', target: p.target };
+	},
+	restoreComment: async ({ request }) => {
+		const me = actor();
+		const p = await parse(request, withReason({ commentId: id }));
+		if (p.error) return p.error;
+		const r = await runAction(() => setCommentHidden(me, p.data.commentId, false, p.data.reason));
+		return r ?? { ok: 'Comment restored.', target: p.target };
+	},
+	lockBuild: async ({ request }) => {
+		const me = actor();
+		const p = await parse(request, withReason({ buildId: id }));
+		if (p.error) return p.error;
+		const r = await runAction(() => setBuildLocked(me, p.data.buildId, true, p.data.reason));
+		return r ?? { ok: 'Build locked; its maker sees your reason. Reports about it are closed.', target: p.target };
+	},
+	unlockBuild: async ({ request }) => {
+		const me = actor();
+		const p = await parse(request, withReason({ buildId: id }));
+		if (p.error) return p.error;
+		const r = await runAction(() => setBuildLocked(me, p.data.buildId, false, p.data.reason));
+		return r ?? { ok: 'Build unlocked.', target: p.target };
+	},
+	suspendMember: async ({ request }) => {
+		const me = actor();
+		const p = await parse(request, withReason({ userId: id }));
+		if (p.error) return p.error;
+		const r = await runAction(() => setMemberSuspended(me, p.data.userId, true, p.data.reason));
+		return r ?? { ok: 'Member suspended; their sessions have ended.', target: p.target };
+	},
+	restoreMember: async ({ request }) => {
+		const me = actor();
+		const p = await parse(request, withReason({ userId: id }));
+		if (p.error) return p.error;
+		const r = await runAction(() => setMemberSuspended(me, p.data.userId, false, p.data.reason));
+		return r ?? { ok: 'Member restored.', target: p.target };
+	},
+	setReviewer: async ({ request }) => {
+		const me = actor();
+		const p = await parse(request, withReason({ userId: id, role: z.enum(['reviewer', 'maker']) }));
+		if (p.error) return p.error;
+		const r = await runAction(() => setRole(me, p.data.userId, p.data.role, p.data.reason));
+		return r ?? { ok: p.data.role === 'reviewer' ? 'Appointed as reviewer.' : 'Reviewer role revoked.', target: p.target };
+	},
+	closeReport: async ({ request }) => {
+		const me = actor();
+		const p = await parse(request, withReason({ reportId: id }));
+		if (p.error) return p.error;
+		const r = await runAction(() => closeReport(me, p.data.reportId, p.data.reason));
+		return r ?? { ok: 'Report closed.', target: p.target };
+	}
+};

@@ -1,0 +1,130 @@
+// The review flow of issue 5 end to end in Chromium: a maker asks for review, a reviewer flags the heatsink
+// step and the supply block and gives "rework", the maker gets the mail, addresses the flags and edits the
+// build, the badge shows the revision change, and the reviewer resolves the flags and gives "safe".
+import { test, expect, type Browser, type Page } from '@playwright/test';
+import { signIn } from './helpers/auth';
+import { waitForMail } from './helpers/mail';
+import { createPublishedBuild } from './helpers/builds';
+
+async function as(browser: Browser, email: string): Promise<Page> {
+	const ctx = await browser.newContext();
+	const page = await ctx.newPage();
+	await signIn(page, email);
+	return page;
+}
+
+test('ask for review → flags and rework → mail → addressed and edited → changed since → resolved and safe', async ({ browser }) => {
+	test.setTimeout(180_000);
+	const joss = await as(browser, 'joss@starground.test');
+	const build = await createPublishedBuild(joss);
+	const buildUrl = `/builds/${build.slug}`;
+
+	// The maker asks for review.
+	await joss.goto(buildUrl);
+	const reviewBox = joss.locator('#review-state');
+	await expect(reviewBox.locator('[data-review-label]')).toHaveText(/not reviewed/);
+	await reviewBox.getByRole('button', { name: 'Ask for review' }).click();
+	await expect(reviewBox.locator('[data-waiting]')).toBeVisible();
+	await expect(reviewBox.locator('[data-review-label]')).toHaveAttribute('data-review-label', 'waiting');
+
+	// The reviewer finds it on the desk (with its mains marker) and opens review mode.
+	const maren = await as(browser, 'maren@starground.test');
+	await maren.goto('/review-desk');
+	const row = maren.locator(`[data-desk-build="${build.slug}"]`);
+	await expect(row).toBeVisible();
+	await expect(row.locator('[data-mains]')).toBeVisible();
+	await row.getByRole('link', { name: 'Review' }).click();
+	await expect(maren).toHaveURL(new RegExp(`${buildUrl}/review$`));
+
+	// Flag the heatsink step…
+	const heatsink = maren.locator('[data-review-target="step"]').filter({ hasText: 'Heatsink and mounting' });
+	await heatsink.getByText(/Raise a safety flag on step 2/).click();
+	await heatsink.getByLabel('Category').selectOption('heat');
+	await heatsink.getByLabel('Fix before use').check();
+	await heatsink.getByLabel(/^Note/).fill('The tab sits at V− and is bolted **straight** to a chassis-bonded heatsink: fit an insulator.');
+	await heatsink.getByRole('button', { name: 'Raise flag' }).click();
+	await expect(heatsink.locator('[data-flag]')).toHaveCount(1);
+	await expect(heatsink.locator('[data-flag] strong')).toHaveText('straight');
+
+	// …and the supply block.
+	const supply = maren.locator('[data-review-target="spec"]').first();
+	await supply.getByText(/Raise a safety flag on this supply block/).click();
+	await supply.getByLabel('Category').selectOption('mains-earth');
+	await supply.getByLabel('Stop: do not power up').check();
+	await supply.getByLabel(/^Note/).fill('Fuse is sized for the amplifier, not the transformer inrush; check the primary fuse rating.');
+	await supply.getByRole('button', { name: 'Raise flag' }).click();
+	await expect(supply.locator('[data-flag]')).toHaveCount(1);
+
+	// "safe" is refused while flags are open; "rework" goes through and pins r1.
+	await maren.getByLabel(/^Safe/).check();
+	await maren.getByLabel(/^Summary/).fill('Two points to fix before first power-up: tab insulation and the primary fuse.');
+	await maren.getByRole('button', { name: /Submit review of r1/ }).click();
+	await expect(maren.getByText(/open safety flags?\. Resolve/)).toBeVisible();
+	await maren.getByLabel(/^Rework/).check();
+	await maren.getByRole('button', { name: /Submit review of r1/ }).click();
+	await expect(maren).toHaveURL(new RegExp(`${buildUrl}(#review-state)?$`));
+	await expect(maren.locator('#review-state [data-review-label]')).toHaveText(/rework at r1/);
+
+	// The maker gets the mails (flag and review), with an unsubscribe link.
+	const reviewMail = await waitForMail('joss@starground.test', new RegExp(`Review of “${build.title}”: rework at r1`));
+	expect(reviewMail.text).toContain('Maren Quist');
+	expect(reviewMail.text).toMatch(/\/unsubscribe\?token=/);
+	const flagMail = await waitForMail('joss@starground.test', new RegExp(`Safety flag on “${build.title}”`));
+	expect(flagMail.html).toContain('See the flag');
+
+	// The maker sees the open flags at the top and inline markers, and marks both addressed.
+	await joss.goto(buildUrl);
+	await expect(joss.locator('#flags [data-flag]')).toHaveCount(2);
+	await expect(joss.locator('#step-2 [data-flag-marker]')).toHaveText(/1 open safety flag/);
+	for (let i = 0; i < 2; i++) {
+		const flag = joss.locator('#flags [data-flag]').filter({ has: joss.locator('[data-flag-state="open"]') }).first();
+		await flag.getByText('Mark addressed…').click();
+		await flag.getByLabel('What did you change?').fill(i === 0 ? 'Fitted a mica insulator and shoulder washer.' : 'Primary fuse now T2A, sized for the transformer.');
+		await flag.getByRole('button', { name: 'Mark addressed' }).click();
+		await expect(joss.locator('#flags [data-flag-state="addressed"]')).toHaveCount(i + 1);
+	}
+	await expect(joss.locator('[data-flag-marker]')).toHaveCount(0);
+
+	// The maker edits the build: a new revision; the badge says the verdict is from r1.
+	await joss.goto(`${buildUrl}/edit`);
+	const addStep = joss.locator('form[action="?/addStep"]');
+	await addStep.getByLabel('Title').fill('Tab insulation');
+	await addStep.getByLabel('Text (Markdown)').fill('Mica with grease on both faces; measured open circuit tab to chassis.');
+	await addStep.getByRole('button', { name: 'Add step' }).click();
+	await expect(joss.getByText('Step added.')).toBeVisible();
+	await joss.goto(buildUrl);
+	await expect(joss.locator('#review-state [data-review-label]')).toHaveText(/rework at r1 · changed since/);
+	await joss.locator('#review-state').getByRole('button', { name: 'Ask for review again' }).click();
+	await expect(joss.locator('#review-state [data-waiting]')).toBeVisible();
+
+	// The reviewer resolves both flags and gives "safe" on r2.
+	await maren.goto(`${buildUrl}/review`);
+	for (let i = 0; i < 2; i++) {
+		await maren.locator('[data-flag]').filter({ has: maren.locator('[data-flag-state="addressed"]') }).first().getByRole('button', { name: 'Resolve flag' }).click();
+		await expect(maren.locator('[data-flag-state="resolved"]')).toHaveCount(i + 1);
+	}
+	await maren.getByLabel(/^Safe/).check();
+	await maren.getByLabel(/^Summary/).fill('Tab insulated and the fuse now matches the transformer. Fine to power up.');
+	await maren.getByRole('button', { name: /Submit review of r2/ }).click();
+	await expect(maren).toHaveURL(new RegExp(`${buildUrl}(#review-state)?$`));
+
+	// Everyone, signed out too, sees "safe at r2" with the peer-opinion sentence.
+	const reader = await browser.newPage();
+	await reader.goto(buildUrl);
+	await expect(reader.locator('#review-state [data-review-label]')).toHaveText(/safe at r2/);
+	await expect(reader.locator('#review-state [data-review-label]')).not.toHaveText(/changed since/);
+	await expect(reader.locator('[data-peer-opinion]')).toContainText('not a certification');
+	await expect(reader.locator('[data-review="rework"]')).toContainText('Rework at r1');
+	await expect(reader.locator('[data-review="safe"]')).toContainText('Safe at r2');
+	await waitForMail('joss@starground.test', new RegExp(`Review of “${build.title}”: safe at r2`));
+});
+
+test('a maker can never open review mode on their own build, and makers cannot at all', async ({ browser }) => {
+	const maren = await as(browser, 'maren@starground.test');
+	const own = await createPublishedBuild(maren, { supply: false });
+	const res = await maren.goto(`/builds/${own.slug}/review`);
+	expect(res?.status()).toBe(403);
+	const aiko = await as(browser, 'aiko@starground.test');
+	const res2 = await aiko.goto(`/builds/${own.slug}/review`);
+	expect(res2?.status()).toBe(403);
+});
