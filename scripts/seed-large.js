@@ -232,7 +232,7 @@ try {
 			        greatest(1, b.revision - ${rnd('n', 33, 2)}),
 			        case when ${rnd('n', 34, 10)} < 7 then 'safe' else 'rework' end,
 			        'Looked over the mains wiring, fusing and heatsinking.', '<p>Looked over the mains wiring, fusing and heatsinking.</p>',
-			        b.published_at + (1 + ${rnd('n', 35, 20)}) * interval '1 day'
+			        least(now() - interval '1 minute', b.published_at + (1 + ${rnd('n', 35, 20)}) * interval '1 day')
 			 from generate_series(1, ${BUILDS}) n join build b on b.id = md5('lg-build-' || n)::uuid
 			 where b.status = 'published' and ${rnd('n', 36, 10)} < 3 and b.owner_id <> 'lg-user-' || (1 + ${rnd('n', 32, REVIEWERS)})`
 		);

@@ -56,11 +56,11 @@ test('ask for review → flags and rework → mail → addressed and edited → 
 	await expect(supply.locator('[data-flag]')).toHaveCount(1);
 
 	// "safe" is refused while flags are open; "rework" goes through and pins r1.
-	await maren.getByLabel(/^Safe/).check();
+	await maren.getByRole('radio', { name: /^Safe —/ }).check();
 	await maren.getByLabel(/^Summary/).fill('Two points to fix before first power-up: tab insulation and the primary fuse.');
 	await maren.getByRole('button', { name: /Submit review of r1/ }).click();
 	await expect(maren.getByText(/open safety flags?\. Resolve/)).toBeVisible();
-	await maren.getByLabel(/^Rework/).check();
+	await maren.getByRole('radio', { name: /^Rework —/ }).check();
 	await maren.getByRole('button', { name: /Submit review of r1/ }).click();
 	await expect(maren).toHaveURL(new RegExp(`${buildUrl}(#review-state)?$`));
 	await expect(maren.locator('#review-state [data-review-label]')).toHaveText(/rework at r1/);
@@ -103,7 +103,7 @@ test('ask for review → flags and rework → mail → addressed and edited → 
 		await maren.locator('[data-flag]').filter({ has: maren.locator('[data-flag-state="addressed"]') }).first().getByRole('button', { name: 'Resolve flag' }).click();
 		await expect(maren.locator('[data-flag-state="resolved"]')).toHaveCount(i + 1);
 	}
-	await maren.getByLabel(/^Safe/).check();
+	await maren.getByRole('radio', { name: /^Safe —/ }).check();
 	await maren.getByLabel(/^Summary/).fill('Tab insulated and the fuse now matches the transformer. Fine to power up.');
 	await maren.getByRole('button', { name: /Submit review of r2/ }).click();
 	await expect(maren).toHaveURL(new RegExp(`${buildUrl}(#review-state)?$`));

@@ -31,7 +31,8 @@ export function plainSnippet(text: string): string {
 	return text
 		.replace(/!\[[^\]]*\]\([^)]*\)/g, ' ')
 		.replace(/\[([^\]]*)\]\([^)]*\)/g, '$1')
-		.replace(/[#*_`>|~]+/g, ' ')
+		.replace(/^[ \t]*>+/gm, ' ')
+		.replace(/[#*_`|~]+/g, ' ')
 		.replace(/\s+/g, ' ')
 		.trim();
 }

@@ -44,8 +44,8 @@ const LABELS: Record<string, string> = {
 	supplyPowerW: 'Supply power at claimed output',
 	dissipationW: 'Dissipation at claimed output',
 	efficiency: 'Efficiency at claimed output',
-	gain: 'Gain',
-	gainDb: 'Gain',
+	gain: 'Voltage gain',
+	gainDb: 'Voltage gain in dB',
 	inputCornerHz: 'Input high-pass corner',
 	feedbackCornerHz: 'Feedback high-pass corner',
 	lowCornerHz: 'Overall low corner',
@@ -182,6 +182,7 @@ export function showValue(key: string, value: unknown): string {
 		const unit = unitOf(key);
 		const last = key.split('.').pop() ?? key;
 		if (last === 'efficiency') return `${sig3(value * 100)} %`;
+		if (last === 'gain') return `${sig3(value)} ×`;
 		if (unit === 'F' || unit === 'Ω') {
 			try {
 				return formatValue(value, unit === 'Ω' ? 'ohm' : unit);
@@ -213,6 +214,22 @@ export function flatten(data: unknown, prefix = ''): [string, unknown][] {
 		else rows.push([key, v]);
 	}
 	return rows;
+}
+
+const ORDER = Object.keys(LABELS);
+
+/**
+ * Sort [key, value] rows into a reading order: first by `preferred` (e.g. the form's field order), then by
+ * the order of the label table, else alphabetically (jsonb storage reorders object keys).
+ */
+export function inReadingOrder<T>(rows: [string, T][], preferred: readonly string[] = []): [string, T][] {
+	const rank = (k: string) => {
+		const p = preferred.indexOf(k);
+		if (p >= 0) return p;
+		const o = ORDER.indexOf(k);
+		return o >= 0 ? preferred.length + o : preferred.length + ORDER.length;
+	};
+	return [...rows].sort((a, b) => rank(a[0]) - rank(b[0]) || a[0].localeCompare(b[0]));
 }
 
 /** Check levels, most serious first, and their labels. */

@@ -359,6 +359,16 @@ describe('derive', () => {
 		await publish(other, child.id);
 		expect((await loadLineage({ id: o.id, derivedFromId: null }, null)).derivedBuilds.map((l) => l.slug)).toEqual([child.slug]);
 	});
+	it('takes a title for the new draft, and its slug follows', async () => {
+		const o = await createDraft(maker.id, fields());
+		await addStep(maker, o.id, { title: 'S', bodyMd: '' });
+		await publish(maker, o.id);
+		const title = uniqueTitle('Bookshelf version');
+		const d = await derive(other, o.id, undefined, { title });
+		expect(d.slug).toMatch(/^bookshelf-version-/);
+		expect(await buildRow(d.id)).toMatchObject({ title, derivedFromId: o.id });
+		expect((await buildRow(o.id)).derivedCount).toBe(1);
+	});
 });
 
 describe('published list and detail', () => {

@@ -20,9 +20,15 @@ export function derivedTitle(originTitle: string): string {
 /**
  * Any signed-in member derives a published build: a new draft owned by them, with copies of the
  * origin's parts list and spec blocks (not its steps, text or photos), `derivedFromId` set and the
- * origin's `derivedCount` incremented — all in one transaction. → { id, slug } of the new draft.
+ * origin's `derivedCount` incremented — all in one transaction. `opts.title` names the draft (default:
+ * the origin's title marked "(derived)"); the slug follows it. → { id, slug } of the new draft.
  */
-export async function derive(actor: Actor, originId: string, tx?: Tx): Promise<{ id: string; slug: string }> {
+export async function derive(
+	actor: Actor,
+	originId: string,
+	tx?: Tx,
+	opts: { title?: string } = {}
+): Promise<{ id: string; slug: string }> {
 	if (!actor?.id) error(401, 'Sign in first.');
 	return inTx(tx, async (t) => {
 		const origin = await lockBuild(t, originId);
@@ -30,7 +36,7 @@ export async function derive(actor: Actor, originId: string, tx?: Tx): Promise<{
 			error(origin.status === 'draft' ? 404 : 409, origin.status === 'draft' ? 'Not found' : 'Only a published build can be derived.');
 		}
 		const input: BuildInput = {
-			title: derivedTitle(origin.title),
+			title: opts.title ?? derivedTitle(origin.title),
 			summary: '',
 			category: origin.category as BuildInput['category'],
 			topology: origin.topology as BuildInput['topology'],

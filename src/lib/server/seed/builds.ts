@@ -82,7 +82,7 @@ export async function seedBuilds(tx: Tx, ids: Ids): Promise<void> {
 async function seedPhotos(tx: Tx, demo: DemoBuild, buildId: string, ownerId: string, stepIds: string[]) {
 	let seed = demo.slug.length;
 	if (demo.cover) {
-		const bytes = await renderIllustration(illustrationSvg(demo.cover.motif, demo.title, seed++));
+		const bytes = await renderIllustration(illustrationSvg(demo.cover.motif, '', seed++));
 		await processAndStorePhoto({ ownerId, buildId, bytes, alt: demo.cover.alt, asCover: true, tx });
 	}
 	for (const [i, step] of demo.steps.entries()) {

@@ -68,14 +68,13 @@ function body(motif: Motif, seed: number): string {
 	}
 }
 
-/** An SVG sketch for a demo step: the motif on squared paper with a caption. 1200 × 800. */
+/** An SVG sketch for a demo step: the motif on squared paper, with a caption band unless caption is ''. 1200 × 800. */
 export function illustrationSvg(motif: Motif, caption: string, seed = 1): string {
 	const w = 1200;
 	const h = 800;
 	const esc = caption.replace(/[&<>]/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;' })[c]!);
 	return `<svg xmlns="http://www.w3.org/2000/svg" width="${w}" height="${h}" viewBox="0 0 ${w} ${h}">
 		<rect width="${w}" height="${h}" fill="${PAPER}"/>${grid(w, h)}${body(motif, seed)}
-		<rect x="0" y="${h - 70}" width="${w}" height="70" fill="${INK}" opacity="0.85"/>
-		<text x="30" y="${h - 26}" font-family="sans-serif" font-size="30" fill="${PAPER}">${esc}</text>
+		${esc ? `<rect x="0" y="${h - 70}" width="${w}" height="70" fill="${INK}" opacity="0.85"/><text x="30" y="${h - 26}" font-family="sans-serif" font-size="30" fill="${PAPER}">${esc}</text>` : ''}
 	</svg>`;
 }

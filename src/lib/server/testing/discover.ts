@@ -1,0 +1,90 @@
+// Integration-test helpers for discover: published builds inserted straight into the tables, so list,
+// search and feed tests control publish times, derive counts and review times exactly.
+import { inArray, sql } from 'drizzle-orm';
+import { db } from '../db';
+import * as schema from '../db/schema';
+
+const tag = () => `${Date.now().toString(36)}${Math.random().toString(36).slice(2, 7)}`;
+
+/** A unique lower-case token (letters only, so the English stemmer leaves it whole) for titles and searches. */
+export function uniqueWord(prefix = 'zq'): string {
+	const letters = 'abcdefghijklmnopqrstuvwxyz';
+	let w = prefix;
+	for (let i = 0; i < 10; i++) w += letters[Math.floor(Math.random() * letters.length)];
+	return w;
+}
+
+export interface TestBuild {
+	title?: string;
+	summary?: string;
+	searchText?: string;
+	category?: string;
+	topology?: string;
+	mainsPowered?: boolean;
+	status?: 'draft' | 'published' | 'archived';
+	publishedAt?: Date | null;
+	updatedAt?: Date;
+	derivedCount?: number;
+	lastReviewedAt?: Date | null;
+	reviewRequestedAt?: Date | null;
+	revision?: number;
+}
+
+/** Insert builds for `ownerId` (published now unless told otherwise). → their rows, in the order given. */
+export async function insertBuilds(ownerId: string, builds: TestBuild[]) {
+	if (builds.length === 0) return [];
+	const t = tag();
+	const rows = await db
+		.insert(schema.build)
+		.values(
+			builds.map((b, i) => {
+				const status = b.status ?? 'published';
+				const publishedAt = b.publishedAt === undefined ? (status === 'draft' ? null : new Date()) : b.publishedAt;
+				return {
+					slug: `t-${t}-${i}`,
+					ownerId,
+					title: b.title ?? `Test build ${t} ${i}`,
+					summary: b.summary ?? '',
+					searchText: b.searchText ?? '',
+					category: b.category ?? 'power-amp',
+					topology: b.topology ?? 'class-ab-chip',
+					mainsPowered: b.mainsPowered ?? false,
+					status,
+					revision: b.revision ?? (status === 'draft' ? 0 : 1),
+					publishedAt,
+					updatedAt: b.updatedAt ?? publishedAt ?? new Date(),
+					derivedCount: b.derivedCount ?? 0,
+					lastReviewedAt: b.lastReviewedAt ?? null,
+					reviewRequestedAt: b.reviewRequestedAt ?? null
+				};
+			})
+		)
+		.returning();
+	const bySlug = new Map(rows.map((r) => [r.slug, r]));
+	return builds.map((_, i) => bySlug.get(`t-${t}-${i}`)!);
+}
+
+/** Add a review (verdict on a revision) by `reviewerId`, and keep build.last_reviewed_at as the app does. */
+export async function insertReview(buildId: string, reviewerId: string, verdict: 'safe' | 'rework', revision: number, at = new Date()) {
+	await db.insert(schema.review).values({ buildId, reviewerId, verdict, revision, summaryMd: 'ok', summaryHtml: '<p>ok</p>', createdAt: at });
+	await db.update(schema.build).set({ lastReviewedAt: at }).where(sql`${schema.build.id} = ${buildId}`);
+}
+
+/** Delete builds by id (their steps, reviews, bench items cascade). */
+export async function removeBuilds(ids: string[]): Promise<void> {
+	if (ids.length) await db.delete(schema.build).where(inArray(schema.build.id, ids));
+}
+
+/** A throwaway member with a unique handle and e-mail. → { id, handle, name, role }. */
+export async function createMember(role: 'maker' | 'reviewer' | 'moderator' | 'admin' = 'maker', name = 'Discover Tester') {
+	const t = tag();
+	const id = crypto.randomUUID();
+	const handle = `dt-${t}`;
+	await db.insert(schema.user).values({ id, name: `${name} ${t}`, email: `discover-${t}@example.test`, emailVerified: true, handle, role });
+	return { id, handle, name: `${name} ${t}`, role };
+}
+
+/** Remove throwaway members; their builds, reviews and bench items go with them (cascades). */
+export async function removeMembers(ids: string[]): Promise<void> {
+	if (ids.length) await db.delete(schema.user).where(inArray(schema.user.id, ids));
+}
