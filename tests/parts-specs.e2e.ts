@@ -147,3 +147,43 @@ test('parts editor: a bad value is refused with its line number, nothing saved; 
 	await page.reload();
 	await expect(page.locator('fieldset[data-line]')).toHaveCount(count);
 });
+
+test('another maker cannot see or change the parts list and spec blocks of a draft that is not theirs', async ({ page }) => {
+	await signIn(page, 'aiko@starground.test');
+	for (const path of ['parts', 'specs']) {
+		const view = await page.goto(`/builds/${SLUG}/edit/${path}`);
+		expect(view?.status()).toBe(404);
+	}
+	const origin = new URL(page.url()).origin;
+	const save = await page.request.post(`/builds/${SLUG}/edit/parts?/save`, {
+		headers: { origin, accept: 'text/html' },
+		form: { designators: 'R1', quantity: '1', kind: 'resistor', value: '1k', tolerance: '', ratingV: '', ratingW: '', package: '', notes: '', designValue: '', reason: '' }
+	});
+	expect(save.status()).toBe(403);
+	const spec = await page.request.post(`/builds/${SLUG}/edit/specs?/save`, {
+		headers: { origin, accept: 'text/html' },
+		multipart: { kind: 'thermal', id: '', title: 'not mine', powerW: '10', ambientC: '40', junctionMaxC: '150', rthJcKPerW: '1', rthCsKPerW: '0.4', rthSaKPerW: '2' }
+	});
+	expect(spec.status()).toBe(403);
+});
+
+test.describe('without JavaScript', () => {
+	test.use({ javaScriptEnabled: false });
+
+	test('the parts editor adds a line and reports a bad value by posting the form', async ({ page }) => {
+		await signIn(page, JOSS);
+		await page.goto(`/builds/${SLUG}/edit/parts`);
+		const count = await page.locator('fieldset[data-line]').count();
+		await page.getByRole('button', { name: 'Add a line' }).click();
+		await expect(page.locator('fieldset[data-line]')).toHaveCount(count + 1);
+		await expect(page.getByText('Unsaved changes.')).toBeVisible();
+		const n = count + 1;
+		await page.locator(`#l${n}-designators`).fill('L1');
+		await page.locator(`#l${n}-kind`).selectOption('inductor');
+		await page.locator(`#l${n}-value`).fill('10 apples');
+		await page.getByRole('button', { name: 'Save parts list' }).click();
+		await expect(page.getByRole('alert').filter({ hasText: 'Nothing was saved' })).toContainText(`Line ${n}, value`);
+		// What was typed is still in the form.
+		await expect(page.locator(`#l${n}-value`)).toHaveValue('10 apples');
+	});
+});

@@ -20,7 +20,7 @@ test('ask for review → flags and rework → mail → addressed and edited → 
 	const buildUrl = `/builds/${build.slug}`;
 
 	// The maker asks for review.
-	await joss.goto(buildUrl);
+	await joss.goto(buildUrl, { waitUntil: 'networkidle' });
 	const reviewBox = joss.locator('#review-state');
 	await expect(reviewBox.locator('[data-review-label]')).toHaveText(/not reviewed/);
 	await reviewBox.getByRole('button', { name: 'Ask for review' }).click();
@@ -29,7 +29,7 @@ test('ask for review → flags and rework → mail → addressed and edited → 
 
 	// The reviewer finds it on the desk (with its mains marker) and opens review mode.
 	const maren = await as(browser, 'maren@starground.test');
-	await maren.goto('/review-desk');
+	await maren.goto('/review-desk', { waitUntil: 'networkidle' });
 	const row = maren.locator(`[data-desk-build="${build.slug}"]`);
 	await expect(row).toBeVisible();
 	await expect(row.locator('[data-mains]')).toBeVisible();
@@ -73,7 +73,7 @@ test('ask for review → flags and rework → mail → addressed and edited → 
 	expect(flagMail.html).toContain('See the flag');
 
 	// The maker sees the open flags at the top and inline markers, and marks both addressed.
-	await joss.goto(buildUrl);
+	await joss.goto(buildUrl, { waitUntil: 'networkidle' });
 	await expect(joss.locator('#flags [data-flag]')).toHaveCount(2);
 	await expect(joss.locator('#step-2 [data-flag-marker]')).toHaveText(/1 open safety flag/);
 	for (let i = 0; i < 2; i++) {
@@ -86,19 +86,19 @@ test('ask for review → flags and rework → mail → addressed and edited → 
 	await expect(joss.locator('[data-flag-marker]')).toHaveCount(0);
 
 	// The maker edits the build: a new revision; the badge says the verdict is from r1.
-	await joss.goto(`${buildUrl}/edit`);
+	await joss.goto(`${buildUrl}/edit`, { waitUntil: 'networkidle' });
 	const addStep = joss.locator('form[action="?/addStep"]');
 	await addStep.getByLabel('Title').fill('Tab insulation');
 	await addStep.getByLabel('Text (Markdown)').fill('Mica with grease on both faces; measured open circuit tab to chassis.');
 	await addStep.getByRole('button', { name: 'Add step' }).click();
-	await expect(joss.getByText('Step added.')).toBeVisible();
-	await joss.goto(buildUrl);
+	await expect(joss.getByRole('heading', { name: /Step 3\s*Tab insulation/ })).toBeVisible();
+	await joss.goto(buildUrl, { waitUntil: 'networkidle' });
 	await expect(joss.locator('#review-state [data-review-label]')).toHaveText(/rework at r1 · changed since/);
 	await joss.locator('#review-state').getByRole('button', { name: 'Ask for review again' }).click();
 	await expect(joss.locator('#review-state [data-waiting]')).toBeVisible();
 
 	// The reviewer resolves both flags and gives "safe" on r2.
-	await maren.goto(`${buildUrl}/review`);
+	await maren.goto(`${buildUrl}/review`, { waitUntil: 'networkidle' });
 	for (let i = 0; i < 2; i++) {
 		await maren.locator('[data-flag]').filter({ has: maren.locator('[data-flag-state="addressed"]') }).first().getByRole('button', { name: 'Resolve flag' }).click();
 		await expect(maren.locator('[data-flag-state="resolved"]')).toHaveCount(i + 1);
@@ -110,7 +110,7 @@ test('ask for review → flags and rework → mail → addressed and edited → 
 
 	// Everyone, signed out too, sees "safe at r2" with the peer-opinion sentence.
 	const reader = await browser.newPage();
-	await reader.goto(buildUrl);
+	await reader.goto(buildUrl, { waitUntil: 'networkidle' });
 	await expect(reader.locator('#review-state [data-review-label]')).toHaveText(/safe at r2/);
 	await expect(reader.locator('#review-state [data-review-label]')).not.toHaveText(/changed since/);
 	await expect(reader.locator('[data-peer-opinion]')).toContainText('not a certification');
@@ -122,9 +122,9 @@ test('ask for review → flags and rework → mail → addressed and edited → 
 test('a maker can never open review mode on their own build, and makers cannot at all', async ({ browser }) => {
 	const maren = await as(browser, 'maren@starground.test');
 	const own = await createPublishedBuild(maren, { supply: false });
-	const res = await maren.goto(`/builds/${own.slug}/review`);
+	const res = await maren.goto(`/builds/${own.slug}/review`, { waitUntil: 'networkidle' });
 	expect(res?.status()).toBe(403);
 	const aiko = await as(browser, 'aiko@starground.test');
-	const res2 = await aiko.goto(`/builds/${own.slug}/review`);
+	const res2 = await aiko.goto(`/builds/${own.slug}/review`, { waitUntil: 'networkidle' });
 	expect(res2?.status()).toBe(403);
 });

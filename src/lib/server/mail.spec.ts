@@ -19,7 +19,6 @@ vi.mock('$env/dynamic/private', () => ({
 }));
 
 const { enqueueMail, startMailWorker, stopMail, composeMail } = await import('./mail');
-// @ts-expect-error plain JS module of the fakes
 const { startFakeSmtp } = await import('../../../fakes/smtp.js');
 
 describe('mail queue', () => {

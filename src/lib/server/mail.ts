@@ -1,4 +1,4 @@
-import nodemailer from 'nodemailer';
+import nodemailer, { type Transporter } from 'nodemailer';
 import PgBoss from 'pg-boss';
 import { env } from '$env/dynamic/private';
 
@@ -14,7 +14,7 @@ export interface MailMessage {
 
 const QUEUE = 'mail';
 
-let transport: nodemailer.Transporter | null = null;
+let transport: Transporter | null = null;
 function getTransport() {
 	transport ??= nodemailer.createTransport({
 		host: env.SMTP_HOST ?? '127.0.0.1',

@@ -59,6 +59,12 @@ describe('attempt and fieldError', () => {
 		expect(r).toEqual({ ok: false, field: 'outputW', error: 'outputW (80 W) is above the 64 W these rails can give' });
 		expect(fieldError(r, 'outputW', 'the output power')).toBe('The output power (80 W) is above the 64 W these rails can give');
 		expect(fieldError(r, 'railV', 'the rail')).toBeUndefined();
+		const two = attempt(() => {
+			throw new InputRangeError('capacitanceF', 'capacitanceF is far too small for loadCurrentA');
+		});
+		expect(fieldError(two, 'capacitanceF', { capacitanceF: 'the reservoir', loadCurrentA: 'the load current' })).toBe(
+			'The reservoir is far too small for the load current'
+		);
 	});
 	it('passes results through', () => {
 		const r = attempt(() => 42);

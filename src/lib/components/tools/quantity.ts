@@ -110,9 +110,14 @@ export function attempt<T>(compute: () => T): Attempt<T> {
 	}
 }
 
-/** The error of an attempt when it is about `field`, with the field's code name replaced by its label. */
-export function fieldError(result: Attempt<unknown> | null, field: string, label: string): string | undefined {
+/**
+ * The error of an attempt when it is about `field`, with code names replaced by labels. `labels` is the
+ * field's label, or a map of every field's label (so a message naming two fields reads well).
+ */
+export function fieldError(result: Attempt<unknown> | null, field: string, labels: string | Readonly<Record<string, string>>): string | undefined {
 	if (!result || result.ok || result.field !== field) return undefined;
-	const text = result.error.replace(new RegExp(`\\b${field}\\b`, 'g'), label);
+	const map: Readonly<Record<string, string>> = typeof labels === 'string' ? { [field]: labels } : labels;
+	let text = result.error;
+	for (const [name, label] of Object.entries(map)) text = text.replace(new RegExp(`\\b${name}\\b`, 'g'), label);
 	return text.charAt(0).toUpperCase() + text.slice(1);
 }

@@ -75,8 +75,7 @@ export async function seedBuilds(tx: Tx, ids: Ids): Promise<void> {
 	}
 	await seedReviews(tx, ids, seeded);
 	const origin = seeded.find((s) => s.demo.key === DEMO_DERIVE.from)!;
-	const derived = await derive({ id: ids[DEMO_DERIVE.by], role: roleOf(DEMO_DERIVE.by) }, origin.id, tx);
-	await tx.update(schema.build).set({ title: DEMO_DERIVE.title }).where(eq(schema.build.id, derived.id));
+	await derive({ id: ids[DEMO_DERIVE.by], role: roleOf(DEMO_DERIVE.by) }, origin.id, tx, { title: DEMO_DERIVE.title });
 }
 
 async function seedPhotos(tx: Tx, demo: DemoBuild, buildId: string, ownerId: string, stepIds: string[]) {

@@ -1,0 +1,193 @@
+// Integration tests against the real PostgreSQL of DATABASE_URL: saving parts lists, CSV import, checks that
+// need the spec blocks, revisions, owner checks and the parts.csv API route.
+import { describe, it, expect, beforeAll, afterAll } from 'vitest';
+import { asc, eq } from 'drizzle-orm';
+import { db } from '../db';
+import * as schema from '../db/schema';
+import { createTestUser, removeTestUsers } from '../testing/builds';
+import { AMP, SUPPLY, statusOf, testBuild } from '../testing/parts';
+import { setLocked } from '../builds';
+import { deleteSpecBlock, saveSpecBlock } from '../specs';
+import { importPartsCsv, listPartLines, partsToCsv, savePartsList } from './index';
+import { emptyDraft, type PartLineDraft } from '$lib/parts';
+import { GET as getPartsCsv } from '../../../routes/api/v1/builds/[slug]/parts.csv/+server';
+
+type TestUser = Awaited<ReturnType<typeof createTestUser>>;
+let maker: TestUser, other: TestUser, admin: TestUser, moderator: TestUser;
+
+beforeAll(async () => {
+	maker = await createTestUser('maker', 'Parts owner');
+	other = await createTestUser('maker', 'Parts other');
+	admin = await createTestUser('admin', 'Parts admin');
+	moderator = await createTestUser('moderator', 'Parts mod');
+});
+afterAll(async () => {
+	await removeTestUsers([maker.id, other.id, admin.id, moderator.id]);
+});
+
+const draft = (over: Partial<PartLineDraft>): PartLineDraft => ({ ...emptyDraft(), ...over });
+const LIST = [
+	draft({ designators: 'R1, R2', quantity: '2', kind: 'resistor', value: '4k7', tolerance: '1', ratingW: '1/4' }),
+	draft({ designators: 'C3', kind: 'capacitor', value: '1u+1u', designValue: '0.47u', tolerance: '10', ratingV: '63', reason: 'two 1 µF film caps on hand' }),
+	draft({ designators: 'U1', kind: 'ic', value: '5-pin monolithic power amplifier IC', package: 'TO-220' })
+];
+
+async function stored(buildId: string) {
+	return db.select().from(schema.partLine).where(eq(schema.partLine.buildId, buildId)).orderBy(asc(schema.partLine.position));
+}
+
+describe('savePartsList', () => {
+	it('stores normalised lines in order, with the substitution deviation', async () => {
+		const b = await testBuild(maker.id);
+		const r = await savePartsList(maker, b.id, LIST);
+		expect(r).toEqual({ ok: true, count: 3, revision: null });
+		const rows = await stored(b.id);
+		expect(rows.map((x) => [x.position, x.designators, x.kind])).toEqual([
+			[0, 'R1, R2', 'resistor'],
+			[1, 'C3', 'capacitor'],
+			[2, 'U1', 'ic']
+		]);
+		expect(rows[0]).toMatchObject({ value: 4700, unit: 'ohm', tolerancePct: 1, ratingW: 0.25, valueText: '4k7' });
+		expect(rows[1].value).toBeCloseTo(5e-7, 15);
+		expect(rows[1].deviationPct).toBeCloseTo(6.383, 3);
+		expect(rows[1]).toMatchObject({ designValueText: '0.47u', substitutionReason: 'two 1 µF film caps on hand' });
+		expect(rows[2]).toMatchObject({ value: null, unit: null, valueText: '5-pin monolithic power amplifier IC' });
+		const [bb] = await db.select({ searchText: schema.build.searchText }).from(schema.build).where(eq(schema.build.id, b.id));
+		expect(bb.searchText).toContain('1u+1u');
+	});
+
+	it('refuses a list with a bad line, naming the line, and keeps the stored list as it was', async () => {
+		const b = await testBuild(maker.id);
+		await savePartsList(maker, b.id, LIST);
+		const before = await stored(b.id);
+		const r = await savePartsList(maker, b.id, [...LIST, draft({ designators: 'C9', kind: 'capacitor', value: '10 bananas' })]);
+		expect(r.ok).toBe(false);
+		if (!r.ok) expect(r.errors).toEqual([expect.objectContaining({ line: 4, field: 'value' })]);
+		expect(await stored(b.id)).toEqual(before);
+	});
+
+	it('skips blank editor rows but keeps the line numbers of the others', async () => {
+		const b = await testBuild(maker.id);
+		const r = await savePartsList(maker, b.id, [LIST[0], emptyDraft(), draft({ designators: 'R5', kind: 'resistor', value: '' })]);
+		expect(r.ok).toBe(false);
+		if (!r.ok) expect(r.errors.map((e) => e.line)).toEqual([3]);
+	});
+
+	it('lets only the maker (or an admin) save; another maker gets 403 and nothing changes; a lock stops the maker', async () => {
+		const b = await testBuild(maker.id);
+		await savePartsList(maker, b.id, LIST);
+		const before = await stored(b.id);
+		expect(await statusOf(savePartsList(other, b.id, [LIST[0]]))).toBe(403);
+		expect(await statusOf(savePartsList(moderator, b.id, [LIST[0]]))).toBe(403);
+		expect(await stored(b.id)).toEqual(before);
+		expect((await savePartsList(admin, b.id, [LIST[0]])).ok).toBe(true);
+		await setLocked(moderator, b.id, true, 'mains wiring under discussion');
+		expect(await statusOf(savePartsList(maker, b.id, LIST))).toBe(403);
+		expect(await stored(b.id)).toHaveLength(1);
+	});
+
+	it('records a revision when a published build’s list changes, and none when nothing changed', async () => {
+		const b = await testBuild(maker.id, { published: true });
+		const r1 = await savePartsList(maker, b.id, LIST);
+		expect(r1.ok && r1.revision).toBe(2);
+		const [rev] = await db.select().from(schema.buildRevision).where(eq(schema.buildRevision.buildId, b.id)).orderBy(asc(schema.buildRevision.number)).offset(1);
+		expect(rev.summary).toContain('parts: 3 added');
+		const again = await savePartsList(maker, b.id, LIST);
+		expect(again).toEqual({ ok: true, count: 3, revision: null });
+	});
+});
+
+describe('checks that need the spec blocks', () => {
+	it('escalates a lowered rating to danger once a supply block puts the rail between the two ratings, and back when it goes', async () => {
+		const b = await testBuild(maker.id);
+		const sub = draft({ designators: 'C5', kind: 'capacitor', value: '100u', ratingV: '25', designValue: '100u/35V', reason: 'on hand' });
+		await savePartsList(maker, b.id, [sub]);
+		const level = async () => (await stored(b.id))[0].checks.find((c) => c.id === 'part.rating-below-rail')?.level;
+		expect(await level()).toBe('caution');
+
+		const s = await saveSpecBlock(maker, b.id, { kind: 'supply', data: SUPPLY });
+		expect(s.ok).toBe(true);
+		// ≈ 27.6 V unloaded rail: between 25 V (fitted) and 35 V (design).
+		expect(await level()).toBe('danger');
+		const line = (await stored(b.id))[0];
+		expect(line.checks.find((c) => c.id === 'cross.cap-below-rail')).toMatchObject({ level: 'caution', values: { designators: 'C5', ratingV: 25 } });
+
+		if (s.ok) await deleteSpecBlock(maker, b.id, s.id);
+		expect(await level()).toBe('caution');
+		expect((await stored(b.id))[0].checks.some((c) => c.id.startsWith('cross.'))).toBe(false);
+	});
+});
+
+describe('importPartsCsv', () => {
+	const header = 'designators,quantity,kind,value,tolerance_pct,rating_v,notes,design_value,substitution_reason';
+	const good = [header, '"R1, R2",2,resistor,4k7,1,,"metal film, ""low noise""",,', 'C3,1,capacitor,1u+1u,10,63,,0.47u,on hand'];
+
+	it('saves nothing while one line is bad and reports that line; saves once it is fixed', async () => {
+		const b = await testBuild(maker.id);
+		const bad = await importPartsCsv(maker, b.id, [...good, 'C4,1,capacitor,lots,,,,,'].join('\r\n'));
+		expect(bad.ok).toBe(false);
+		if (!bad.ok) {
+			expect(bad.preview.rows.find((r) => r.errors.length)?.errors[0]).toMatchObject({ line: 4, field: 'value' });
+		}
+		expect(await stored(b.id)).toEqual([]);
+		const fixed = await importPartsCsv(maker, b.id, [...good, 'C4,1,capacitor,10n,,,,,'].join('\r\n'));
+		expect(fixed).toMatchObject({ ok: true, count: 3 });
+		const rows = await stored(b.id);
+		expect(rows.map((r) => r.designators)).toEqual(['R1, R2', 'C3', 'C4']);
+		expect(rows[0].notes).toBe('metal film, "low noise"');
+	});
+
+	it('appends to the list when asked, and refuses another maker', async () => {
+		const b = await testBuild(maker.id);
+		await savePartsList(maker, b.id, [LIST[2]]);
+		const r = await importPartsCsv(maker, b.id, good.join('\n'), 'append');
+		expect(r).toMatchObject({ ok: true, count: 3 });
+		expect((await stored(b.id)).map((x) => x.designators)).toEqual(['U1', 'R1, R2', 'C3']);
+		expect(await statusOf(importPartsCsv(other, b.id, good.join('\n')))).toBe(403);
+	});
+
+	it('export → import into another build gives the same lines', async () => {
+		const a = await testBuild(maker.id);
+		await savePartsList(maker, a.id, [...LIST, draft({ designators: 'R9', kind: 'jumper', designValue: '2R2', notes: 'line one\nline two', reason: 'stable without it' })]);
+		const csv = partsToCsv(await listPartLines(a.id));
+		const b = await testBuild(maker.id);
+		expect((await importPartsCsv(maker, b.id, csv)).ok).toBe(true);
+		const strip = (rows: schema.PartLine[]) => rows.map(({ id: _id, buildId: _b, ...rest }) => rest);
+		expect(strip(await stored(b.id))).toEqual(strip(await stored(a.id)));
+	});
+});
+
+describe('GET /api/v1/builds/:slug/parts.csv', () => {
+	function call(slug: string, user: TestUser | null) {
+		return getPartsCsv({
+			params: { slug },
+			locals: { user: user ? { ...user, suspendedAt: null } : null, session: null }
+		} as unknown as Parameters<typeof getPartsCsv>[0]);
+	}
+
+	it('serves a draft’s list to its maker only; others get the 404 envelope', async () => {
+		const b = await testBuild(maker.id);
+		await savePartsList(maker, b.id, LIST);
+		const res = await call(b.slug, maker);
+		expect(res.status).toBe(200);
+		expect(res.headers.get('content-type')).toBe('text/csv; charset=utf-8');
+		expect(res.headers.get('content-disposition')).toBe(`attachment; filename="${b.slug}-parts.csv"`);
+		const text = await res.text();
+		expect(text.split('\r\n')).toHaveLength(5);
+		expect(text).toContain('C3,1,capacitor,1u+1u');
+		for (const who of [other, null]) {
+			const r = await call(b.slug, who);
+			expect(r.status).toBe(404);
+			expect((await r.json()).error.code).toBe('not_found');
+		}
+	});
+
+	it('serves a published build’s list to everyone, and 404 for an unknown slug', async () => {
+		const b = await testBuild(maker.id, { published: true });
+		await savePartsList(maker, b.id, LIST);
+		const r = await call(b.slug, null);
+		expect(r.status).toBe(200);
+		expect(await r.text()).toContain('"R1, R2",2,resistor,4k7');
+		expect((await call('no-such-build-anywhere', null)).status).toBe(404);
+	});
+});

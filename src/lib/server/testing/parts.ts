@@ -1,0 +1,67 @@
+// Integration-test helpers for parts lists and spec blocks: a draft or published build of a fresh member,
+// valid block data of each kind, and the HTTP status a guarded call fails with.
+import { isHttpError } from '@sveltejs/kit';
+import { eq } from 'drizzle-orm';
+import { db } from '../db';
+import * as schema from '../db/schema';
+import { addStep, createDraft, publish } from '../builds';
+import { uniqueTitle } from './builds';
+
+/** A draft build of `ownerId` (published with one step when asked). → its row. */
+export async function testBuild(ownerId: string, { published = false } = {}): Promise<schema.Build> {
+	const { id } = await createDraft(ownerId, {
+		title: uniqueTitle('Parts test amp'),
+		summary: 'Two monolithic power amplifier ICs on a split supply.',
+		category: 'power-amp',
+		topology: 'class-ab-chip',
+		mainsPowered: true,
+		licence: 'CC-BY-SA-4.0'
+	});
+	if (published) {
+		const actor = { id: ownerId, role: 'maker' };
+		await addStep(actor, id, { title: 'Boards', bodyMd: 'Populate the boards.' });
+		await publish(actor, id);
+	}
+	const [row] = await db.select().from(schema.build).where(eq(schema.build.id, id));
+	return row;
+}
+
+/** The HTTP status a call fails with (it must fail). */
+export async function statusOf(p: Promise<unknown>): Promise<number> {
+	try {
+		await p;
+	} catch (e) {
+		if (isHttpError(e)) return e.status;
+		throw e;
+	}
+	throw new Error('expected the call to fail');
+}
+
+/** A valid amplifier block: ±28 V into 8 Ω, device max 60 V. */
+export const AMP = {
+	channels: 2,
+	topology: 'class-ab-chip',
+	supply: 'split',
+	railV: 28,
+	loadOhm: 8,
+	device: { maxSupplyV: 60, dropoutV: 3, junctionMaxC: 150, rthJcKPerW: 1, minLoadOhm: 4 },
+	gain: { rfOhm: 22000, riOhm: 680 },
+	claimed: { powerW: 35, thdPct: 1 }
+};
+
+/** A valid supply block: 20 V secondaries, bridge-split → ≈ 27.6 V unloaded rails, 50 V caps, fused and earthed. */
+export const SUPPLY = {
+	mainsVac: 230,
+	mainsHz: 50,
+	transformerVA: 160,
+	secondaryVac: 20,
+	rectifier: 'bridge-split',
+	reservoirF: 0.01,
+	capRatingV: 50,
+	loadCurrentA: 1.5,
+	fuse: { ratingA: 1.6, type: 'slow' },
+	chassis: 'metal',
+	protectiveEarth: true,
+	doubleInsulated: false,
+	bleeder: { ohm: 2200 }
+};
