@@ -22,7 +22,8 @@ function guard(page: Page, dialogs: string[]) {
 const XSS = [
 	'Nice build <img src=x onerror="alert(\'img\')"> and <script>alert("script")</script>',
 	'[click me](javascript:alert("link")) <svg onload=alert("svg")></svg> <a href="jav&#x09;ascript:alert(\'tab\')">tab</a>',
-	'<iframe src="javascript:alert(\'frame\')"></iframe> <details open ontoggle=alert("toggle")>x</details> **still bold**'
+	'**still bold** <iframe src="javascript:alert(\'frame\')"></iframe> <details open ontoggle=alert("toggle")>x</details>',
+	'<img src=x onerror="alert(\'block\')">'
 ].join('\n\n');
 
 test('hostile comments never run; a reported comment is hidden by a moderator, vanishes for readers and is audited', async ({ browser }) => {
@@ -40,9 +41,10 @@ test('hostile comments never run; a reported comment is hidden by a moderator, v
 	const posted = aiko.locator('[data-comment]').filter({ hasText: 'Nice build' });
 	await expect(posted).toBeVisible();
 	await expect(posted).not.toHaveAttribute('data-pending', 'true');
-	await expect(posted.locator('strong')).toHaveText('still bold');
-	await expect(posted.locator('script, iframe, svg, [onerror], [onload], [ontoggle]')).toHaveCount(0);
-	await expect(posted.locator('a[href^="javascript"]')).toHaveCount(0);
+	const body = posted.locator('[data-comment-body]');
+	await expect(body.locator('strong')).toHaveText('still bold');
+	await expect(body.locator('script, iframe, svg, img, [onerror], [onload], [ontoggle]')).toHaveCount(0);
+	await expect(body.locator('a[href^="javascript"], a[href*="script:"]')).toHaveCount(0);
 
 	// A plain comment that stays, to show hiding is targeted.
 	await aiko.getByLabel('Add a comment (Markdown)').fill('Measured 4 mV DC offset on both channels.');
@@ -53,7 +55,7 @@ test('hostile comments never run; a reported comment is hidden by a moderator, v
 	const joss = await as(browser, 'joss@starground.test');
 	guard(joss, dialogs);
 	await joss.goto(url, { waitUntil: 'networkidle' });
-	const target = joss.locator('[data-comment]').filter({ hasText: 'Nice build' });
+	const target = joss.locator('[data-comment]:not([data-pending])').filter({ hasText: 'Nice build' });
 	await expect(target).toBeVisible();
 	const commentId = await target.getAttribute('data-comment');
 	expect(commentId).toMatch(/^[0-9a-f-]{36}$/);
@@ -69,7 +71,8 @@ test('hostile comments never run; a reported comment is hidden by a moderator, v
 	const report = tomas.locator('[data-report-kind="comment"]').filter({ has: tomas.locator(`a[href$="#comment-${commentId}"]`) });
 	await expect(report).toHaveCount(1);
 	await expect(report.locator('[data-excerpt]')).toContainText('Nice build');
-	await report.getByLabel(/Reason/).fill('Script injection attempt');
+	const why = `Script injection attempt ${Date.now().toString(36)}`;
+	await report.getByLabel(/Reason/).fill(why);
 	await report.getByRole('button', { name: 'Hide comment' }).click();
 	await expect(tomas.getByText('Comment hidden from readers')).toBeVisible();
 	await expect(tomas.locator(`[data-hidden-comment="${commentId}"]`)).toBeVisible();
@@ -86,15 +89,15 @@ test('hostile comments never run; a reported comment is hidden by a moderator, v
 	await expect(reader.getByText('Nice build')).toHaveCount(0);
 	const api = await reader.request.get(`${origin()}/api/v1/builds/${build.slug}/comments`);
 	expect(api.status()).toBe(200);
-	const body = await api.json();
-	expect(body.items.map((c: { id: string }) => c.id)).not.toContain(commentId);
+	const listed = await api.json();
+	expect(listed.items.map((c: { id: string }) => c.id)).not.toContain(commentId);
 	await joss.goto(url, { waitUntil: 'networkidle' });
 	await expect(joss.locator(`[data-comment="${commentId}"]`)).toHaveCount(0);
 
 	// The audit log: admins read it (with the reason); moderators may not.
 	const ilse = await as(browser, 'ilse@starground.test');
 	await ilse.goto('/admin/audit?action=comment.hide', { waitUntil: 'networkidle' });
-	const entry = ilse.locator('[data-audit="comment.hide"]').filter({ hasText: 'Script injection attempt' });
+	const entry = ilse.locator('[data-audit="comment.hide"]').filter({ hasText: why });
 	await expect(entry).toHaveCount(1);
 	await expect(entry).toContainText('Tomas Eberhart');
 	await expect(ilse.getByLabel('Action')).toHaveValue('comment.hide');
@@ -130,8 +133,11 @@ test('a failed post keeps the draft and says why; replies thread one level; own 
 	await expect(box).toHaveValue('Which insulator did you use under the tab?');
 	await oskar.unroute('**/api/v1/builds/*/comments');
 	await oskar.getByRole('button', { name: 'Post comment' }).click();
-	const mine = oskar.locator('[data-comment]').filter({ hasText: 'Which insulator' });
-	await expect(mine).toBeVisible();
+	const saved = oskar.locator('[data-comment]:not([data-pending])').filter({ hasText: 'Which insulator' });
+	await expect(saved).toBeVisible();
+	const mineId = await saved.getAttribute('data-comment');
+	expect(mineId).toMatch(/^[0-9a-f-]{36}$/);
+	const mine = oskar.locator(`[data-comment="${mineId}"]`);
 	await expect(box).toHaveValue('');
 
 	// Edit within the window.

@@ -22,11 +22,13 @@ async function fillAmplifier(page: Page, title: string, loadOhm: string) {
 }
 
 test('spec blocks: a bad amplifier block is refused field by field, a good one shows derived values and checks; a supply block', async ({ page }) => {
+	test.setTimeout(120_000);
 	const title = `E2E amplifier ${Date.now().toString(36)}`;
 	await signIn(page, JOSS);
 	await page.goto(`/builds/${SLUG}/edit/specs`);
 	await page.getByRole('link', { name: /Amplifier/ }).first().click();
 	await expect(page.getByRole('heading', { name: 'Add a amplifier block' })).toBeVisible();
+	await expect(page.locator('form[data-ready="true"]')).toBeVisible();
 
 	// 0R1 is a readable value but below the schema's 0.5 Ω: the server refuses it on that field.
 	await fillAmplifier(page, title, '0R1');
@@ -52,6 +54,7 @@ test('spec blocks: a bad amplifier block is refused field by field, a good one s
 
 	// A supply block: its caution text defers to local codes; 35 V caps on a ~27.6 V rail get a margin caution.
 	await page.getByRole('link', { name: /Power supply/ }).first().click();
+	await expect(page.locator('form[data-ready="true"]')).toBeVisible();
 	await page.getByLabel('Title').fill(`${title} supply`);
 	await page.getByLabel('Transformer rating').fill('160');
 	await page.getByLabel('Secondary per rail').fill('20');
@@ -69,8 +72,10 @@ test('spec blocks: a bad amplifier block is refused field by field, a good one s
 });
 
 test('parts list: a CSV with one bad line is refused with its line number and nothing is saved; fixed, it saves; export', async ({ page }) => {
+	test.setTimeout(120_000);
 	await signIn(page, JOSS);
 	await page.goto(`/builds/${SLUG}/edit/parts`);
+	await expect(page.locator('#parts-form')).toHaveAttribute('data-ready', 'true');
 	const saved = page.locator('section[aria-labelledby="saved-h"]');
 	const before = await saved.textContent();
 
@@ -92,6 +97,7 @@ test('parts list: a CSV with one bad line is refused with its line number and no
 	// Nothing was saved.
 	await page.reload();
 	await expect(saved).toHaveText(before ?? '');
+	await expect(page.locator('#parts-form')).toHaveAttribute('data-ready', 'true');
 
 	// Fix line 4 in the text box and preview again.
 	const fixed = [...good.slice(0, 3), 'C9,1,capacitor,100u,,25,radial,,,', good[3]];

@@ -114,7 +114,7 @@ export const SPEC_FORMS: Record<SpecKind, SpecSection[]> = {
 			fields: [
 				{ path: 'rectifier', label: 'Rectifier', type: sel(RECTIFIERS, { bridge: 'bridge, one rail', 'bridge-split': 'bridge on a centre-tapped winding, ± rails', 'center-tap': 'two diodes, centre tap, one rail', 'half-wave': 'half-wave' }), initial: 'bridge-split' },
 				{ path: 'diodeDropV', label: 'Diode drop', type: n('V'), optional: true, hint: 'Blank: 0.7 V.', placeholder: '0.7' },
-				{ path: 'reservoirF', label: 'Reservoir per rail', type: farad, hint: 'e.g. 10000u, 4m7, 2x4700u written as 9400u', placeholder: '10000u' },
+				{ path: 'reservoirF', label: 'Reservoir per rail', type: farad, hint: 'All the reservoir capacitance of one rail, e.g. 10000u or 10m.', placeholder: '10000u' },
 				{ path: 'capRatingV', label: 'Reservoir voltage rating', type: n('V'), placeholder: '50' },
 				{ path: 'loadCurrentA', label: 'Load current per rail', type: n('A'), placeholder: '1.5' },
 				{ path: 'amplifierDemandW', label: 'Amplifier output it feeds (sum of rated powers)', type: n('W'), optional: true, placeholder: '80' }
