@@ -128,8 +128,10 @@ test('bench: a saved build shows on /bench and can be taken off again', async ({
 	await page.goto('/bench');
 	const card = page.locator(`[data-build-card="${build.slug}"]`);
 	await expect(card.locator('[data-bench-button]')).toHaveAttribute('data-ready', 'true');
+	const answered = page.waitForResponse((r) => r.url().includes('/bench?/toggle') && r.request().method() === 'POST');
 	await card.getByRole('button', { name: 'Remove' }).click();
-	await expect(card.getByRole('button', { name: 'Save to bench' })).toBeVisible();
+	expect((await answered).status()).toBe(200);
+	await expect(card.getByRole('button', { name: 'Save to bench' })).toBeEnabled();
 	await page.reload();
 	await expect(page.locator(`[data-build-card="${build.slug}"]`)).toHaveCount(0);
 	// Signed out, the bench API answers the envelope.

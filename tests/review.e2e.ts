@@ -3,7 +3,7 @@
 // build, the badge shows the revision change, and the reviewer resolves the flags and gives "safe".
 import { test, expect, type Browser, type Page } from '@playwright/test';
 import { signIn } from './helpers/auth';
-import { waitForMail } from './helpers/mail';
+import { waitForMail, linkIn } from './helpers/mail';
 import { createPublishedBuild } from './helpers/builds';
 
 async function as(browser: Browser, email: string): Promise<Page> {
@@ -71,6 +71,18 @@ test('ask for review → flags and rework → mail → addressed and edited → 
 	expect(reviewMail.text).toMatch(/\/unsubscribe\?token=/);
 	const flagMail = await waitForMail('joss@starground.test', new RegExp(`Safety flag on “${build.title}”`));
 	expect(flagMail.html).toContain('See the flag');
+
+	// Its one-click unsubscribe link works without signing in, can be undone, and refuses a forged token.
+	const anon = await browser.newPage();
+	const unsub = linkIn(flagMail, '/unsubscribe?token=');
+	await anon.goto(unsub, { waitUntil: 'networkidle' });
+	await expect(anon.locator('[data-unsubscribed="flag"]')).toContainText('safety flag');
+	await anon.getByRole('button', { name: /turn it back on/ }).click();
+	await expect(anon.getByRole('heading', { name: 'Turned back on' })).toBeVisible();
+	const token = new URL(unsub).searchParams.get('token')!;
+	const forged = await anon.goto(`/unsubscribe?token=${encodeURIComponent(token.slice(0, -3) + 'AAA')}`);
+	expect(forged?.status()).toBe(400);
+	await expect(anon.getByText('This unsubscribe link is not valid')).toBeVisible();
 
 	// The maker sees the open flags at the top and inline markers, and marks both addressed.
 	await joss.goto(buildUrl, { waitUntil: 'networkidle' });

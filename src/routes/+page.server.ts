@@ -1,6 +1,6 @@
 import type { PageServerLoad } from './$types';
-import { homeLists } from '$lib/server/discover';
+import { cachedHomeLists } from '$lib/server/discover';
 
 export const load: PageServerLoad = async () => {
-	return await homeLists();
+	return await cachedHomeLists();
 };

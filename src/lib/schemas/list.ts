@@ -21,9 +21,9 @@ export type ReviewFilter = (typeof REVIEW_FILTERS)[number];
 export const REVIEW_FILTER_LABELS: Record<ReviewFilter, string> = {
 	unreviewed: 'Not reviewed',
 	waiting: 'Waiting for review',
-	safe: 'Safe at its current revision',
-	rework: 'Rework at its current revision',
-	changed: 'Changed since its verdict'
+	safe: 'Safe (this revision)',
+	rework: 'Rework (this revision)',
+	changed: 'Changed since verdict'
 };
 
 /** The `mains` filter: 'true' = mains powered, 'false' = runs from a low-voltage supply or batteries. */

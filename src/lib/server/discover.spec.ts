@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { GET as listBuilds } from '../../routes/api/v1/builds/+server';
-import { homeLists, listPage } from './discover';
+import { cachedHomeLists, HOME_CACHE_S, homeLists, listPage } from './discover';
 import { decodeCursor, encodeCursor } from './builds/api';
 import { createMember, insertBuilds, insertReview, removeMembers, uniqueWord } from './testing/discover';
 
@@ -210,5 +210,16 @@ describe('home lists', () => {
 		expect(lists.reviewedSafe.every((b) => b.review?.label === 'safe')).toBe(true);
 		expect(lists.mostDerived[0]).toMatchObject({ slug: derived.slug, derivedCount: 1_000_000 });
 		expect(lists.mostDerived.every((b) => b.derivedCount > 0)).toBe(true);
+	});
+});
+
+describe('home list cache', () => {
+	it('reuses the lists for a few seconds, then asks the database again', async () => {
+		const t0 = Date.now();
+		const first = cachedHomeLists(t0);
+		expect(cachedHomeLists(t0 + 1000)).toBe(first);
+		const later = cachedHomeLists(t0 + HOME_CACHE_S * 1000 + 1);
+		expect(later).not.toBe(first);
+		expect((await later).recent.length).toBeGreaterThanOrEqual(0);
 	});
 });

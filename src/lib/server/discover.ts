@@ -55,6 +55,25 @@ export function toCard(r: BuildListRow, review: ReviewState | null, hl?: SearchH
 	};
 }
 
+/** Seconds the home page's lists are reused within one app process (the page is the same for everyone). */
+export const HOME_CACHE_S = 5;
+let homeCache: { at: number; value: Promise<Awaited<ReturnType<typeof homeLists>>> } | null = null;
+
+/**
+ * homeLists, reused for HOME_CACHE_S seconds: the home page is the busiest page and identical for every
+ * reader, so a new build or verdict shows there within a few seconds instead of costing six queries a view.
+ */
+export function cachedHomeLists(now = Date.now()) {
+	if (!homeCache || now - homeCache.at > HOME_CACHE_S * 1000) {
+		const value = homeLists();
+		homeCache = { at: now, value };
+		value.catch(() => {
+			if (homeCache?.value === value) homeCache = null;
+		});
+	}
+	return homeCache.value;
+}
+
 /** How many cards each home list shows. */
 export const HOME_LIST_SIZE = 6;
 

@@ -146,7 +146,10 @@ export async function setMemberSuspended(actor: ModActor, userId: string, suspen
 	}
 }
 
-/** Close a report with a resolution (moderators), e.g. "no action: within the rules". Audited. */
+/**
+ * Close a report with a resolution (moderators), e.g. "no action: within the rules" — and with it every
+ * other open report about the same thing, since the matter is settled. Audited once, with the count.
+ */
 export async function closeReport(actor: ModActor, reportId: string, resolution: string): Promise<void> {
 	assertModerator(actor);
 	const why = reasonOf(resolution);
@@ -155,17 +158,14 @@ export async function closeReport(actor: ModActor, reportId: string, resolution:
 		const [r] = await tx.select().from(schema.report).where(eq(schema.report.id, reportId)).for('update');
 		if (!r) error(404, 'No such report.');
 		if (r.state !== 'open') error(409, 'This report is already closed.');
-		await tx
-			.update(schema.report)
-			.set({ state: 'closed', handledById: actor.id, handledAt: new Date(), resolution: why })
-			.where(eq(schema.report.id, r.id));
+		const closed = await closeReportsAbout(tx, actor.id, r.targetKind as ReportTargetKind, r.targetId, why);
 		await recordAudit(tx, {
 			actorId: actor.id,
 			action: 'report.close',
 			targetKind: 'report',
 			targetId: r.id,
 			reason: why,
-			details: { about: r.targetKind, targetId: r.targetId }
+			details: { about: r.targetKind, targetId: r.targetId, reports: closed.length }
 		});
 	});
 }
@@ -183,6 +183,8 @@ export interface QueueItem {
 	reporter: { name: string; handle: string | null };
 	/** Open reports about the same target (this one included). */
 	sameTarget: number;
+	/** Every report about the target in this list, oldest first (the open queue groups them under one item). */
+	reports: { id: string; reporter: { name: string; handle: string | null }; reason: string; createdAt: Date }[];
 	context: {
 		title: string;
 		href: string | null;
@@ -262,7 +264,7 @@ export async function listReports(state: 'open' | 'closed' = 'open', limit = 100
 	const mMap = new Map(members.map((m) => [m.id, m]));
 	const cut = (s: string, n = 280) => (s.length > n ? `${s.slice(0, n - 1)}…` : s);
 
-	return rows.map(({ r, reporterName, reporterHandle, handlerName, sameTarget }) => {
+	const items = rows.map(({ r, reporterName, reporterHandle, handlerName, sameTarget }): QueueItem => {
 		let context: QueueItem['context'] = { title: 'Removed since', href: null, excerpt: null };
 		if (r.targetKind === 'comment') {
 			const c = cMap.get(r.targetId);
@@ -302,9 +304,20 @@ export async function listReports(state: 'open' | 'closed' = 'open', limit = 100
 			handledBy: handlerName,
 			reporter: { name: reporterName, handle: reporterHandle },
 			sameTarget,
+			reports: [{ id: r.id, reporter: { name: reporterName, handle: reporterHandle }, reason: r.reason, createdAt: r.createdAt }],
 			context
 		};
 	});
+	if (state !== 'open') return items;
+	// One item per reported thing, at the place of its oldest report.
+	const byTarget = new Map<string, QueueItem>();
+	for (const item of items) {
+		const key = `${item.targetKind}:${item.targetId}`;
+		const first = byTarget.get(key);
+		if (first) first.reports.push(...item.reports);
+		else byTarget.set(key, item);
+	}
+	return [...byTarget.values()];
 }
 
 /** Builds under a lock right now (the desk lists them to unlock). */

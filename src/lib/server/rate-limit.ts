@@ -10,7 +10,7 @@ import { apiRateLimit } from './db/schema';
 import { apiError } from './api';
 
 /** Default budget: this many writes per member (or per address when signed out) per window. */
-export const WRITE_POINTS_DEFAULT = 30;
+export const WRITE_POINTS_DEFAULT = 60;
 /** Window length in seconds. */
 export const WRITE_WINDOW_S = 60;
 
@@ -53,7 +53,7 @@ export function createLimiter(opts: LimiterOptions) {
 
 let writes: ReturnType<typeof createLimiter> | null = null;
 
-/** Writes per window from env `API_WRITE_LIMIT` (a positive number, or `off`), else 30. */
+/** Writes per window from env `API_WRITE_LIMIT` (a positive number, or `off`), else 60. */
 export function writeBudget(): number | 'off' {
 	const v = env.API_WRITE_LIMIT;
 	if (v === 'off') return 'off';

@@ -25,8 +25,15 @@ export interface BuildCardData {
 	snippetHtml?: string;
 }
 
-/** '2026-03-04T…' → '4 Mar 2026' (UTC, so server and browser agree). */
+const MONTHS = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'Sep', 'Oct', 'Nov', 'Dec'];
+
+/**
+ * '2026-03-04T…' → '4 Mar 2026' (UTC, so server and browser agree). Formatted by hand: a list page
+ * calls it for every card, and building an Intl formatter per call showed up in the benchmark's profile.
+ */
 export function shortDate(iso: string | null): string {
 	if (!iso) return '';
-	return new Date(iso).toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric', timeZone: 'UTC' });
+	const d = new Date(iso);
+	if (Number.isNaN(d.getTime())) return '';
+	return `${d.getUTCDate()} ${MONTHS[d.getUTCMonth()]} ${d.getUTCFullYear()}`;
 }

@@ -5,9 +5,10 @@ import { eq } from 'drizzle-orm';
 import { db } from '../db';
 import * as schema from '../db/schema';
 import { addStep } from '../builds';
+import { saveSpecBlock } from '../specs';
 import { stopMail } from '../mail';
 import { createTestUser, removeTestUsers } from '../testing/builds';
-import { createPublishedBuild, queuedMailTo, type TestBuild } from '../testing/reviews';
+import { createPublishedBuild, queuedMailTo, SUPPLY_DATA, type TestBuild } from '../testing/reviews';
 import {
 	addressFlag,
 	getFlagMarkers,
@@ -188,6 +189,26 @@ describe('verdicts pinned to revisions', () => {
 		expect(panel.can).toMatchObject({ requestReview: true, review: false, address: true, resolve: false });
 		expect((await getReviewPanel(build.id, reviewer)).can).toMatchObject({ requestReview: false, review: true, resolve: true });
 		expect((await getReviewPanel(build.id, null)).can).toMatchObject({ requestReview: false, review: false, address: false, resolve: false });
+	});
+});
+
+describe('review desk', () => {
+	it('lists waiting builds oldest first with their danger and caution check counts', async () => {
+		const first = await createPublishedBuild(other);
+		const second = await createPublishedBuild(other);
+		// No primary fuse on a mains supply: a danger check on the second build.
+		const saved = await saveSpecBlock(other, second.id, { id: second.supplyBlockId, kind: 'supply', title: 'Main supply', data: { ...SUPPLY_DATA, fuse: null } });
+		expect(saved.ok).toBe(true);
+		await requestReview(other, first.id);
+		await requestReview(other, second.id);
+		const desk = await listWaiting();
+		const i1 = desk.findIndex((w) => w.id === first.id);
+		const i2 = desk.findIndex((w) => w.id === second.id);
+		expect(i1).toBeGreaterThanOrEqual(0);
+		expect(i2).toBeGreaterThan(i1);
+		expect(desk[i1].dangerChecks).toBe(0);
+		expect(desk[i2].dangerChecks).toBeGreaterThanOrEqual(1);
+		expect(desk[i2]).toMatchObject({ mainsPowered: true, maker: { id: other.id } });
 	});
 });
 
