@@ -312,11 +312,11 @@ export interface PartCheck {
 	caution?: string;
 }
 
-/** A validated line, ready to store (column for column as part_line). */
-export interface NormalisedPartLine {
+/** The stored fields of a part line, column for column as part_line (without id, position and checks). */
+export interface PartLineFields {
 	designators: string;
 	quantity: number;
-	kind: PartKind;
+	kind: string;
 	valueText: string;
 	value: number | null;
 	unit: string | null;
@@ -329,6 +329,11 @@ export interface NormalisedPartLine {
 	designValue: number | null;
 	substitutionReason: string | null;
 	deviationPct: number | null;
+}
+
+/** A validated line, ready to store. */
+export interface NormalisedPartLine extends PartLineFields {
+	kind: PartKind;
 	checks: PartCheck[];
 }
 

@@ -4,19 +4,10 @@
  */
 
 /** The fields of a part line the comparison reads. */
-export interface ComparableLine {
-	designators: string;
-	quantity: number;
-	kind: string;
-	valueText: string;
-	value: number | null;
-	unit: string | null;
-	tolerancePct: number | null;
-	ratingV: number | null;
-	ratingW: number | null;
-	package: string;
-	position?: number;
-}
+export type ComparableLine = Pick<
+	PartLineFields,
+	'designators' | 'quantity' | 'kind' | 'valueText' | 'value' | 'unit' | 'tolerancePct' | 'ratingV' | 'ratingW' | 'package'
+> & { position?: number };
 
 /** One row of the comparison. status: same | changed | added (only in mine) | removed (only in origin). */
 export interface CompareRow<L extends ComparableLine = ComparableLine> {

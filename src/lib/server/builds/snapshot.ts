@@ -2,6 +2,7 @@
  * The frozen state of a build at one revision (stored in build_revision.snapshot) and the diff summary
  * between two of them: "2 steps changed, title changed, parts: 1 added". Pure; no I/O.
  */
+import type { PartLineFields } from '$lib/parts';
 
 export interface SnapshotBuild {
 	title: string;
@@ -31,23 +32,8 @@ export interface SnapshotSpecBlock {
 	checks: unknown[];
 }
 
-export interface SnapshotPart {
+export interface SnapshotPart extends PartLineFields {
 	id: string;
-	designators: string;
-	quantity: number;
-	kind: string;
-	valueText: string;
-	value: number | null;
-	unit: string | null;
-	tolerancePct: number | null;
-	ratingV: number | null;
-	ratingW: number | null;
-	package: string;
-	notes: string;
-	designValueText: string | null;
-	designValue: number | null;
-	substitutionReason: string | null;
-	deviationPct: number | null;
 	/** Checks stored with the line at that time (not compared by the diff: they follow from the fields). */
 	checks?: unknown[];
 }

@@ -96,22 +96,7 @@ function unquoteFormula(s: string): string {
 }
 
 /** The fields partsToCsv reads from a stored line. */
-export interface CsvLine {
-	designators: string;
-	quantity: number;
-	kind: string;
-	valueText: string;
-	value: number | null;
-	unit: string | null;
-	tolerancePct: number | null;
-	ratingV: number | null;
-	ratingW: number | null;
-	package: string;
-	notes: string;
-	designValueText: string | null;
-	substitutionReason: string | null;
-	deviationPct: number | null;
-}
+export type CsvLine = Omit<PartLineFields, 'designValue'>;
 
 /**
  * A parts list as RFC 4180 CSV with a header row and CRLF after every record. Values are written as
