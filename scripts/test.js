@@ -109,7 +109,7 @@ try {
 		app = spawn(process.execPath, ['build'], {
 			cwd: root,
 			stdio: ['ignore', fs.openSync(path.join(dataRoot, 'app.log'), 'a'), fs.openSync(path.join(dataRoot, 'app.log'), 'a')],
-			env: { ...process.env, ...testEnv, NODE_ENV: 'production', SEED_DEMO: 'true', AUTH_SIGNIN_MAX: '1000' }
+			env: { ...process.env, ...testEnv, NODE_ENV: 'production', SEED_DEMO: 'true', AUTH_SIGNIN_MAX: '1000', API_WRITE_LIMIT: '5000' }
 		});
 		await waitFor(`${testEnv.ORIGIN}/`, 240_000);
 		console.log('• Playwright: end-to-end tests in Debian Chromium');

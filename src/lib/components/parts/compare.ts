@@ -2,6 +2,7 @@
  * Match a derived build's parts list against its origin's by designators, for the side-by-side view.
  * Pure; the component only renders what this returns.
  */
+import type { PartLineFields } from '$lib/parts';
 
 /** The fields of a part line the comparison reads. */
 export type ComparableLine = Pick<

@@ -5,7 +5,7 @@
  * numbers, and saves nothing itself.
  */
 import Papa from 'papaparse';
-import { DRAFT_FIELDS, emptyDraft, normaliseKind, type PartLineDraft } from '$lib/parts';
+import { DRAFT_FIELDS, emptyDraft, normaliseKind, type PartLineDraft, type PartLineFields } from '$lib/parts';
 
 /** Largest CSV accepted, bytes. */
 export const CSV_MAX_BYTES = 1_000_000;

@@ -86,6 +86,23 @@ async function writeLines(
 	lines: NormalisedPartLine[]
 ): Promise<void> {
 	const { byBlock, byLine } = placeCrossChecks(blocks, lines);
+	// A line keeps its id while its designators stay the same, so safety flags on it keep their target.
+	const previous = await t
+		.select({ id: schema.partLine.id, designators: schema.partLine.designators })
+		.from(schema.partLine)
+		.where(eq(schema.partLine.buildId, buildId));
+	const idByDesignators = new Map<string, string>();
+	for (const p of previous) {
+		const key = p.designators.trim().toLowerCase();
+		if (key) idByDesignators.set(key, idByDesignators.has(key) ? '' : p.id);
+	}
+	const keptId = (designators: string) => {
+		const key = designators.trim().toLowerCase();
+		const id = idByDesignators.get(key);
+		if (!id) return {};
+		idByDesignators.set(key, '');
+		return { id };
+	};
 	await t.delete(schema.partLine).where(eq(schema.partLine.buildId, buildId));
 	if (lines.length) {
 		// Insert in slices: a thousand lines × 19 columns stays far below PostgreSQL's parameter limit per statement.
@@ -93,6 +110,7 @@ async function writeLines(
 			await t.insert(schema.partLine).values(
 				lines.slice(i, i + 200).map((l, j) => ({
 					...l,
+					...keptId(l.designators),
 					buildId,
 					position: i + j,
 					checks: [...l.checks, ...byLine[i + j]]

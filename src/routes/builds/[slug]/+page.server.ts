@@ -16,19 +16,22 @@ import {
 } from '$lib/server/builds';
 import { getFlagMarkers, getReviewPanel } from '$lib/server/reviews';
 import { listComments } from '$lib/server/comments';
+import { isOnBench } from '$lib/server/bench';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ params, locals, url }) => {
 	const viewer = locals.user;
 	const page = await getBuildPage(params.slug, viewer);
 	const b = page.build;
-	const [review, flagMarkers, comments] = await Promise.all([
+	const [review, flagMarkers, comments, saved] = await Promise.all([
 		getReviewPanel(b.id, viewer),
 		getFlagMarkers(b.id),
-		b.status === 'draft' ? Promise.resolve([]) : listComments(b.id, viewer)
+		b.status === 'draft' ? Promise.resolve([]) : listComments(b.id, viewer),
+		viewer && b.status === 'published' ? isOnBench(viewer.id, b.id) : Promise.resolve(false)
 	]);
 	return {
 		review,
+		saved,
 		flagMarkers: Object.fromEntries(flagMarkers) as Record<string, number>,
 		comments,
 		viewer: viewer ? { id: viewer.id, name: viewer.name, handle: viewer.handle ?? null, role: (viewer.role as string) ?? 'maker' } : null,
