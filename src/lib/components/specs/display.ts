@@ -146,6 +146,8 @@ const UNIT_SUFFIXES: ReadonlyArray<readonly [RegExp, string]> = [
 export function unitOf(key: string): string {
 	const last = key.split('.').pop() ?? key;
 	if (last === 'efficiency') return '%';
+	if (last === 'ohm') return 'Ω';
+	if (last === 'vaNeeded') return 'VA';
 	for (const [re, unit] of UNIT_SUFFIXES) if (re.test(last)) return unit;
 	return '';
 }
@@ -193,7 +195,7 @@ export function showValue(key: string, value: unknown): string {
 		if (unit === '×') return `${sig3(value)} ×`;
 		return unit ? `${sig3(value)} ${unit}` : sig3(value);
 	}
-	if (Array.isArray(value)) return value.map((v) => showValue(key, v)).join(', ');
+	if (Array.isArray(value)) return value.length ? value.map((v) => showValue(key, v)).join(', ') : '—';
 	if (typeof value === 'object') return JSON.stringify(value);
 	return String(value);
 }
