@@ -1,9 +1,11 @@
 import { env } from '$env/dynamic/private';
-import { startMailWorker } from './mail';
+import { startMailWorker, stopMail } from './mail';
 import { seedDemoIfEmpty } from './seed';
 
 /** Work a server process does once at start: the mail worker and, when asked, the demo scenario. */
 export async function startBackground(): Promise<void> {
 	if (env.SEED_DEMO === 'true') await seedDemoIfEmpty();
 	if (env.MAIL_WORKER !== 'off') await startMailWorker();
+	// Let the process exit on SIGTERM: the queue holds its own connections.
+	process.once('sveltekit:shutdown', () => void stopMail());
 }

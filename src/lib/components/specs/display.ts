@@ -4,6 +4,7 @@
  * with an engineering prefix. Pure; used by SpecBlockView, CheckBadge and the spec editor.
  */
 import { formatValue } from '$lib/engineering';
+import { TOPOLOGY_LABELS } from '$lib/labels';
 
 /** Display names of the spec-block kinds (PRODUCT.md §3). */
 export const KIND_LABELS: Record<string, string> = {
@@ -173,12 +174,30 @@ export function sig3(x: number): string {
 	return Math.abs(r) >= 1e6 || (Math.abs(r) < 1e-3 && r !== 0) ? r.toExponential(2) : String(r);
 }
 
+/** Readable names of the enumerated spec-block inputs (stored values stay the API's). */
+const CHOICE_LABELS: Record<string, Record<string, string>> = {
+	topology: TOPOLOGY_LABELS,
+	supply: { split: 'split (± rails)', single: 'single rail' },
+	rectifier: {
+		bridge: 'bridge, one rail',
+		'bridge-split': 'bridge on a centre tap, ± rails',
+		'center-tap': 'two diodes, centre tap',
+		'half-wave': 'half-wave'
+	},
+	type: { slow: 'slow (time-delay)', fast: 'fast' },
+	chassis: { metal: 'metal', plastic: 'plastic', wood: 'wood', none: 'no chassis' }
+};
+
 /**
  * A value with its unit for display: farads, ohms and henries with an engineering prefix ("10 mF", "4.7 kΩ"),
  * efficiency 0–1 as percent, booleans as yes/no, others with 3 significant figures ("31 W").
  */
 export function showValue(key: string, value: unknown): string {
 	if (value === null || value === undefined) return '—';
+	if (typeof value === 'string') {
+		const last = key.split('.').pop() ?? key;
+		return CHOICE_LABELS[last]?.[value] ?? value;
+	}
 	if (typeof value === 'boolean') return value ? 'yes' : 'no';
 	if (typeof value === 'number') {
 		const unit = unitOf(key);
