@@ -193,3 +193,20 @@ describe('normaliseLines', () => {
 		expect(again).toEqual(first);
 	});
 });
+
+describe('potentiometer markings in a parts list', () => {
+	// Value code as IEC 60062's three-digit code in ohms: 103 = 10 × 10³ Ω (REFERENCE.md §6.3).
+	it('reads "A103" on a potentiometer line as 10 kΩ and keeps the marking as typed', () => {
+		const r = normaliseLines([{ ...emptyDraft(), designators: 'VR1', kind: 'potentiometer', value: 'A103' }]);
+		expect(r.ok).toBe(true);
+		if (r.ok) {
+			expect(r.lines[0].value).toBe(10_000);
+			expect(r.lines[0].valueText).toBe('A103');
+		}
+	});
+	it('still refuses a marking on a resistor line, with the line number', () => {
+		const r = normaliseLines([{ ...emptyDraft(), designators: 'R1', kind: 'resistor', value: 'A103' }]);
+		expect(r.ok).toBe(false);
+		if (!r.ok) expect(r.errors[0]).toMatchObject({ line: 1, field: 'value' });
+	});
+});

@@ -13,7 +13,10 @@
  *   `4k7 ±1%`, `100n 10%`;
  * - a resistor position bridged by a wire: kind "jumper", or value `0R`, `0`, `link`, `jumper`.
  */
-import { formatValue, networkValue, parseValue, type NetworkPart, type ValueKind, type ValueUnit } from '$lib/engineering';
+import { decodeMarking, formatValue, networkValue, parseValue, type NetworkPart, type ValueKind, type ValueUnit } from '$lib/engineering';
+
+/** A potentiometer marking: taper letter and a 3-digit value code ("B104"). */
+const POT_MARKING = /^[A-Z]\d{3}$/i;
 
 /** Part kinds of a parts-list line. */
 export const PART_KINDS = [
@@ -559,7 +562,11 @@ export function normaliseLine(draft: PartLineDraft, line: number, ctx: PartConte
 		} else if (valueText === '') err('value', `a ${kind} needs a value, e.g. ${vk === 'resistance' ? '4k7' : vk === 'capacitance' ? '100n' : '10u'}`);
 		else {
 			try {
-				const p = parsePartValue(valueText, vk);
+				// A potentiometer may be written as marked: taper letter + value code ("A103", "B104").
+				const p =
+					kind === 'potentiometer' && POT_MARKING.test(valueText)
+						? { ...decodeMarking(valueText, 'potentiometer'), ratingV: undefined, tolerancePct: undefined }
+						: parsePartValue(valueText, vk);
 				if (kind === 'potentiometer' && p.value === 0) throw new RangeError('a potentiometer must be greater than 0 Ω');
 				value = p.value;
 				unit = p.unit;

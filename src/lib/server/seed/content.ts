@@ -377,7 +377,7 @@ export const DEMO_BUILDS: DemoBuild[] = [
 			}
 		],
 		parts: [
-			{ designators: 'VR1', quantity: 1, kind: 'potentiometer', value: '10k', notes: 'Marked A103: dual gang, log taper (letter meaning differs by region — measured about 15 % at mid-rotation)' },
+			{ designators: 'VR1', quantity: 1, kind: 'potentiometer', value: 'A103', notes: 'Dual gang, log taper (letter meaning differs by region — measured about 15 % at mid-rotation)' },
 			{ designators: 'SW1', quantity: 1, kind: 'switch', value: '2-pole 4-way rotary' },
 			{ designators: 'R1–R8', quantity: 8, kind: 'resistor', value: '100k', tolerancePct: 1, ratingW: 0.25, notes: 'Input pull-downs' }
 		]
