@@ -6,7 +6,7 @@ import type { Role } from '$lib/roles';
 
 const tag = () => `${Date.now().toString(36)}${Math.random().toString(36).slice(2, 7)}`;
 
-/** A fresh member with a unique e-mail and handle. → { id, role, name } (an Actor for the builds module). */
+/** A fresh member with a unique e-mail and handle. → { id, role, name, handle } (an Actor for the builds module). */
 export async function createTestUser(role: Role = 'maker', name = 'Build Tester') {
 	const t = tag();
 	const id = crypto.randomUUID();
@@ -18,7 +18,7 @@ export async function createTestUser(role: Role = 'maker', name = 'Build Tester'
 		handle: `bt${t}`,
 		role
 	});
-	return { id, role, name: `${name} ${t}` };
+	return { id, role, name: `${name} ${t}`, handle: `bt${t}` };
 }
 
 /** Remove test members; their builds, steps, revisions and audit rows go with them (cascades). */

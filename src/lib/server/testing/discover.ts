@@ -3,6 +3,8 @@
 import { inArray, sql } from 'drizzle-orm';
 import { db } from '../db';
 import * as schema from '../db/schema';
+import type { Role } from '$lib/roles';
+import { createTestUser, removeTestUsers } from './builds';
 
 const tag = () => `${Date.now().toString(36)}${Math.random().toString(36).slice(2, 7)}`;
 
@@ -75,16 +77,8 @@ export async function removeBuilds(ids: string[]): Promise<void> {
 	if (ids.length) await db.delete(schema.build).where(inArray(schema.build.id, ids));
 }
 
-/** A throwaway member with a unique handle and e-mail. → { id, handle, name, role }. */
-export async function createMember(role: 'maker' | 'reviewer' | 'moderator' | 'admin' = 'maker', name = 'Discover Tester') {
-	const t = tag();
-	const id = crypto.randomUUID();
-	const handle = `dt-${t}`;
-	await db.insert(schema.user).values({ id, name: `${name} ${t}`, email: `discover-${t}@example.test`, emailVerified: true, handle, role });
-	return { id, handle, name: `${name} ${t}`, role };
-}
+/** A throwaway member with a unique handle and e-mail (createTestUser). → { id, handle, name, role }. */
+export const createMember = (role: Role = 'maker', name = 'Discover Tester') => createTestUser(role, name);
 
 /** Remove throwaway members; their builds, reviews and bench items go with them (cascades). */
-export async function removeMembers(ids: string[]): Promise<void> {
-	if (ids.length) await db.delete(schema.user).where(inArray(schema.user.id, ids));
-}
+export const removeMembers = removeTestUsers;

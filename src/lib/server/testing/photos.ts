@@ -3,20 +3,14 @@ import sharp from 'sharp';
 import { eq } from 'drizzle-orm';
 import { db } from '../db';
 import * as schema from '../db/schema';
+import { createTestUser } from './builds';
 
 const tag = () => `${Date.now().toString(36)}${Math.random().toString(36).slice(2, 7)}`;
 
 /** A fresh maker with one draft build (and one step). Unique e-mail, handle and slug. */
 export async function createMakerWithBuild(opts: { locked?: boolean } = {}) {
 	const t = tag();
-	const userId = crypto.randomUUID();
-	await db.insert(schema.user).values({
-		id: userId,
-		name: `Photo Tester ${t}`,
-		email: `photo-${t}@example.test`,
-		emailVerified: true,
-		handle: `pt${t}`
-	});
+	const { id: userId } = await createTestUser('maker', 'Photo Tester');
 	const [b] = await db
 		.insert(schema.build)
 		.values({
