@@ -49,6 +49,7 @@ export async function setRole(actor: Actor, targetId: string, newRole: Role, rea
 	if (actor.role !== 'admin' && !allowed.includes(target.role as Role)) {
 		error(403, `A ${actor.role} cannot change the role of a ${target.role}.`);
 	}
+	if (target.suspendedAt && roleAtLeast(newRole, 'reviewer')) error(409, 'Restore this member before appointing them.');
 	if (target.role === newRole) return;
 	await db.transaction(async (tx) => {
 		await tx.update(schema.user).set({ role: newRole }).where(eq(schema.user.id, targetId));
