@@ -5,6 +5,7 @@
  */
 import { formatValue } from '$lib/engineering';
 import { TOPOLOGY_LABELS } from '$lib/labels';
+import { showCapacitance } from '$lib/components/tools/display';
 
 /** Display names of the spec-block kinds (PRODUCT.md §3). */
 export const KIND_LABELS: Record<string, string> = {
@@ -189,7 +190,8 @@ const CHOICE_LABELS: Record<string, Record<string, string>> = {
 };
 
 /**
- * A value with its unit for display: farads, ohms and henries with an engineering prefix ("10 mF", "4.7 kΩ"),
+ * A value with its unit for display: ohms, farads and henries with an engineering prefix ("4.7 kΩ", "100 nF";
+ * reservoirs of 1 mF and more also in µF, "10 000 µF (10 mF)"),
  * efficiency 0–1 as percent, booleans as yes/no, others with 3 significant figures ("31 W").
  */
 export function showValue(key: string, value: unknown): string {
@@ -204,6 +206,7 @@ export function showValue(key: string, value: unknown): string {
 		const last = key.split('.').pop() ?? key;
 		if (last === 'efficiency') return `${sig3(value * 100)} %`;
 		if (last === 'gain') return `${sig3(value)} ×`;
+		if (unit === 'F' && value >= 1e-3) return showCapacitance(value);
 		if (unit === 'F' || unit === 'Ω') {
 			try {
 				return formatValue(value, unit === 'Ω' ? 'ohm' : unit);
