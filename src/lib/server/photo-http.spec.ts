@@ -99,3 +99,31 @@ describe('photoRoute', () => {
 		expect(isUuid(null)).toBe(false);
 	});
 });
+
+describe('photos on a published build', () => {
+	it('record a revision when one is added or removed', async () => {
+		const { db } = await import('./db');
+		const schema = await import('./db/schema');
+		const { eq } = await import('drizzle-orm');
+		const { publish } = await import('./builds');
+		const { processAndStorePhoto, deletePhoto } = await import('./photos');
+		const { notePhotoRevision } = await import('./photo-http');
+		const { jpegWithGpsAndOrientation } = await import('./testing/photos');
+		const m = await createMakerWithBuild();
+		try {
+			const actor = { id: m.userId, role: 'maker' };
+			expect(await publish(actor, m.build.id)).toBe(1);
+			const revision = async () => (await db.select().from(schema.build).where(eq(schema.build.id, m.build.id)))[0].revision;
+			const photo = await processAndStorePhoto({ ownerId: m.userId, buildId: m.build.id, stepId: m.step.id, bytes: await jpegWithGpsAndOrientation(400, 300), alt: 'A heatsink' });
+			await notePhotoRevision(m.build.id, m.userId);
+			expect(await revision()).toBe(2);
+			await deletePhoto(photo.id);
+			await notePhotoRevision(m.build.id, m.userId);
+			expect(await revision()).toBe(3);
+			await notePhotoRevision(m.build.id, m.userId); // nothing changed: no new revision
+			expect(await revision()).toBe(3);
+		} finally {
+			await removeMaker(m.userId);
+		}
+	});
+});

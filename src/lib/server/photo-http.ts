@@ -3,6 +3,8 @@ import { apiError, type ApiErrorCode } from './api';
 import { requireUser } from './auth';
 import { assertCanEdit, type Viewer } from './builds/access';
 import { PhotoError, deletePhoto, findBuildForPhotos, findPhoto } from './photos';
+import { db } from './db';
+import { recordRevision } from './builds/revisions';
 
 const codeFor: Record<number, ApiErrorCode> = {
 	400: 'invalid',
@@ -89,7 +91,13 @@ export async function deleteBuildPhoto(slug: string, photoId: string): Promise<s
 	const row = isUuid(photoId) ? await findPhoto(photoId) : null;
 	if (!row || row.buildId !== b.id) throw new PhotoError(404, 'not_found', 'That photo is not part of this build (it may already be deleted).', 'id');
 	await deletePhoto(row.id);
+	await notePhotoRevision(b.id, user.id);
 	return row.id;
+}
+
+/** A photo added to or removed from a published build is a change like any other: record a revision. */
+export async function notePhotoRevision(buildId: string, authorId: string): Promise<void> {
+	await db.transaction((tx) => recordRevision(tx, buildId, authorId));
 }
 
 /** True when the caller is a plain HTML form (no JavaScript), which wants a page back, not JSON. */

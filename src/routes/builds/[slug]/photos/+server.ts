@@ -1,7 +1,7 @@
 import { json, redirect } from '@sveltejs/kit';
 import type { RequestHandler } from './$types';
 import { requireUser } from '$lib/server/auth';
-import { backTo, editableBuild, isUuid, photoRoute, wantsHtml } from '$lib/server/photo-http';
+import { backTo, editableBuild, isUuid, notePhotoRevision, photoRoute, wantsHtml } from '$lib/server/photo-http';
 import { PhotoError, checkAlt, photoMaxBytes, processAndStorePhoto, toPhotoView } from '$lib/server/photos';
 
 /** Multipart overhead allowed on top of the photo itself (boundaries, the alt text, the other fields). */
@@ -61,6 +61,7 @@ export const POST: RequestHandler = async ({ request, params, locals, url }) => 
 				alt,
 				asCover: purpose === 'cover'
 			});
+			await notePhotoRevision(b.id, user.id);
 			if (html) redirect(303, back);
 			return json({ photo: toPhotoView(row) }, { status: 201 });
 		},
