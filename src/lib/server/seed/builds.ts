@@ -74,6 +74,7 @@ export async function seedBuilds(tx: Tx, ids: Ids): Promise<void> {
 		seeded.push({ demo, id, ownerId, stepIds });
 	}
 	await seedReviews(tx, ids, seeded);
+	await seedConversation(tx, ids, seeded);
 	const origin = seeded.find((s) => s.demo.key === DEMO_DERIVE.from)!;
 	await derive({ id: ids[DEMO_DERIVE.by], role: roleOf(DEMO_DERIVE.by) }, origin.id, tx, { title: DEMO_DERIVE.title });
 }
@@ -154,4 +155,29 @@ async function seedReviews(tx: Tx, ids: Ids, seeded: Seeded[]) {
 			}, tx);
 		}
 	}
+}
+
+/** A few comments with a reply, and open reports so the moderation desk has work in the demo. */
+async function seedConversation(tx: Tx, ids: Ids, seeded: Seeded[]) {
+	const chipamp = seeded.find((s) => s.demo.key === 'chipamp')!;
+	const headphone = seeded.find((s) => s.demo.key === 'headphone')!;
+	const hour = 3600 * 1000;
+	const say = async (buildId: string, authorId: string, body: string, hoursAgo: number, parentId: string | null = null) => {
+		const [row] = await tx
+			.insert(schema.comment)
+			.values({ buildId, authorId, parentId, bodyMd: body, bodyHtml: renderMarkdown(body), createdAt: new Date(Date.now() - hoursAgo * hour) })
+			.returning({ id: schema.comment.id });
+		return row.id;
+	};
+	const q = await say(chipamp.id, ids.maker2, 'How warm do the heatsinks get after an hour at a loud listening level?', 50);
+	await say(chipamp.id, ids.maker, 'About 45 °C at the fins with the lid on — the bring-up block has the heat-soak figure.', 48, q);
+	await say(chipamp.id, ids.reviewer2, 'Nice work on the insulated tabs. Did you measure the mica washers with a meter before the first power-up?', 30);
+	// An invented account that only posts an advertisement (it has no password: nobody signs in as it).
+	const spammerId = crypto.randomUUID();
+	await tx.insert(schema.user).values({ id: spammerId, name: 'Parts Bargains', email: 'bargains@starground.test', emailVerified: true, handle: 'parts-bargains', role: 'maker' });
+	const spam = await say(headphone.id, spammerId, 'Cheap boards and parts, best prices, message me for a link!!!', 5);
+	await tx.insert(schema.report).values([
+		{ reporterId: ids.maker2, targetKind: 'comment', targetId: spam, reason: 'Advertising, nothing to do with the build.', createdAt: new Date(Date.now() - 4 * hour) },
+		{ reporterId: ids.maker, targetKind: 'build', targetId: seeded.find((s) => s.demo.key === 'supply')!.id, reason: 'Metal case on a two-pin inlet with no earth: please lock it until the maker fixes it.', createdAt: new Date(Date.now() - 2 * hour) }
+	]);
 }

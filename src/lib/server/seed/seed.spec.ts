@@ -23,8 +23,11 @@ describe('demo seed', async () => {
 		expect(await seedDemoIfEmpty(database)).toBe(false);
 		const sql = postgres(scratch.url, { max: 1 });
 		try {
-			const [{ n }] = await sql`select count(*)::int as n from "user"`;
+			// Every demo member can sign in; one extra invented account (an advertiser) has no password.
+			const [{ n }] = await sql`select count(*)::int as n from account where provider_id = 'credential'`;
 			expect(n).toBe(DEMO_MEMBERS.length);
+			const [{ reports }] = await sql`select count(*)::int as reports from report where state = 'open'`;
+			expect(reports).toBe(2);
 			const roles = await sql`select distinct role from "user" order by role`;
 			expect(roles.map((r) => r.role)).toEqual(['admin', 'maker', 'moderator', 'reviewer']);
 			const [{ b }] = await sql`select count(*)::int as b from build`;
