@@ -62,6 +62,25 @@ export function isWaiting(requestedAt: Date | null, reviewedAt: Date | null): bo
  * "safe at r3 · changed since", "rework at r2", "waiting for review", "not reviewed".
  * A build asked again after a change adds "· waiting for review".
  */
+/**
+ * The review state as the JSON API gives it (list items and build detail): the label, its words, the
+ * latest verdict and the revision it was given on, and the flag counts. "safe" is a peer's opinion.
+ */
+export function reviewStateJson(s: ReviewState) {
+	return {
+		label: s.label,
+		text: reviewLabelText(s),
+		verdict: s.verdict,
+		verdictRevision: s.verdictRevision,
+		currentRevision: s.currentRevision,
+		reviewedAt: s.reviewedAt ? s.reviewedAt.toISOString() : null,
+		reviewer: s.reviewer,
+		waiting: s.waiting,
+		openFlags: s.openFlags,
+		addressedFlags: s.addressedFlags
+	};
+}
+
 export function reviewLabelText(state: Pick<ReviewState, 'label' | 'verdict' | 'verdictRevision' | 'waiting'>): string {
 	if (!state.verdict || state.verdictRevision === null) return state.waiting ? 'waiting for review' : 'not reviewed';
 	let text = `${state.verdict} at r${state.verdictRevision}`;

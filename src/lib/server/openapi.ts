@@ -118,8 +118,12 @@ const reviewOut = z
 		text: z.string().describe('"safe at r3 · changed since" — a peer’s opinion, never a certification'),
 		verdict: z.enum(['safe', 'rework']).nullable(),
 		verdictRevision: z.number().int().nullable(),
+		currentRevision: z.number().int(),
+		reviewedAt: z.string().nullable().describe('ISO 8601'),
+		reviewer: z.object({ name: z.string(), handle: z.string().nullable() }).nullable(),
 		waiting: z.boolean(),
-		openFlags: z.number().int()
+		openFlags: z.number().int(),
+		addressedFlags: z.number().int()
 	})
 	.nullable();
 const listItem = z.object({
@@ -171,7 +175,7 @@ const detailOut = z.looseObject({
 	steps: z.array(z.looseObject({ id: z.string(), number: z.number().int(), title: z.string(), bodyHtml: z.string(), photos: z.array(photoOut) })),
 	specBlocks: z.array(z.looseObject({ id: z.string(), kind: z.enum(SPEC_KINDS), data: z.record(z.string(), z.unknown()), derived: z.record(z.string(), z.unknown()), checks: z.array(check) })),
 	parts: z.array(z.looseObject({ id: z.string(), designators: z.string(), quantity: z.number().int(), kind: z.string(), valueText: z.string(), value: z.number().nullable() })),
-	review: z.unknown().describe('Latest review state, null until reviewed'),
+	review: reviewOut.describe('Latest review state: verdict, the revision it was given on, open flags'),
 	lineage: z.object({ derivedFrom: z.unknown().nullable(), derivedBuilds: z.array(z.unknown()) })
 });
 const commentItem: z.ZodType = z.looseObject({

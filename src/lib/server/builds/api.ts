@@ -10,7 +10,7 @@ import { z } from 'zod';
 import * as schema from '../db/schema';
 import { db } from '../db';
 import { photoUrl, type PhotoView } from '../photos';
-import { reviewLabelCondition } from '../reviews/state';
+import { getReviewState, reviewLabelCondition, reviewStateJson } from '../reviews/state';
 import { CATEGORY_LABELS, TOPOLOGY_LABELS, labelOf } from '$lib/labels';
 import { CATEGORIES, TOPOLOGIES } from '$lib/schemas/build';
 import { LIST_SORTS, REVIEW_FILTERS, type ListSort } from '$lib/schemas/list';
@@ -362,11 +362,16 @@ function serializeLink(l: LineageLink) {
 /**
  * GET /api/v1/builds/:slug — a build readers may see (published or archived; drafts only for their
  * maker and admins; 404 otherwise) with steps, spec blocks (derived values and checks), parts list,
- * review state (null until reviews exist) and lineage.
+ * review state (latest verdict, the revision it was given on, open flags) and lineage.
  */
 export async function getBuildDetail(slug: string, viewer: Viewer, dbx: DbLike = db) {
 	const b = await requireVisibleBuild(slug, viewer, dbx);
-	const [m, content, lineage] = await Promise.all([getMaker(b.ownerId, dbx), loadBuildContent(b, dbx), loadLineage(b, viewer, dbx)]);
+	const [m, content, lineage, review] = await Promise.all([
+		getMaker(b.ownerId, dbx),
+		loadBuildContent(b, dbx),
+		loadLineage(b, viewer, dbx),
+		getReviewState(b.id)
+	]);
 	const coverPhoto = content.cover;
 	return {
 		slug: b.slug,
@@ -429,7 +434,7 @@ export async function getBuildDetail(slug: string, viewer: Viewer, dbx: DbLike =
 					: null,
 			checks: p.checks
 		})),
-		review: null,
+		review: reviewStateJson(review),
 		lineage: {
 			derivedFrom: lineage.derivedFrom ? serializeLink(lineage.derivedFrom) : null,
 			derivedBuilds: lineage.derivedBuilds.map(serializeLink)

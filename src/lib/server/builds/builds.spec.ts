@@ -397,7 +397,7 @@ describe('published list and detail', () => {
 			expect(seen).toEqual([...made].reverse());
 
 			const detail = await getBuildDetail(made[0], null);
-			expect(detail).toMatchObject({ slug: made[0], status: 'published', revision: 1, review: null, steps: [{ title: 'S', number: 1 }] });
+			expect(detail).toMatchObject({ slug: made[0], status: 'published', revision: 1, review: { label: 'unreviewed', verdict: null, currentRevision: 1 }, steps: [{ title: 'S', number: 1 }] });
 			expect(detail.lineage).toEqual({ derivedFrom: null, derivedBuilds: [] });
 		} finally {
 			await removeTestUsers([owner.id]);

@@ -14,6 +14,7 @@ export {
 	emptyReviewState,
 	isWaiting,
 	reviewLabelText,
+	reviewStateJson,
 	type ReviewLabel,
 	type ReviewState,
 	type Verdict

@@ -1,7 +1,7 @@
 import { json } from '@sveltejs/kit';
 import { apiError, methodNotAllowed, queryObject, zodErrorResponse } from '$lib/server/api';
 import { encodeCursor, listQuerySchema, queryBuilds, serializeListItem } from '$lib/server/builds';
-import { getReviewStates, reviewLabelText } from '$lib/server/reviews/state';
+import { getReviewStates, reviewStateJson } from '$lib/server/reviews/state';
 import { highlightBuilds } from '$lib/server/search';
 import type { RequestHandler } from './$types';
 
@@ -29,9 +29,7 @@ export const GET: RequestHandler = async ({ url }) => {
 		const h = highlights?.get(r.id);
 		return {
 			...serializeListItem(r),
-			review: s
-				? { label: s.label, text: reviewLabelText(s), verdict: s.verdict, verdictRevision: s.verdictRevision, waiting: s.waiting, openFlags: s.openFlags }
-				: null,
+			review: s ? reviewStateJson(s) : null,
 			...(highlights ? { match: h ? { titleHtml: h.titleHtml, snippetHtml: h.snippetHtml } : null } : {})
 		};
 	});
