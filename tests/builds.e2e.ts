@@ -138,7 +138,7 @@ test.describe.serial('build journal', () => {
 		const api = await page.request.get(`/api/v1/builds/${slug}`);
 		expect(api.status()).toBe(200);
 		const body = await api.json();
-		expect(body).toMatchObject({ slug, title: TITLE, status: 'published', revision: 1, review: null, mainsPowered: true });
+		expect(body).toMatchObject({ slug, title: TITLE, status: 'published', revision: 1, review: { label: 'unreviewed', verdict: null, currentRevision: 1 }, mainsPowered: true });
 		expect(body.steps.map((s: { title: string }) => s.title)).toEqual(['Wire the chassis', 'Populate the board']);
 		expect(body.steps[0].bodyHtml).toContain('click me</a>');
 		expect(body.steps[0].bodyHtml).not.toMatch(/<script|\son\w+=|href="\s*javascript:|src="\s*data:|<svg|<iframe|<img/i);
