@@ -8,7 +8,7 @@ import { test, expect, request as playwrightRequest, type APIRequestContext, typ
 import sharp from 'sharp';
 import { DEMO_PASSWORD } from './helpers/auth';
 import { waitForMail, linkIn } from './helpers/mail';
-import { origin, uniqueTitle } from './helpers/builds';
+import { origin, uniqueTitle, SUPPLY_FORM } from './helpers/builds';
 
 const ACTORS = ['anon', 'owner', 'other', 'reviewer', 'moderator', 'admin', 'suspended'] as const;
 type Actor = (typeof ACTORS)[number];
@@ -86,26 +86,6 @@ async function draftBuild(title = uniqueTitle('Matrix draft')): Promise<string> 
 	return slug;
 }
 
-const SUPPLY_FORM = {
-	kind: 'supply',
-	id: '',
-	title: 'Main supply',
-	mainsVac: '230',
-	mainsHz: '50',
-	transformerVA: '300',
-	secondaryVac: '25',
-	mainsPowered: 'on',
-	rectifier: 'bridge-split',
-	diodeDropV: '0.8',
-	reservoirF: '10000u',
-	capRatingV: '50',
-	loadCurrentA: '3',
-	fuse__ratingA: '3.15',
-	fuse__type: 'slow',
-	chassis: 'metal',
-	protectiveEarth: 'on',
-	bleeder: 'none'
-};
 
 async function publishedBuild(title?: string): Promise<{ slug: string; stepId: string }> {
 	const slug = await draftBuild(title);

@@ -4,6 +4,28 @@ import { expect, type APIRequestContext, type Page } from '@playwright/test';
 
 export const origin = () => process.env.ORIGIN ?? 'http://127.0.0.1:3100';
 
+/** The spec editor's form fields for a valid mains supply block (fused, earthed metal chassis). */
+export const SUPPLY_FORM = {
+	kind: 'supply',
+	id: '',
+	title: 'Main supply',
+	mainsVac: '230',
+	mainsHz: '50',
+	transformerVA: '300',
+	secondaryVac: '25',
+	mainsPowered: 'on',
+	rectifier: 'bridge-split',
+	diodeDropV: '0.8',
+	reservoirF: '10000u',
+	capRatingV: '50',
+	loadCurrentA: '3',
+	fuse__ratingA: '3.15',
+	fuse__type: 'slow',
+	chassis: 'metal',
+	protectiveEarth: 'on',
+	bleeder: 'none'
+};
+
 /** POST a form action as a browser form would (urlencoded, Accept text/html, same Origin); no redirect following. */
 export async function postForm(request: APIRequestContext, path: string, form: Record<string, string>) {
 	return request.post(path, {
@@ -50,26 +72,7 @@ export async function createPublishedBuild(page: Page, opts: { title?: string; s
 		expect(res.status(), `add step ${step.title}`).toBe(200);
 	}
 	if (opts.supply !== false) {
-		const res = await postForm(req, `/builds/${slug}/edit/specs?/save`, {
-			kind: 'supply',
-			id: '',
-			title: 'Main supply',
-			mainsVac: '230',
-			mainsHz: '50',
-			transformerVA: '300',
-			secondaryVac: '25',
-			mainsPowered: 'on',
-			rectifier: 'bridge-split',
-			diodeDropV: '0.8',
-			reservoirF: '10000u',
-			capRatingV: '50',
-			loadCurrentA: '3',
-			fuse__ratingA: '3.15',
-			fuse__type: 'slow',
-			chassis: 'metal',
-			protectiveEarth: 'on',
-			bleeder: 'none'
-		});
+		const res = await postForm(req, `/builds/${slug}/edit/specs?/save`, SUPPLY_FORM);
 		expect(res.status(), 'save supply block').toBe(303);
 	}
 	const pub = await postForm(req, `/builds/${slug}/edit?/publish`, {});
