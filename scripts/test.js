@@ -23,7 +23,10 @@ const o = {
 	fast: true
 };
 
-const only = process.argv[2]; // optional: "unit" or "e2e"
+// optional: "unit" or "e2e", then filters passed on to Vitest or Playwright after `--`
+// (`node scripts/test.js unit -- src/lib/specs`, `node scripts/test.js e2e -- tests/review.e2e.ts`).
+const only = process.argv[2] === '--' ? undefined : process.argv[2];
+const filters = process.argv.includes('--') ? process.argv.slice(process.argv.indexOf('--') + 1) : [];
 let stack;
 let app;
 const children = new Set();
@@ -99,7 +102,7 @@ try {
 	};
 	if (only !== 'e2e') {
 		console.log('• Vitest: unit and integration tests');
-		const code = await run('npx', ['vitest', 'run'], { ...testEnv, MAIL_WORKER: 'off' });
+		const code = await run('npx', ['vitest', 'run', ...filters], { ...testEnv, MAIL_WORKER: 'off' });
 		if (code !== 0) failed++;
 	}
 	if (only !== 'unit') {
@@ -113,7 +116,7 @@ try {
 		});
 		await waitFor(`${testEnv.ORIGIN}/`, 240_000);
 		console.log('• Playwright: end-to-end tests in Debian Chromium');
-		const code = await run('npx', ['playwright', 'test'], testEnv);
+		const code = await run('npx', ['playwright', 'test', ...filters], testEnv);
 		if (code !== 0) {
 			failed++;
 			console.log('--- last lines of the app log ---');
