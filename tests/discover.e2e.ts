@@ -11,20 +11,22 @@ async function newestBuild(request: APIRequestContext) {
 }
 
 /**
- * A word worth searching for, taken from a published title (5+ letters) that both the search and the
- * suggestions find — so the test works on any data set, whatever other tests publish meanwhile.
+ * A word worth searching for, taken from a published title (5+ letters) that exactly one build carries and
+ * the suggestions find — so the test works on any data set, whatever other tests publish meanwhile.
  */
 async function searchWord(request: APIRequestContext): Promise<string> {
-	const list = await (await request.get('/api/v1/builds?limit=20')).json();
+	const list = await (await request.get('/api/v1/builds?limit=50')).json();
 	for (const item of list.items as { title: string }[]) {
 		const words = (item.title.match(/[A-Za-z]{5,}/g) ?? []).sort((a, b) => b.length - a.length);
 		for (const w of words) {
 			const prefix = w.slice(0, Math.max(4, w.length - 2)).toLowerCase();
 			const [hits, sugg] = await Promise.all([
-				request.get(`/api/v1/builds?q=${w}&limit=1`).then((r) => r.json()),
+				request.get(`/api/v1/builds?q=${w}&limit=2`).then((r) => r.json()),
 				request.get(`/api/v1/search/suggest?q=${prefix}`).then((r) => r.json())
 			]);
-			if (hits.items.length && sugg.items.length) return w;
+			// Only a word that a single build carries: other tests publish builds meanwhile (with shared
+			// title words), and a tie in rank could reorder the results between two requests.
+			if (hits.items.length === 1 && sugg.items.length) return w;
 		}
 	}
 	throw new Error('no published build with a searchable title word');
