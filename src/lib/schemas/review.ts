@@ -1,8 +1,9 @@
 /** Input shapes for review, flags, comments and reports: shared by form actions, API routes and forms. */
 import { z } from 'zod';
 import { FLAG_CATEGORY_VALUES, FLAG_SEVERITY_VALUES } from '$lib/reviews';
+import { UUID_PATTERN } from '$lib/uuid';
 
-const uuid = z.string().trim().regex(/^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i, 'Not a valid id.');
+const uuid = z.string().trim().regex(UUID_PATTERN, 'Not a valid id.');
 
 /** A reviewer raises a safety flag on a step, a spec block or a part line. */
 export const raiseFlagSchema = z.object({

@@ -13,25 +13,21 @@ import { notifyReply } from './notifications';
 import { roleAtLeast } from '$lib/roles';
 import { commentEditSchema, commentSchema } from '$lib/schemas/review';
 import { EDIT_WINDOW_MS, type CommentItem } from '$lib/comments';
+import { isUuid } from '$lib/uuid';
+import type { Actor, Viewer } from './actor';
 
 export { EDIT_WINDOW_MS, type CommentItem };
 
-export interface CommentActor {
-	id: string;
-	role?: string | null;
-	name?: string;
-}
 
 type BuildRef = Pick<schema.Build, 'id' | 'slug' | 'title' | 'status' | 'locked' | 'ownerId'>;
 
-const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
 /**
  * All comments of a build as a tree (top-level oldest first, replies oldest first). Hidden comments are
  * left out (with their replies) unless the viewer is a moderator; a deleted comment stays only as a
  * placeholder while it has visible replies.
  */
-export async function listComments(buildId: string, viewer: CommentActor | null | undefined): Promise<CommentItem[]> {
+export async function listComments(buildId: string, viewer: Viewer): Promise<CommentItem[]> {
 	const rows = await db
 		.select({
 			c: schema.comment,
@@ -95,7 +91,7 @@ export async function listComments(buildId: string, viewer: CommentActor | null 
 }
 
 /** The build with this slug for comment routes: 404 unless it exists and `viewer` may see it (drafts: maker and admins). */
-export async function requireCommentableBuild(slug: string, viewer: CommentActor | null | undefined): Promise<BuildRef> {
+export async function requireCommentableBuild(slug: string, viewer: Viewer): Promise<BuildRef> {
 	if (!/^[a-z0-9][a-z0-9-]{0,200}$/.test(slug)) error(404, 'Not found');
 	const [b] = await db
 		.select({
@@ -147,7 +143,7 @@ function assertOpen(b: BuildRef): void {
  * author unless they turned reply mail off. → the new comment as the API shows it.
  */
 export async function postComment(
-	actor: CommentActor,
+	actor: Actor,
 	build: BuildRef,
 	input: { body: string; parentId?: string | null }
 ): Promise<CommentItem> {
@@ -188,8 +184,8 @@ export async function postComment(
 	};
 }
 
-async function ownComment(actor: CommentActor, build: BuildRef, commentId: string) {
-	if (!UUID.test(commentId)) error(404, 'Not found');
+async function ownComment(actor: Actor, build: BuildRef, commentId: string) {
+	if (!isUuid(commentId)) error(404, 'Not found');
 	const [c] = await db
 		.select()
 		.from(schema.comment)
@@ -200,7 +196,7 @@ async function ownComment(actor: CommentActor, build: BuildRef, commentId: strin
 }
 
 /** The author edits a comment within 15 minutes of posting it (not on a locked build, not once hidden). */
-export async function editComment(actor: CommentActor, build: BuildRef, commentId: string, body: string): Promise<CommentItem> {
+export async function editComment(actor: Actor, build: BuildRef, commentId: string, body: string): Promise<CommentItem> {
 	const data = commentEditSchema.parse({ body });
 	const c = await ownComment(actor, build, commentId);
 	if (build.locked) error(403, 'A moderator has locked this build: comments are closed for now.');
@@ -228,7 +224,7 @@ export async function editComment(actor: CommentActor, build: BuildRef, commentI
 }
 
 /** The author deletes their comment (kept as a placeholder while it has replies). */
-export async function deleteComment(actor: CommentActor, build: BuildRef, commentId: string): Promise<void> {
+export async function deleteComment(actor: Actor, build: BuildRef, commentId: string): Promise<void> {
 	const c = await ownComment(actor, build, commentId);
 	await db.update(schema.comment).set({ deletedAt: new Date(), bodyMd: '', bodyHtml: '' }).where(eq(schema.comment.id, c.id));
 }

@@ -7,7 +7,7 @@ import * as schema from './db/schema';
 import { effectiveSort, encodeCursor as encodeCursorFor, listPublishedBuilds, listQuerySchema, queryBuilds, type BuildListRow, type ListQuery } from './builds/api';
 import { getReviewStates, reviewLabelCondition, type ReviewState } from './reviews/state';
 import { highlightBuilds, type SearchHighlight } from './search';
-import { queryObject, type ApiIssue } from './api';
+import { queryObject, type ApiIssue } from './http';
 import { CATEGORY_LABELS, TOPOLOGY_LABELS, labelOf } from '$lib/labels';
 import type { BuildCardData } from '$lib/components/build/card';
 

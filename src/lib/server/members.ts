@@ -3,12 +3,9 @@ import { error } from '@sveltejs/kit';
 import { db } from './db';
 import * as schema from './db/schema';
 import { recordAudit } from './audit';
+import type { Actor } from './actor';
 import { assignableRoles, roleAtLeast, type Role } from '$lib/roles';
 
-export interface Actor {
-	id: string;
-	role: string;
-}
 
 /** Members for the members page, optionally filtered by name, handle or e-mail. */
 export async function listMembers(q = '', limit = 200) {

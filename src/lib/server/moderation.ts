@@ -11,19 +11,16 @@ import { env } from '$env/dynamic/private';
 import * as schema from './db/schema';
 import { db, type Tx } from './db';
 import { recordAudit } from './audit';
+import type { Actor } from './actor';
 import { setLocked } from './builds';
 import { setSuspended } from './members';
 import { roleAtLeast } from '$lib/roles';
 import { moderationReason, reportSchema, type ReportInput, type ReportTargetKind } from '$lib/schemas/review';
+import { isUuid } from '$lib/uuid';
 
-export interface ModActor {
-	id: string;
-	role?: string | null;
-}
 
-const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
-function assertModerator(actor: ModActor): asserts actor is ModActor & { role: string } {
+function assertModerator(actor: Actor): void {
 	if (!roleAtLeast(actor.role, 'moderator')) error(403, 'Only moderators can do this.');
 }
 
@@ -39,12 +36,12 @@ async function resolveReportTarget(kind: ReportTargetKind, id: string): Promise<
 		const [b] = await db
 			.select({ id: schema.build.id, status: schema.build.status })
 			.from(schema.build)
-			.where(UUID.test(id) ? eq(schema.build.id, id) : eq(schema.build.slug, id));
+			.where(isUuid(id) ? eq(schema.build.id, id) : eq(schema.build.slug, id));
 		if (!b || b.status === 'draft') error(422, 'There is no such build to report.');
 		return { targetId: b.id };
 	}
 	if (kind === 'comment') {
-		if (!UUID.test(id)) error(422, 'There is no such comment to report.');
+		if (!isUuid(id)) error(422, 'There is no such comment to report.');
 		const [c] = await db.select({ id: schema.comment.id, deletedAt: schema.comment.deletedAt }).from(schema.comment).where(eq(schema.comment.id, id));
 		if (!c || c.deletedAt) error(422, 'There is no such comment to report.');
 		return { targetId: c.id };
@@ -62,7 +59,7 @@ async function resolveReportTarget(kind: ReportTargetKind, id: string): Promise<
  * A second report of the same thing by the same member while the first is open adds nothing.
  * At most REPORT_RATE_PER_HOUR (default 20) reports an hour per member. → { id, duplicate }.
  */
-export async function fileReport(actor: ModActor, input: ReportInput): Promise<{ id: string; duplicate: boolean }> {
+export async function fileReport(actor: Actor, input: ReportInput): Promise<{ id: string; duplicate: boolean }> {
 	const data = reportSchema.parse(input);
 	const { targetId } = await resolveReportTarget(data.targetKind, data.targetId);
 	if (data.targetKind === 'member' && targetId === actor.id) error(422, 'You cannot report yourself.');
@@ -100,10 +97,10 @@ async function closeReportsAbout(tx: Tx, actorId: string, kind: ReportTargetKind
 }
 
 /** Hide (or restore) a comment from readers (moderators). Hiding closes open reports about it. */
-export async function setCommentHidden(actor: ModActor, commentId: string, hidden: boolean, reason: string): Promise<void> {
+export async function setCommentHidden(actor: Actor, commentId: string, hidden: boolean, reason: string): Promise<void> {
 	assertModerator(actor);
 	const why = reasonOf(reason);
-	if (!UUID.test(commentId)) error(404, 'No such comment.');
+	if (!isUuid(commentId)) error(404, 'No such comment.');
 	await db.transaction(async (tx) => {
 		const [c] = await tx.select().from(schema.comment).where(eq(schema.comment.id, commentId)).for('update');
 		if (!c) error(404, 'No such comment.');
@@ -126,10 +123,10 @@ export async function setCommentHidden(actor: ModActor, commentId: string, hidde
 }
 
 /** Lock or unlock a build (moderators; through the builds module, which writes the audit log). Locking closes open reports about it. */
-export async function setBuildLocked(actor: ModActor, buildId: string, locked: boolean, reason: string): Promise<void> {
+export async function setBuildLocked(actor: Actor, buildId: string, locked: boolean, reason: string): Promise<void> {
 	assertModerator(actor);
 	const why = reasonOf(reason);
-	if (!UUID.test(buildId)) error(404, 'No such build.');
+	if (!isUuid(buildId)) error(404, 'No such build.');
 	await db.transaction(async (tx) => {
 		await setLocked(actor, buildId, locked, why, tx);
 		if (locked) await closeReportsAbout(tx, actor.id, 'build', buildId, `Build locked: ${why}`);
@@ -137,7 +134,7 @@ export async function setBuildLocked(actor: ModActor, buildId: string, locked: b
 }
 
 /** Suspend or restore a member (moderators; members.setSuspended checks rank and writes the audit log). Suspending closes open reports about them. */
-export async function setMemberSuspended(actor: ModActor, userId: string, suspended: boolean, reason: string): Promise<void> {
+export async function setMemberSuspended(actor: Actor, userId: string, suspended: boolean, reason: string): Promise<void> {
 	assertModerator(actor);
 	const why = reasonOf(reason);
 	await setSuspended({ id: actor.id, role: actor.role }, userId, suspended, why);
@@ -150,10 +147,10 @@ export async function setMemberSuspended(actor: ModActor, userId: string, suspen
  * Close a report with a resolution (moderators), e.g. "no action: within the rules" — and with it every
  * other open report about the same thing, since the matter is settled. Audited once, with the count.
  */
-export async function closeReport(actor: ModActor, reportId: string, resolution: string): Promise<void> {
+export async function closeReport(actor: Actor, reportId: string, resolution: string): Promise<void> {
 	assertModerator(actor);
 	const why = reasonOf(resolution);
-	if (!UUID.test(reportId)) error(404, 'No such report.');
+	if (!isUuid(reportId)) error(404, 'No such report.');
 	await db.transaction(async (tx) => {
 		const [r] = await tx.select().from(schema.report).where(eq(schema.report.id, reportId)).for('update');
 		if (!r) error(404, 'No such report.');
@@ -221,8 +218,8 @@ export async function listReports(state: 'open' | 'closed' = 'open', limit = 100
 		.limit(limit);
 
 	const ids = (k: string) => rows.filter((x) => x.r.targetKind === k).map((x) => x.r.targetId);
-	const commentIds = ids('comment').filter((i) => UUID.test(i));
-	const buildIds = ids('build').filter((i) => UUID.test(i));
+	const commentIds = ids('comment').filter(isUuid);
+	const buildIds = ids('build').filter(isUuid);
 	const memberIds = ids('member');
 	const author = alias(schema.user, 'author');
 	const [comments, builds, members] = await Promise.all([
@@ -365,7 +362,7 @@ export interface AuditFilter {
 const DAY = /^\d{4}-\d{2}-\d{2}$/;
 
 /** Audit-log entries, newest first, filtered (admins only). → { entries, page, more }. */
-export async function listAudit(actor: ModActor, filter: AuditFilter, limit = 50) {
+export async function listAudit(actor: Actor, filter: AuditFilter, limit = 50) {
 	if (!roleAtLeast(actor.role, 'admin')) error(403, 'Only admins can read the audit log.');
 	const who = alias(schema.user, 'who');
 	const where: SQL[] = [];

@@ -4,8 +4,11 @@ import { env } from '$env/dynamic/private';
 import { db, type Tx } from './db';
 import * as schema from './db/schema';
 import { deleteObjects, putObject } from './storage';
-import type { ApiErrorCode } from './api';
+import { FieldError } from './http/upload';
+import type { Actor } from './actor';
+import { afterContentChange } from './builds/editable';
 import { photoSrcset, photoUrl, type PhotoView } from '$lib/media';
+import { isUuid } from '$lib/uuid';
 
 export { photoSrcset, photoUrl, type PhotoView };
 
@@ -43,17 +46,9 @@ export function photoMaxPixels(): number {
 	return Number.isFinite(n) && n > 0 ? Math.floor(n) : DEFAULT_PHOTO_MAX_PIXELS;
 }
 
-/** A refusal the maker can act on; `status` and `code` map straight onto the API envelope. */
-export class PhotoError extends Error {
-	constructor(
-		readonly status: 400 | 404 | 413 | 415 | 422,
-		readonly code: ApiErrorCode,
-		message: string,
-		readonly path: string = 'file'
-	) {
-		super(message);
-		this.name = 'PhotoError';
-	}
+/** A refusal about a photo the maker can act on; `status`, `code` and `path` map straight onto the API envelope. */
+export class PhotoError extends FieldError {
+	override name = 'PhotoError';
 }
 
 export type ImageFormat = 'jpeg' | 'png' | 'webp';
@@ -256,6 +251,8 @@ export interface StorePhotoInput {
 	 * transaction). If the caller's transaction later rolls back, the objects stay behind.
 	 */
 	tx?: Tx;
+	/** The member adding it to the build's content: the change is recorded (afterContentChange) with the row. */
+	changedBy?: Actor;
 }
 
 /**
@@ -338,6 +335,7 @@ export async function processAndStorePhoto(input: StorePhotoInput): Promise<sche
 					previousCover = old ?? null;
 				}
 			}
+			if (input.changedBy) await afterContentChange(tx, input.buildId, input.changedBy);
 			return inserted;
 		});
 		if (previousCover) {
@@ -352,12 +350,16 @@ export async function processAndStorePhoto(input: StorePhotoInput): Promise<sche
 	}
 }
 
-/** Delete one photo: its row first (and any cover reference to it), then its objects. Returns the deleted row or null. */
-export async function deletePhoto(photoId: string): Promise<schema.Photo | null> {
+/**
+ * Delete one photo: its row first (and any cover reference to it), then its objects. With `changedBy`, the
+ * change to the build's content is recorded (afterContentChange) with the row. Returns the deleted row or null.
+ */
+export async function deletePhoto(photoId: string, changedBy?: Actor): Promise<schema.Photo | null> {
 	const row = await db.transaction(async (tx) => {
 		const [deleted] = await tx.delete(schema.photo).where(eq(schema.photo.id, photoId)).returning();
 		if (deleted) {
 			await tx.update(schema.build).set({ coverPhotoId: null }).where(eq(schema.build.coverPhotoId, photoId));
+			if (changedBy && deleted.buildId) await afterContentChange(tx, deleted.buildId, changedBy);
 		}
 		return deleted ?? null;
 	});
@@ -418,25 +420,36 @@ export async function renderIllustration(svg: string): Promise<Buffer> {
 	return sharp(Buffer.from(svg, 'utf8')).flatten({ background: '#f7f2e8' }).jpeg({ quality: 88 }).toBuffer();
 }
 
-/** The few build columns the photo routes need, found by slug; null when there is no such build. */
-export async function findBuildForPhotos(slug: string) {
-	const [b] = await db
-		.select({
-			id: schema.build.id,
-			slug: schema.build.slug,
-			ownerId: schema.build.ownerId,
-			status: schema.build.status,
-			locked: schema.build.locked,
-			lockedReason: schema.build.lockedReason,
-			coverPhotoId: schema.build.coverPhotoId
-		})
-		.from(schema.build)
-		.where(eq(schema.build.slug, slug));
-	return b ?? null;
-}
-
 /** One photo row, or null. */
 export async function findPhoto(photoId: string): Promise<schema.Photo | null> {
 	const [row] = await db.select().from(schema.photo).where(eq(schema.photo.id, photoId));
 	return row ?? null;
+}
+
+/** What a maker adds to a build (the route has parsed the upload). */
+export interface NewBuildPhoto {
+	bytes: Uint8Array;
+	alt: string;
+	/** The step it belongs to; none for the cover. */
+	stepId?: string;
+	asCover: boolean;
+}
+
+/**
+ * Add a photo to `build` (which `actor` may edit: see requireEditableBuild) and record the change to the
+ * build's content in the same transaction. → the new row.
+ */
+export async function addBuildPhoto(actor: Actor, build: Pick<schema.Build, 'id' | 'ownerId'>, photo: NewBuildPhoto): Promise<schema.Photo> {
+	return processAndStorePhoto({ ...photo, ownerId: build.ownerId, buildId: build.id, changedBy: actor });
+}
+
+/**
+ * Delete photo `photoId` of `build` (which `actor` may edit) and record the change; 404 when it is not a
+ * photo of this build. → the deleted photo's id.
+ */
+export async function removeBuildPhoto(actor: Actor, build: Pick<schema.Build, 'id'>, photoId: string): Promise<string> {
+	const row = isUuid(photoId) ? await findPhoto(photoId) : null;
+	if (!row || row.buildId !== build.id) throw new PhotoError(404, 'not_found', 'That photo is not part of this build (it may already be deleted).', 'id');
+	await deletePhoto(row.id, actor);
+	return row.id;
 }

@@ -7,7 +7,7 @@ import { RateLimiterDrizzle, RateLimiterMemory, RateLimiterRes } from 'rate-limi
 import { env } from '$env/dynamic/private';
 import { db } from './db';
 import { apiRateLimit } from './db/schema';
-import { apiError } from './api';
+import { apiError } from './http';
 
 /** Default budget: this many writes per member (or per address when signed out) per window. */
 export const WRITE_POINTS_DEFAULT = 60;

@@ -9,10 +9,13 @@ import { ZodError } from 'zod';
 import * as schema from './db/schema';
 import type { StoredCheck } from './db/schema';
 import { db, type Tx } from './db';
-import { assertCanEdit, inTx, lockBuild, recordRevision, refreshSearchText, type Actor, type DbLike } from './builds';
+import { inTx, type DbLike } from './db/tx';
+import type { Actor } from './actor';
+import { afterContentChange, assertCanEdit, lockBuild } from './builds';
 import { InputRangeError } from '$lib/engineering';
 import { isSpecKind, runSpec, specSchemas, SPEC_KINDS, type SpecKind } from '$lib/specs';
 import { refreshBuildChecks } from './parts/checks';
+import { isUuid } from '$lib/uuid';
 
 /** One problem with one field of a block: `path` is a dot path into the block's data ("device.dropoutV"). */
 export interface SpecIssue {
@@ -92,11 +95,10 @@ export type SaveSpecResult =
 	| { ok: true; id: string; derived: Record<string, unknown>; checks: StoredCheck[]; revision: number | null }
 	| { ok: false; issues: SpecIssue[] };
 
-const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
 /** The block `blockId` of build `buildId`, locked for update; 404 when it is not this build's. */
 async function ownBlock(t: Tx, buildId: string, blockId: string): Promise<schema.SpecBlock> {
-	if (!UUID.test(blockId)) error(404, 'No such spec block on this build.');
+	if (!isUuid(blockId)) error(404, 'No such spec block on this build.');
 	const [row] = await t
 		.select()
 		.from(schema.specBlock)
@@ -106,13 +108,10 @@ async function ownBlock(t: Tx, buildId: string, blockId: string): Promise<schema
 	return row;
 }
 
-/** After any block change: cross checks and parts checks, search text, updatedAt, and a revision when published. */
+/** After any block change: cross checks and parts checks, then what follows every content change. */
 async function afterChange(t: Tx, buildId: string, actor: Actor): Promise<number | null> {
 	await refreshBuildChecks(t, buildId);
-	await refreshSearchText(t, buildId);
-	await t.update(schema.build).set({ updatedAt: new Date() }).where(eq(schema.build.id, buildId));
-	const rev = await recordRevision(t, buildId, actor.id);
-	return rev?.number ?? null;
+	return afterContentChange(t, buildId, actor);
 }
 
 /**

@@ -2,10 +2,11 @@ import { fail } from '@sveltejs/kit';
 import { superValidate, message } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { requireUser } from '$lib/server/auth';
-import { runAction } from '$lib/server/builds';
 import { fileReport } from '$lib/server/moderation';
 import { reportSchema } from '$lib/schemas/review';
 import type { Actions, PageServerLoad } from './$types';
+import { actorOf } from '$lib/server/actor';
+import { attempt } from '$lib/server/http';
 
 /** Report a build (?kind=build&id=slug), a comment (?kind=comment&id=…) or a member (?kind=member&id=handle). */
 export const load: PageServerLoad = async ({ url }) => {
@@ -24,16 +25,14 @@ export const load: PageServerLoad = async ({ url }) => {
 
 export const actions: Actions = {
 	default: async ({ request }) => {
-		const user = requireUser();
+		const actor = actorOf(requireUser());
 		const form = await superValidate(request, zod4(reportSchema));
 		if (!form.valid) return fail(400, { form });
-		const r = await runAction(() => fileReport({ id: user.id, role: user.role as string }, form.data));
-		if (!('id' in r)) {
-			return message(form, { sent: false, text: (r.data as { error?: string }).error ?? 'The report was not sent.' }, { status: r.status as 422 });
-		}
+		const r = await attempt(() => fileReport(actor, form.data));
+		if (!r.ok) return message(form, { sent: false, text: r.error }, { status: r.status as 422 });
 		return message(form, {
 			sent: true,
-			text: r.duplicate ? 'You have already reported this; the moderators have it in their queue.' : 'Thank you. The moderators have your report.'
+			text: r.value.duplicate ? 'You have already reported this; the moderators have it in their queue.' : 'Thank you. The moderators have your report.'
 		});
 	}
 };

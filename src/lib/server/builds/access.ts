@@ -2,13 +2,7 @@
 import { error } from '@sveltejs/kit';
 import { roleAtLeast } from '$lib/roles';
 import type { Build } from '../db/schema';
-
-/** The member acting or looking: their id and role. null when signed out. */
-export interface Actor {
-	id: string;
-	role?: string | null;
-}
-export type Viewer = Actor | null | undefined;
+import type { Actor, Viewer } from '../actor';
 
 type BuildAccess = Pick<Build, 'ownerId' | 'status' | 'locked' | 'lockedReason'>;
 

@@ -14,9 +14,10 @@ import { getReviewState, reviewLabelCondition, reviewStateJson } from '../review
 import { CATEGORY_LABELS, TOPOLOGY_LABELS, labelOf } from '$lib/labels';
 import { CATEGORIES, TOPOLOGIES } from '$lib/schemas/build';
 import { LIST_SORTS, REVIEW_FILTERS, type ListSort } from '$lib/schemas/list';
-import type { Viewer } from './access';
+import type { Viewer } from '../actor';
 import { getMaker, loadBuildContent, loadLineage, requireVisibleBuild, type LineageLink } from './queries';
-import type { DbLike } from './tx';
+import type { DbLike } from '../db/tx';
+import { isUuid } from '$lib/uuid';
 
 export const LIST_LIMIT_DEFAULT = 20;
 export const LIST_LIMIT_MAX = 100;
@@ -63,7 +64,6 @@ export interface ListCursor {
 }
 
 const CURSOR_TS = /^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}:\d{2}\.\d{6}$/;
-const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 const isTs = (v: string) => CURSOR_TS.test(v) && !Number.isNaN(Date.parse(`${v.slice(0, 23)}Z`));
 
 /** What each key of a sort must look like in a cursor (checked before it reaches SQL). */
@@ -86,7 +86,7 @@ export function decodeCursor(text: string): ListCursor | null {
 		const v = JSON.parse(Buffer.from(text, 'base64url').toString('utf8')) as { s?: unknown; k?: unknown; i?: unknown };
 		if (!v || typeof v !== 'object' || Array.isArray(v)) return null;
 		const sort = v.s as ListSort;
-		if (!LIST_SORTS.includes(sort) || typeof v.i !== 'string' || !UUID.test(v.i) || !Array.isArray(v.k)) return null;
+		if (!LIST_SORTS.includes(sort) || typeof v.i !== 'string' || !isUuid(v.i) || !Array.isArray(v.k)) return null;
 		const shapes = KEY_SHAPES[sort];
 		if (v.k.length !== shapes.length || !v.k.every((k, n) => typeof k === 'string' && shapes[n](k))) return null;
 		return { sort, keys: v.k as string[], id: v.i.toLowerCase() };

@@ -4,10 +4,10 @@ import { asc, eq, sql } from 'drizzle-orm';
 import * as schema from '../db/schema';
 import type { Tx } from '../db';
 import { TITLE_MAX, type BuildInput } from '$lib/schemas/build';
-import type { Actor } from './access';
+import type { Actor } from '../actor';
 import { createDraft, lockBuild } from './edit';
 import { refreshSearchText } from './search';
-import { inTx } from './tx';
+import { inTx } from '../db/tx';
 
 /** Title of a derived draft: the origin's, marked, within TITLE_MAX. "Quiet class A amp" → "Quiet class A amp (derived)". */
 export function derivedTitle(originTitle: string): string {

@@ -5,11 +5,12 @@ import * as schema from '../db/schema';
 import type { Tx } from '../db';
 import { recordAudit } from '../audit';
 import { buildSchema, type BuildInput } from '$lib/schemas/build';
-import { assertCanEdit, canLock, type Actor } from './access';
+import type { Actor } from '../actor';
+import { assertCanEdit, canLock } from './access';
 import { nextFreeSlug, slugify } from './slug';
 import { recordRevision } from './revisions';
 import { refreshSearchText } from './search';
-import { inTx, pgCode } from './tx';
+import { inTx, pgCode } from '../db/tx';
 
 /** Load a build by id for a change, locking its row until the transaction ends; 404 when absent. */
 export async function lockBuild(tx: Tx, buildId: string): Promise<schema.Build> {

@@ -12,5 +12,4 @@ export * from './steps';
 export * from './derive';
 export * from './queries';
 export * from './api';
-export { inTx, type DbLike } from './tx';
-export { runAction } from './actions';
+export * from './editable';

@@ -5,9 +5,10 @@ import { alias } from 'drizzle-orm/pg-core';
 import * as schema from '../db/schema';
 import { db } from '../db';
 import { toPhotoView } from '../photos';
-import { assertCanView, canView, type Viewer } from './access';
+import type { Viewer } from '../actor';
+import { assertCanView, canView } from './access';
 import { isSlugShaped } from './slug';
-import type { DbLike } from './tx';
+import type { DbLike } from '../db/tx';
 
 /** The build row with this slug, or null (no visibility check: callers decide). */
 export async function getBuildBySlug(slug: string, dbx: DbLike = db): Promise<schema.Build | null> {

@@ -7,7 +7,7 @@ import * as schema from '../db/schema';
 import type { Tx } from '../db';
 import { db } from '../db';
 import { diffSnapshots, summarize, type BuildSnapshot } from './snapshot';
-import type { DbLike } from './tx';
+import type { DbLike } from '../db/tx';
 
 /** Read the build's current content into a snapshot (in the caller's transaction, to see its writes). */
 export async function takeSnapshot(tx: DbLike, buildId: string): Promise<BuildSnapshot> {
@@ -76,12 +76,14 @@ export async function takeSnapshot(tx: DbLike, buildId: string): Promise<BuildSn
  * `build.revision` and stores the snapshot with its diff summary. Does nothing (returns null) for drafts
  * and archived builds, and when nothing a reader would see changed since the last revision, so an
  * idle "Save" does not make a reviewed revision look outdated. Parts and spec-block editors call this
- * after their own saves. → { number: 3, summary: '1 step changed, parts: 1 added' }
+ * after their own saves. `note`, when given, is stored as the summary instead of the computed one.
+ * → { number: 3, summary: '1 step changed, parts: 1 added' }
  */
 export async function recordRevision(
 	tx: Tx,
 	buildId: string,
-	authorId: string | null
+	authorId: string | null,
+	note?: string
 ): Promise<{ number: number; summary: string } | null> {
 	// Lock the build row: two saves at once must not both take the same number.
 	const [b] = await tx.select().from(schema.build).where(eq(schema.build.id, buildId)).for('update');
@@ -96,7 +98,7 @@ export async function recordRevision(
 	const prev = (last?.snapshot as unknown as BuildSnapshot | undefined) ?? null;
 	if (prev && diffSnapshots(prev, snapshot).length === 0) return null;
 	const number = Math.max(b.revision, last?.number ?? 0) + 1;
-	const summary = summarize(prev, snapshot);
+	const summary = note?.trim() || summarize(prev, snapshot);
 	await tx.insert(schema.buildRevision).values({
 		buildId,
 		number,

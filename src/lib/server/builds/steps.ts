@@ -7,19 +7,11 @@ import { renderMarkdown } from '../markdown';
 import { photoObjectKeys } from '../photos';
 import { deleteObjects } from '../storage';
 import { stepSchema, type StepInput } from '$lib/schemas/build';
-import { assertCanEdit, type Actor } from './access';
+import type { Actor } from '../actor';
+import { assertCanEdit } from './access';
+import { afterContentChange } from './editable';
 import { lockBuild } from './edit';
-import { recordRevision } from './revisions';
-import { refreshSearchText } from './search';
-import { inTx } from './tx';
-
-/** After any change to a build's content: search text, updatedAt, and a revision if it is published. */
-export async function afterContentChange(tx: Tx, buildId: string, authorId: string): Promise<number | null> {
-	await refreshSearchText(tx, buildId);
-	await tx.update(schema.build).set({ updatedAt: new Date() }).where(eq(schema.build.id, buildId));
-	const rev = await recordRevision(tx, buildId, authorId);
-	return rev?.number ?? null;
-}
+import { inTx } from '../db/tx';
 
 /** The step and its build (row-locked), checking that `actor` may edit; 404 when the step is gone. */
 async function stepForEdit(tx: Tx, actor: Actor, stepId: string, buildId?: string) {
@@ -45,7 +37,7 @@ export async function addStep(actor: Actor, buildId: string, input: StepInput, t
 			.insert(schema.buildStep)
 			.values({ buildId, position: next, title: data.title, bodyMd: data.bodyMd, bodyHtml })
 			.returning({ id: schema.buildStep.id, position: schema.buildStep.position });
-		await afterContentChange(t, buildId, actor.id);
+		await afterContentChange(t, buildId, actor);
 		return row;
 	});
 }
@@ -61,7 +53,7 @@ export async function updateStep(actor: Actor, stepId: string, input: StepInput,
 			.update(schema.buildStep)
 			.set({ title: data.title, bodyMd: data.bodyMd, bodyHtml, updatedAt: new Date() })
 			.where(eq(schema.buildStep.id, stepId));
-		await afterContentChange(t, step.buildId, actor.id);
+		await afterContentChange(t, step.buildId, actor);
 	});
 }
 
@@ -81,7 +73,7 @@ export async function deleteStep(actor: Actor, stepId: string, tx?: Tx, buildId?
 			.update(schema.buildStep)
 			.set({ position: sql`${schema.buildStep.position} - 1` })
 			.where(and(eq(schema.buildStep.buildId, step.buildId), gt(schema.buildStep.position, step.position)));
-		await afterContentChange(t, step.buildId, actor.id);
+		await afterContentChange(t, step.buildId, actor);
 		return gone;
 	});
 	if (photos.length) {
@@ -114,7 +106,7 @@ export async function moveStep(actor: Actor, stepId: string, direction: 'up' | '
 			if (was.get(ids[i]) === i) continue;
 			await t.update(schema.buildStep).set({ position: i }).where(eq(schema.buildStep.id, ids[i]));
 		}
-		await afterContentChange(t, step.buildId, actor.id);
+		await afterContentChange(t, step.buildId, actor);
 		return to;
 	});
 }

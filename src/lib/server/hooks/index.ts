@@ -2,7 +2,7 @@ import type { Handle } from '@sveltejs/kit';
 import { svelteKitHandler, isAuthPath } from 'better-auth/svelte-kit';
 import { building } from '$app/environment';
 import { auth, CLIENT_ADDRESS_HEADER } from '../auth';
-import { apiError, type ApiErrorCode } from '../api';
+import { apiError, codeForStatus } from '../http';
 
 /** Resolve the session once per request into locals, then let better-auth serve /api/auth/*. */
 export const handleAuth: Handle = async ({ event, resolve }) => {
@@ -24,19 +24,6 @@ export const handleAuth: Handle = async ({ event, resolve }) => {
 	return svelteKitHandler({ event, resolve, auth, building });
 };
 
-const codeFor: Record<number, ApiErrorCode> = {
-	400: 'invalid',
-	401: 'unauthenticated',
-	403: 'forbidden',
-	404: 'not_found',
-	405: 'method_not_allowed',
-	409: 'conflict',
-	413: 'too_large',
-	422: 'invalid',
-	429: 'rate_limited',
-	503: 'unavailable'
-};
-
 /**
  * Every /api/v1 error answers with the one JSON envelope of API.md, also when it was raised by
  * `error()` in a guard or by SvelteKit itself (unknown route, wrong method).
@@ -49,7 +36,7 @@ export const handleApiEnvelope: Handle = async ({ event, resolve }) => {
 		const body = await response.clone().json().catch(() => null);
 		if (body && typeof body === 'object' && 'error' in body) return response;
 		const message = (body as { message?: string } | null)?.message ?? response.statusText;
-		return apiError(response.status, codeFor[response.status] ?? 'internal', message || 'Request failed.');
+		return apiError(response.status, codeForStatus(response.status), message || 'Request failed.');
 	}
 	const status = response.status;
 	const message =
@@ -57,7 +44,7 @@ export const handleApiEnvelope: Handle = async ({ event, resolve }) => {
 	const headers = new Headers();
 	const allow = response.headers.get('allow');
 	if (allow) headers.set('allow', allow);
-	return apiError(status, codeFor[status] ?? 'internal', message, [], headers);
+	return apiError(status, codeForStatus(status), message, [], headers);
 };
 
 /** Conservative security headers on every response. */

@@ -6,7 +6,9 @@
 import { asc, eq } from 'drizzle-orm';
 import * as schema from '../db/schema';
 import { db, type Tx } from '../db';
-import { assertCanEdit, inTx, lockBuild, recordRevision, refreshSearchText, type Actor, type DbLike } from '../builds';
+import { inTx, type DbLike } from '../db/tx';
+import type { Actor } from '../actor';
+import { afterContentChange, assertCanEdit, lockBuild } from '../builds';
 import { lineToDraft, normaliseLines, type LineError, type NormalisedPartLine, type PartLineDraft } from '$lib/parts';
 import { placeCrossChecks, railFromBlocks } from './checks';
 import { previewPartsCsv, type ImportPreview } from './preview';
@@ -71,10 +73,8 @@ export async function savePartsList(
 		);
 		if (!result.ok) return { ok: false as const, errors: result.errors };
 		await writeLines(t, buildId, blocks, result.lines);
-		await refreshSearchText(t, buildId);
-		await t.update(schema.build).set({ updatedAt: new Date() }).where(eq(schema.build.id, buildId));
-		const rev = await recordRevision(t, buildId, actor.id);
-		return { ok: true as const, count: result.lines.length, revision: rev?.number ?? null };
+		const revision = await afterContentChange(t, buildId, actor);
+		return { ok: true as const, count: result.lines.length, revision };
 	});
 }
 
@@ -151,4 +151,3 @@ export async function importPartsCsv(
 		return saved;
 	});
 }
-export { requireEditableBuild } from './editable';

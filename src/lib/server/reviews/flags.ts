@@ -13,17 +13,13 @@ import { db, type Tx } from '../db';
 import { renderMarkdown } from '../markdown';
 import { recordAudit } from '../audit';
 import { notifyFlag } from '../notifications';
-import { inTx } from '../builds/tx';
+import { inTx } from '../db/tx';
+import type { Actor } from '../actor';
 import { roleAtLeast } from '$lib/roles';
 import { addressFlagSchema, raiseFlagSchema, type RaiseFlagInput } from '$lib/schemas/review';
 import type { FlagState } from '$lib/reviews';
 import { requireTarget } from './targets';
 
-export interface Actor {
-	id: string;
-	role?: string | null;
-	name?: string;
-}
 
 type BuildForReview = Pick<schema.Build, 'id' | 'ownerId' | 'status' | 'slug' | 'title' | 'revision'>;
 

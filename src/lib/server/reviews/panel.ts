@@ -1,4 +1,5 @@
 /** Everything the build page's review panel shows, and what the viewer may do there. */
+import type { Viewer } from '../actor';
 import { asc, desc, eq } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/pg-core';
 import * as schema from '../db/schema';
@@ -20,7 +21,7 @@ const STATE_ORDER: Record<string, number> = { open: 0, addressed: 1, resolved: 2
  */
 export async function getReviewPanel(
 	buildId: string,
-	viewer: { id: string; role?: string | null } | null | undefined
+	viewer: Viewer
 ): Promise<ReviewPanelData> {
 	const [b] = await db
 		.select({

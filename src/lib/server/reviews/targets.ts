@@ -3,7 +3,7 @@ import { and, asc, eq } from 'drizzle-orm';
 import { error } from '@sveltejs/kit';
 import * as schema from '../db/schema';
 import { db } from '../db';
-import type { DbLike } from '../builds/tx';
+import type { DbLike } from '../db/tx';
 import type { FlagTargetKind } from '$lib/reviews';
 import { KIND_LABELS } from '$lib/components/specs/display';
 

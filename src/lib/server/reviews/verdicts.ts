@@ -10,9 +10,10 @@ import type { Tx } from '../db';
 import { renderMarkdown } from '../markdown';
 import { recordAudit } from '../audit';
 import { notifyReview } from '../notifications';
-import { inTx } from '../builds/tx';
+import { inTx } from '../db/tx';
 import { reviewSchema, type ReviewInput } from '$lib/schemas/review';
-import { assertCanReview, reviewerName, type Actor, type WriteOptions } from './flags';
+import type { Actor } from '../actor';
+import { assertCanReview, reviewerName, type WriteOptions } from './flags';
 
 /**
  * The maker asks for review of their published build: it joins the review desk (oldest request first).

@@ -18,7 +18,7 @@ export async function testBuild(ownerId: string, { published = false } = {}): Pr
 		licence: 'CC-BY-SA-4.0'
 	});
 	if (published) {
-		const actor = { id: ownerId, role: 'maker' };
+		const actor = { id: ownerId, role: 'maker' as const };
 		await addStep(actor, id, { title: 'Boards', bodyMd: 'Populate the boards.' });
 		await publish(actor, id);
 	}

@@ -1,5 +1,6 @@
 // Integration-test helpers for review, flags, comments and moderation: a published build with a heatsink
 // step, a supply spec block and a parts list, made through the real domain modules.
+import { actorOf } from '../actor';
 import { sql } from 'drizzle-orm';
 import { db } from '../db';
 import { addStep, createDraft, publish } from '../builds';
@@ -40,7 +41,7 @@ export interface TestBuild {
  * a maker would leave it.
  */
 export async function createPublishedBuild(owner: { id: string; role?: string }, title = uniqueTitle('Review test amp')): Promise<TestBuild> {
-	const actor = { id: owner.id, role: owner.role ?? 'maker' };
+	const actor = actorOf(owner);
 	const { id, slug } = await createDraft(owner.id, {
 		title,
 		summary: 'A stereo chip amp for review tests.',

@@ -4,11 +4,12 @@ import { requireRole } from '$lib/server/auth';
 import { listMembers, setRole, setSuspended } from '$lib/server/members';
 import { ROLES, assignableRoles } from '$lib/roles';
 import type { Actions, PageServerLoad } from './$types';
+import { actorOf } from '$lib/server/actor';
 
 export const load: PageServerLoad = async ({ url }) => {
-	const actor = requireRole('moderator');
+	const actor = actorOf(requireRole('moderator'));
 	const q = url.searchParams.get('q') ?? '';
-	return { q, members: await listMembers(q), assignable: assignableRoles(actor.role as string), me: actor.id };
+	return { q, members: await listMembers(q), assignable: assignableRoles(actor.role), me: actor.id };
 };
 
 const roleForm = z.object({ userId: z.string().min(1), role: z.enum(ROLES), reason: z.string().max(500).default('') });
@@ -17,24 +18,24 @@ const restoreForm = z.object({ userId: z.string().min(1), reason: z.string().max
 
 export const actions: Actions = {
 	setRole: async ({ request }) => {
-		const actor = requireRole('moderator');
+		const actor = actorOf(requireRole('moderator'));
 		const parsed = roleForm.safeParse(Object.fromEntries(await request.formData()));
 		if (!parsed.success) return fail(400, { error: 'Choose a valid role.' });
-		await setRole({ id: actor.id, role: actor.role as string }, parsed.data.userId, parsed.data.role, parsed.data.reason);
+		await setRole(actor, parsed.data.userId, parsed.data.role, parsed.data.reason);
 		return { ok: 'Role changed.' };
 	},
 	suspend: async ({ request }) => {
-		const actor = requireRole('moderator');
+		const actor = actorOf(requireRole('moderator'));
 		const parsed = suspendForm.safeParse(Object.fromEntries(await request.formData()));
 		if (!parsed.success) return fail(400, { error: parsed.error.issues[0].message, userId: null });
-		await setSuspended({ id: actor.id, role: actor.role as string }, parsed.data.userId, true, parsed.data.reason);
+		await setSuspended(actor, parsed.data.userId, true, parsed.data.reason);
 		return { ok: 'Member suspended; their sessions have ended.' };
 	},
 	restore: async ({ request }) => {
-		const actor = requireRole('moderator');
+		const actor = actorOf(requireRole('moderator'));
 		const parsed = restoreForm.safeParse(Object.fromEntries(await request.formData()));
 		if (!parsed.success) return fail(400, { error: 'Invalid request.' });
-		await setSuspended({ id: actor.id, role: actor.role as string }, parsed.data.userId, false, parsed.data.reason);
+		await setSuspended(actor, parsed.data.userId, false, parsed.data.reason);
 		return { ok: 'Member restored.' };
 	}
 };

@@ -11,16 +11,18 @@ import {
 	isOwner,
 	publish,
 	getBuildBySlug,
-	runAction,
 	setLocked
 } from '$lib/server/builds';
 import { getFlagMarkers, getReviewPanel } from '$lib/server/reviews';
 import { listComments } from '$lib/server/comments';
 import { isOnBench } from '$lib/server/bench';
 import type { Actions, PageServerLoad } from './$types';
+import { actorOf } from '$lib/server/actor';
+import { attempt } from '$lib/server/http';
 
 export const load: PageServerLoad = async ({ params, locals, url }) => {
-	const viewer = locals.user;
+	const viewer = actorOf(locals.user);
+	const user = locals.user;
 	const page = await getBuildPage(params.slug, viewer);
 	const b = page.build;
 	const [review, flagMarkers, comments, saved] = await Promise.all([
@@ -34,7 +36,7 @@ export const load: PageServerLoad = async ({ params, locals, url }) => {
 		saved,
 		flagMarkers: Object.fromEntries(flagMarkers) as Record<string, number>,
 		comments,
-		viewer: viewer ? { id: viewer.id, name: viewer.name, handle: viewer.handle ?? null, role: (viewer.role as string) ?? 'maker' } : null,
+		viewer: user && viewer ? { id: user.id, name: user.name, handle: user.handle ?? null, role: viewer.role } : null,
 		build: {
 			id: b.id,
 			slug: b.slug,
@@ -78,34 +80,34 @@ async function found(slug: string) {
 
 export const actions: Actions = {
 	publish: async ({ params }) => {
-		const user = requireUser();
+		const actor = actorOf(requireUser());
 		const b = await found(params.slug);
-		const r = await runAction(() => publish(user, b.id));
-		if (typeof r !== 'number') return r;
-		return { ok: `Published as r${r}.` };
+		const r = await attempt(() => publish(actor, b.id));
+		if (!r.ok) return r.failure;
+		return { ok: `Published as r${r.value}.` };
 	},
 	archive: async ({ params }) => {
-		const user = requireUser();
+		const actor = actorOf(requireUser());
 		const b = await found(params.slug);
-		const r = await runAction(() => archive(user, b.id));
-		if (r) return r;
+		const r = await attempt(() => archive(actor, b.id));
+		if (!r.ok) return r.failure;
 		return { ok: 'Archived: it has left the lists but stays readable here.' };
 	},
 	derive: async ({ params }) => {
-		const user = requireUser();
+		const actor = actorOf(requireUser());
 		const b = await found(params.slug);
-		const r = await runAction(() => derive(user, b.id));
-		if (!('slug' in r)) return r;
-		redirect(303, `/builds/${r.slug}/edit?derived=1`);
+		const r = await attempt(() => derive(actor, b.id));
+		if (!r.ok) return r.failure;
+		redirect(303, `/builds/${r.value.slug}/edit?derived=1`);
 	},
 	lock: async ({ params, request }) => {
-		const user = requireUser();
+		const actor = actorOf(requireUser());
 		const b = await found(params.slug);
 		const form = await request.formData();
 		const parsed = lockSchema.safeParse({ locked: form.get('locked') === 'true', reason: form.get('reason') ?? '' });
 		if (!parsed.success) return fail(400, { error: parsed.error.issues[0].message });
-		const r = await runAction(() => setLocked(user, b.id, parsed.data.locked, parsed.data.reason));
-		if (r) return r;
+		const r = await attempt(() => setLocked(actor, b.id, parsed.data.locked, parsed.data.reason));
+		if (!r.ok) return r.failure;
 		return { ok: parsed.data.locked ? 'Build locked. Its maker sees your reason.' : 'Build unlocked.' };
 	}
 };

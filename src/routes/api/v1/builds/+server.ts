@@ -1,5 +1,5 @@
 import { json } from '@sveltejs/kit';
-import { apiError, methodNotAllowed, queryObject, zodErrorResponse } from '$lib/server/api';
+import { apiError, methodNotAllowed, queryObject, zodErrorResponse } from '$lib/server/http';
 import { encodeCursor, listQuerySchema, queryBuilds, serializeListItem } from '$lib/server/builds';
 import { getReviewStates, reviewStateJson } from '$lib/server/reviews/state';
 import { highlightBuilds } from '$lib/server/search';

@@ -1,5 +1,5 @@
 import { json } from '@sveltejs/kit';
-import { methodNotAllowed } from '$lib/server/api';
+import { methodNotAllowed } from '$lib/server/http';
 import { openApiDocument } from '$lib/server/openapi';
 import type { RequestHandler } from './$types';
 

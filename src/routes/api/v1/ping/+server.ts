@@ -1,5 +1,5 @@
 import type { RequestHandler } from './$types';
-import { methodNotAllowed } from '$lib/server/api';
+import { methodNotAllowed } from '$lib/server/http';
 
 /**
  * GET /api/v1/ping — a static string and nothing else: a liveness probe for load balancers, and the

@@ -3,7 +3,7 @@ import { json } from '@sveltejs/kit';
 import { ZodError } from 'zod';
 import { runSpec } from '$lib/specs';
 import { specCheckInput } from '$lib/schemas/tools';
-import { apiError, methodNotAllowed, rangeErrorResponse, readJson, zodErrorResponse } from '$lib/server/api';
+import { apiError, methodNotAllowed, rangeErrorResponse, readJson, zodErrorResponse } from '$lib/server/http';
 
 /**
  * POST /api/v1/spec-check — `{ kind, data }` → `{ derived, checks }` (API.md). The block is validated by its

@@ -1,8 +1,9 @@
 import { json, redirect } from '@sveltejs/kit';
 import type { RequestHandler } from './$types';
-import { requireUser } from '$lib/server/auth';
-import { backTo, editableBuild, isUuid, notePhotoRevision, photoRoute, wantsHtml } from '$lib/server/photo-http';
-import { PhotoError, checkAlt, photoMaxBytes, processAndStorePhoto, toPhotoView } from '$lib/server/photos';
+import { requireEditableBuild } from '$lib/server/builds';
+import { backTo, uploadRoute, wantsHtml } from '$lib/server/http';
+import { PhotoError, addBuildPhoto, checkAlt, photoMaxBytes, toPhotoView } from '$lib/server/photos';
+import { isUuid } from '$lib/uuid';
 
 /** Multipart overhead allowed on top of the photo itself (boundaries, the alt text, the other fields). */
 const FORM_OVERHEAD = 64 * 1024;
@@ -16,11 +17,10 @@ export const POST: RequestHandler = async ({ request, params, locals, url }) => 
 	const back = backTo(request, url.origin, `/builds/${params.slug}/edit`);
 	if (!locals.user && html) redirect(303, `/sign-in?next=${encodeURIComponent(back)}`);
 
-	return photoRoute(
+	return uploadRoute(
 		request,
 		async () => {
-			const user = requireUser();
-			const b = await editableBuild(params.slug, user);
+			const { actor, build } = await requireEditableBuild(params.slug);
 
 			const max = photoMaxBytes();
 			const declared = Number(request.headers.get('content-length') ?? 0);
@@ -53,15 +53,12 @@ export const POST: RequestHandler = async ({ request, params, locals, url }) => 
 			}
 			const alt = checkAlt(form.get('alt'));
 			// The pipeline checks size, content and pixels again on the bytes themselves.
-			const row = await processAndStorePhoto({
-				ownerId: b.ownerId,
-				buildId: b.id,
+			const row = await addBuildPhoto(actor, build, {
 				stepId,
 				bytes: new Uint8Array(await file.arrayBuffer()),
 				alt,
 				asCover: purpose === 'cover'
 			});
-			await notePhotoRevision(b.id, user.id);
 			if (html) redirect(303, back);
 			return json({ photo: toPhotoView(row) }, { status: 201 });
 		},

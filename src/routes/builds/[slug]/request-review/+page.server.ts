@@ -1,12 +1,14 @@
 import { redirect } from '@sveltejs/kit';
 import { requireUser } from '$lib/server/auth';
-import { isOwner, requireVisibleBuild, runAction } from '$lib/server/builds';
+import { isOwner, requireVisibleBuild } from '$lib/server/builds';
 import { getReviewState, requestReview } from '$lib/server/reviews';
 import type { Actions, PageServerLoad } from './$types';
+import { actorOf } from '$lib/server/actor';
+import { attempt } from '$lib/server/http';
 
 /** The maker's confirmation page for asking for review (also where the button lands without JavaScript). */
 export const load: PageServerLoad = async ({ params }) => {
-	const user = requireUser();
+	const user = actorOf(requireUser());
 	const b = await requireVisibleBuild(params.slug, user);
 	const state = await getReviewState(b.id);
 	return {
@@ -18,10 +20,10 @@ export const load: PageServerLoad = async ({ params }) => {
 
 export const actions: Actions = {
 	default: async ({ params }) => {
-		const user = requireUser();
+		const user = actorOf(requireUser());
 		const b = await requireVisibleBuild(params.slug, user);
-		const r = await runAction(() => requestReview(user, b.id));
-		if (r !== 'queued' && r !== 'already-waiting') return r;
+		const r = await attempt(() => requestReview(user, b.id));
+		if (!r.ok) return r.failure;
 		redirect(303, `/builds/${b.slug}#review-state`);
 	}
 };

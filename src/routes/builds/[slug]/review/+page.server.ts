@@ -2,14 +2,16 @@ import { error, fail, redirect } from '@sveltejs/kit';
 import { superValidate, message } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { requireRole } from '$lib/server/auth';
-import { loadBuildContent, requireVisibleBuild, runAction } from '$lib/server/builds';
+import { loadBuildContent, requireVisibleBuild } from '$lib/server/builds';
 import { assertCanReview, getReviewPanel, raiseFlag, submitReview } from '$lib/server/reviews';
 import { raiseFlagSchema, reviewSchema } from '$lib/schemas/review';
 import type { Actions, PageServerLoad } from './$types';
+import { actorOf } from '$lib/server/actor';
+import { attempt } from '$lib/server/http';
 
 /** The build, checked: reviewers and up, never the maker, published only. */
 async function reviewable(slug: string) {
-	const user = requireRole('reviewer');
+	const user = actorOf(requireRole('reviewer'));
 	const b = await requireVisibleBuild(slug, user);
 	assertCanReview(user, b);
 	return { user, b };
@@ -43,21 +45,16 @@ export const actions: Actions = {
 			for (const i of parsed.error.issues) issues[String(i.path[0])] ??= i.message;
 			return fail(400, { flagFailed: { targetId: values.targetId ?? '', message: 'The flag was not raised: check the fields below.', values, issues } });
 		}
-		const r = await runAction(() => raiseFlag({ ...user, name: user.name }, b.id, parsed.data));
-		if (typeof r !== 'string') {
-			const msg = (r.data as { error?: string }).error ?? 'The flag was not raised.';
-			return fail(r.status, { flagFailed: { targetId: parsed.data.targetId, message: msg, values, issues: {} } });
-		}
-		return { flagged: parsed.data.targetId, flagId: r };
+		const r = await attempt(() => raiseFlag(user, b.id, parsed.data));
+		if (!r.ok) return fail(r.status, { flagFailed: { targetId: parsed.data.targetId, message: r.error, values, issues: {} } });
+		return { flagged: parsed.data.targetId, flagId: r.value };
 	},
 	submitReview: async ({ params, request }) => {
 		const { user, b } = await reviewable(params.slug);
 		const form = await superValidate(request, zod4(reviewSchema));
 		if (!form.valid) return fail(400, { form });
-		const r = await runAction(() => submitReview({ ...user, name: user.name }, b.id, form.data));
-		if (!('revision' in r)) {
-			return message(form, (r.data as { error?: string }).error ?? 'The review was not saved.', { status: r.status as 409 });
-		}
+		const r = await attempt(() => submitReview(user, b.id, form.data));
+		if (!r.ok) return message(form, r.error, { status: r.status as 409 });
 		redirect(303, `/builds/${b.slug}#review-state`);
 	}
 };

@@ -1,6 +1,6 @@
 import { json } from '@sveltejs/kit';
 import { requireUser } from '$lib/server/auth';
-import { methodNotAllowed } from '$lib/server/api';
+import { methodNotAllowed } from '$lib/server/http';
 import { setOnBench } from '$lib/server/bench';
 import type { RequestHandler } from './$types';
 

@@ -1,5 +1,5 @@
 import { json } from '@sveltejs/kit';
-import { methodNotAllowed, queryObject, zodErrorResponse } from '$lib/server/api';
+import { methodNotAllowed, queryObject, zodErrorResponse } from '$lib/server/http';
 import { suggestTitles } from '$lib/server/search';
 import { suggestQuery } from '$lib/schemas/search';
 import type { RequestHandler } from './$types';

@@ -1,7 +1,7 @@
 import type { RequestHandler } from './$types';
 import { amplifierOutput } from '$lib/engineering';
 import { amplifierToolInput } from '$lib/schemas/tools';
-import { methodNotAllowed, readJson, toolResponse } from '$lib/server/api';
+import { methodNotAllowed, readJson, toolResponse } from '$lib/server/http';
 
 /** POST /api/v1/tools/amplifier — maximum sine power and class B dissipation (API.md). */
 export const POST: RequestHandler = async ({ request }) => {

@@ -1,7 +1,7 @@
 import type { RequestHandler } from './$types';
 import { rcCornerHz } from '$lib/engineering';
 import { cornerToolInput } from '$lib/schemas/tools';
-import { methodNotAllowed, readJson, toolResponse } from '$lib/server/api';
+import { methodNotAllowed, readJson, toolResponse } from '$lib/server/http';
 
 /** POST /api/v1/tools/corner — first-order RC corner (API.md). */
 export const POST: RequestHandler = async ({ request }) => {

@@ -1,7 +1,7 @@
 import type { RequestHandler } from './$types';
 import { decodeMarking } from '$lib/engineering';
 import { decodeQuery } from '$lib/schemas/tools';
-import { methodNotAllowed, queryObject, toolResponse } from '$lib/server/api';
+import { methodNotAllowed, queryObject, toolResponse } from '$lib/server/http';
 
 /** GET /api/v1/tools/decode?code=…&as=… — read a component marking (API.md); undecodable → 422 at `code`. */
 export const GET: RequestHandler = ({ url }) =>

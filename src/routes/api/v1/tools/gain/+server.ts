@@ -1,7 +1,7 @@
 import type { RequestHandler } from './$types';
 import { nonInvertingGain } from '$lib/engineering';
 import { gainToolInput } from '$lib/schemas/tools';
-import { methodNotAllowed, readJson, toolResponse } from '$lib/server/api';
+import { methodNotAllowed, readJson, toolResponse } from '$lib/server/http';
 
 /** POST /api/v1/tools/gain — non-inverting gain and gain in dB (API.md). */
 export const POST: RequestHandler = async ({ request }) => {

@@ -1,7 +1,7 @@
 import type { RequestHandler } from './$types';
 import { heatsink } from '$lib/engineering';
 import { heatsinkToolInput } from '$lib/schemas/tools';
-import { methodNotAllowed, readJson, toolResponse } from '$lib/server/api';
+import { methodNotAllowed, readJson, toolResponse } from '$lib/server/http';
 
 /** POST /api/v1/tools/heatsink — required heatsink Rθsa and junction temperature (API.md). */
 export const POST: RequestHandler = async ({ request }) => {

@@ -1,7 +1,7 @@
 import type { RequestHandler } from './$types';
 import { networkValue } from '$lib/engineering';
 import { networkToolInput } from '$lib/schemas/tools';
-import { methodNotAllowed, readJson, toolResponse } from '$lib/server/api';
+import { methodNotAllowed, readJson, toolResponse } from '$lib/server/http';
 
 /** POST /api/v1/tools/network — series/parallel combination in SI units (API.md). */
 export const POST: RequestHandler = async ({ request }) => {

@@ -1,7 +1,7 @@
 import type { RequestHandler } from './$types';
 import { bandsFromValue, formatValue, valueFromBands } from '$lib/engineering';
 import { resistorBandsColorsQuery, resistorBandsValueQuery } from '$lib/schemas/tools';
-import { apiError, methodNotAllowed, queryObject, toolResponse } from '$lib/server/api';
+import { apiError, methodNotAllowed, queryObject, toolResponse } from '$lib/server/http';
 
 /**
  * GET /api/v1/tools/resistor-bands — `?valueOhm=4700&tolerancePct=5&bands=4` → { bands, valueOhm, tolerancePct };

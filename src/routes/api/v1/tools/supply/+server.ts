@@ -1,7 +1,7 @@
 import type { RequestHandler } from './$types';
 import { supplyRails } from '$lib/engineering';
 import { supplyToolInput } from '$lib/schemas/tools';
-import { methodNotAllowed, readJson, toolResponse } from '$lib/server/api';
+import { methodNotAllowed, readJson, toolResponse } from '$lib/server/http';
 
 /** POST /api/v1/tools/supply — unloaded rail, ripple and average rail of a capacitor-input supply (API.md). */
 export const POST: RequestHandler = async ({ request }) => {

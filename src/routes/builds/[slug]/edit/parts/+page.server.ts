@@ -1,15 +1,7 @@
 import { fail } from '@sveltejs/kit';
-import { runAction } from '$lib/server/builds';
-import {
-	CSV_MAX_BYTES,
-	buildRailV,
-	importPartsCsv,
-	listPartLines,
-	previewPartsCsv,
-	readPartsCsv,
-	requireEditableBuild,
-	savePartsList
-} from '$lib/server/parts';
+import { requireEditableBuild } from '$lib/server/builds';
+import { attempt } from '$lib/server/http';
+import { CSV_MAX_BYTES, buildRailV, importPartsCsv, listPartLines, previewPartsCsv, readPartsCsv, savePartsList } from '$lib/server/parts';
 import { DRAFT_FIELDS, PARTS_LIMITS, emptyDraft, lineToDraft, type PartLineDraft } from '$lib/parts';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -54,14 +46,15 @@ const modeOf = (data: FormData) => (data.get('mode') === 'append' ? 'append' : '
 export const actions: Actions = {
 	/** Replace the whole list with the editor's rows (all valid, or nothing is saved). */
 	save: async ({ request, params }) => {
-		const { user, build } = await requireEditableBuild(params.slug);
+		const { actor, build } = await requireEditableBuild(params.slug);
 		const rows = postedRows(await request.formData());
 		if (!rows) return fail(400, { error: `The form did not come through whole (at most ${PARTS_LIMITS.lines} lines).` });
-		const result = await runAction(() => savePartsList(user, build.id, rows));
-		if (!('ok' in result)) return result;
-		if (!result.ok) return fail(422, { rows, errors: result.errors });
+		const r = await attempt(() => savePartsList(actor, build.id, rows));
+		if (!r.ok) return r.failure;
+		const saved = r.value;
+		if (!saved.ok) return fail(422, { rows, errors: saved.errors });
 		const fresh = (await listPartLines(build.id)).map(lineToDraft);
-		return { rows: fresh, saved: result.count, revision: result.revision };
+		return { rows: fresh, saved: saved.count, revision: saved.revision };
 	},
 
 	/** Row operations for browsers without JavaScript: add, remove, move. Nothing is saved. */
@@ -92,15 +85,16 @@ export const actions: Actions = {
 
 	/** Save a previewed CSV: validated again on the server; nothing is stored unless every line is valid. */
 	import: async ({ request, params }) => {
-		const { user, build } = await requireEditableBuild(params.slug);
+		const { actor, build } = await requireEditableBuild(params.slug);
 		const data = await request.formData();
 		const csv = await postedCsv(data);
 		if ('error' in csv) return fail(400, { csvError: csv.error, mode: modeOf(data) });
-		const result = await runAction(() => importPartsCsv(user, build.id, csv.text, modeOf(data)));
-		if (!('ok' in result)) return result;
-		if (!result.ok) return fail(422, { preview: result.preview, csvText: csv.text, mode: modeOf(data) });
+		const r = await attempt(() => importPartsCsv(actor, build.id, csv.text, modeOf(data)));
+		if (!r.ok) return r.failure;
+		const imported = r.value;
+		if (!imported.ok) return fail(422, { preview: imported.preview, csvText: csv.text, mode: modeOf(data) });
 		const fresh = (await listPartLines(build.id)).map(lineToDraft);
-		return { rows: fresh, imported: result.count, revision: result.revision };
+		return { rows: fresh, imported: imported.count, revision: imported.revision };
 	},
 
 	/** Put a CSV's lines into the table editor to fix them there (not saved until "Save parts list"). */

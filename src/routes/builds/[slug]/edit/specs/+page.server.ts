@@ -2,8 +2,8 @@ import { fail, redirect } from '@sveltejs/kit';
 import { setError, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { z } from 'zod';
-import { runAction } from '$lib/server/builds';
-import { requireEditableBuild } from '$lib/server/parts';
+import { requireEditableBuild } from '$lib/server/builds';
+import { attempt } from '$lib/server/http';
 import { deleteSpecBlock, listSpecBlocks, moveSpecBlock, saveSpecBlock } from '$lib/server/specs';
 import { SPEC_KINDS, isSpecKind, type SpecKind } from '$lib/specs';
 import { fieldName, formToSpecData, mapSpecIssues, pointsShape, specDataToForm, specFormSchemas } from '$lib/schemas/spec-forms';
@@ -51,7 +51,7 @@ export const load: PageServerLoad = async ({ params, url }) => {
 export const actions: Actions = {
 	/** Add or change a block: text → data, the kind's schema on the server, field-level errors; nothing stored unless valid. */
 	save: async ({ request, params }) => {
-		const { user, build } = await requireEditableBuild(params.slug);
+		const { actor, build } = await requireEditableBuild(params.slug);
 		const fd = await request.formData();
 		const kind = fd.get('kind');
 		if (!isSpecKind(kind)) return fail(400, { error: `Choose a block kind: ${SPEC_KINDS.join(', ')}.` });
@@ -78,31 +78,32 @@ export const actions: Actions = {
 			for (const i of issues) setFieldError(form, i.field, i.message);
 			return fail(422, { form });
 		}
-		const result = await runAction(() => saveSpecBlock(user, build.id, { id: id || null, kind, title: values.title, data }));
-		if (!('ok' in result)) return result;
-		if (!result.ok) {
-			for (const i of mapSpecIssues(kind, result.issues, lineMaps)) setFieldError(form, i.field, i.message);
+		const r = await attempt(() => saveSpecBlock(actor, build.id, { id: id || null, kind, title: values.title, data }));
+		if (!r.ok) return r.failure;
+		const saved = r.value;
+		if (!saved.ok) {
+			for (const i of mapSpecIssues(kind, saved.issues, lineMaps)) setFieldError(form, i.field, i.message);
 			return fail(422, { form });
 		}
-		redirect(303, `/builds/${build.slug}/edit/specs?saved=${result.id}#block-${result.id}`);
+		redirect(303, `/builds/${build.slug}/edit/specs?saved=${saved.id}#block-${saved.id}`);
 	},
 
 	delete: async ({ request, params }) => {
-		const { user, build } = await requireEditableBuild(params.slug);
+		const { actor, build } = await requireEditableBuild(params.slug);
 		const parsed = blockAction.safeParse(Object.fromEntries(await request.formData()));
 		if (!parsed.success) return fail(400, { error: 'No such spec block.' });
-		const result = await runAction(() => deleteSpecBlock(user, build.id, parsed.data.blockId));
-		if (result && typeof result === 'object' && 'status' in result) return result;
+		const r = await attempt(() => deleteSpecBlock(actor, build.id, parsed.data.blockId));
+		if (!r.ok) return r.failure;
 		redirect(303, `/builds/${build.slug}/edit/specs`);
 	},
 
 	move: async ({ request, params }) => {
-		const { user, build } = await requireEditableBuild(params.slug);
+		const { actor, build } = await requireEditableBuild(params.slug);
 		const parsed = blockAction.safeParse(Object.fromEntries(await request.formData()));
 		if (!parsed.success || !parsed.data.direction) return fail(400, { error: 'No such spec block.' });
 		const direction = parsed.data.direction === 'up' ? -1 : 1;
-		const result = await runAction(() => moveSpecBlock(user, build.id, parsed.data.blockId, direction));
-		if (result && typeof result === 'object' && 'status' in result) return result;
+		const r = await attempt(() => moveSpecBlock(actor, build.id, parsed.data.blockId, direction));
+		if (!r.ok) return r.failure;
 		redirect(303, `/builds/${build.slug}/edit/specs#block-${parsed.data.blockId}`);
 	}
 };

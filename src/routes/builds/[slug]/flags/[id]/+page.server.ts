@@ -1,16 +1,20 @@
 import { error, fail, redirect } from '@sveltejs/kit';
 import { requireUser } from '$lib/server/auth';
-import { requireVisibleBuild, runAction } from '$lib/server/builds';
+import { requireVisibleBuild } from '$lib/server/builds';
+import type { Actor } from '$lib/server/actor';
 import { addressFlag, getFlag, getReviewPanel, setFlagState } from '$lib/server/reviews';
 import { addressFlagSchema } from '$lib/schemas/review';
 import type { Actions, PageServerLoad } from './$types';
+import { actorOf } from '$lib/server/actor';
+import { attempt } from '$lib/server/http';
 
 /** One safety flag on its own page (mail links, and where its forms land without JavaScript). */
 export const load: PageServerLoad = async ({ params, locals }) => {
-	const b = await requireVisibleBuild(params.slug, locals.user);
+	const viewer = actorOf(locals.user);
+	const b = await requireVisibleBuild(params.slug, viewer);
 	const flag = await getFlag(params.id);
 	if (flag.buildId !== b.id) error(404, 'Not found');
-	const panel = await getReviewPanel(b.id, locals.user);
+	const panel = await getReviewPanel(b.id, viewer);
 	const view = panel.flags.find((f) => f.id === flag.id);
 	if (!view) error(404, 'Not found');
 	return { build: { slug: b.slug, title: b.title, revision: b.revision }, flag: view, can: panel.can };
@@ -20,7 +24,7 @@ const back = (slug: string, id: string, to: FormDataEntryValue | null) =>
 	to === 'review' ? `/builds/${slug}/review#flag-${id}` : to === 'flag' ? `/builds/${slug}/flags/${id}` : `/builds/${slug}#flag-${id}`;
 
 /** The flag, checked to belong to the build in the URL. */
-async function flagOfBuild(slug: string, id: string, user: ReturnType<typeof requireUser>) {
+async function flagOfBuild(slug: string, id: string, user: Actor) {
 	const b = await requireVisibleBuild(slug, user);
 	const flag = await getFlag(id);
 	if (flag.buildId !== b.id) error(404, 'Not found');
@@ -29,29 +33,29 @@ async function flagOfBuild(slug: string, id: string, user: ReturnType<typeof req
 
 export const actions: Actions = {
 	address: async ({ params, request }) => {
-		const user = requireUser();
+		const user = actorOf(requireUser());
 		const { b, flag } = await flagOfBuild(params.slug, params.id, user);
 		const form = await request.formData();
 		const parsed = addressFlagSchema.safeParse({ note: form.get('note') ?? '' });
 		if (!parsed.success) return fail(400, { error: parsed.error.issues[0].message, note: String(form.get('note') ?? '') });
-		const r = await runAction(() => addressFlag(user, flag.id, parsed.data.note));
-		if (!('slug' in r)) return r;
+		const r = await attempt(() => addressFlag(user, flag.id, parsed.data.note));
+		if (!r.ok) return r.failure;
 		redirect(303, back(b.slug, flag.id, form.get('return')));
 	},
 	resolve: async ({ params, request }) => {
-		const user = requireUser();
+		const user = actorOf(requireUser());
 		const { b, flag } = await flagOfBuild(params.slug, params.id, user);
 		const form = await request.formData();
-		const r = await runAction(() => setFlagState(user, flag.id, 'resolve'));
-		if (!('slug' in r)) return r;
+		const r = await attempt(() => setFlagState(user, flag.id, 'resolve'));
+		if (!r.ok) return r.failure;
 		redirect(303, back(b.slug, flag.id, form.get('return')));
 	},
 	reopen: async ({ params, request }) => {
-		const user = requireUser();
+		const user = actorOf(requireUser());
 		const { b, flag } = await flagOfBuild(params.slug, params.id, user);
 		const form = await request.formData();
-		const r = await runAction(() => setFlagState(user, flag.id, 'reopen'));
-		if (!('slug' in r)) return r;
+		const r = await attempt(() => setFlagState(user, flag.id, 'reopen'));
+		if (!r.ok) return r.failure;
 		redirect(303, back(b.slug, flag.id, form.get('return')));
 	}
 };

@@ -1,7 +1,12 @@
 import { json } from '@sveltejs/kit';
 import type { RequestHandler } from './$types';
-import { deleteBuildPhoto, photoRoute } from '$lib/server/photo-http';
+import { requireEditableBuild } from '$lib/server/builds';
+import { uploadRoute } from '$lib/server/http';
+import { removeBuildPhoto } from '$lib/server/photos';
 
 /** Delete one photo of a build (its row and stored renditions). The maker or an admin only. */
 export const DELETE: RequestHandler = async ({ params, request }) =>
-	photoRoute(request, async () => json({ deleted: await deleteBuildPhoto(params.slug, params.id) }));
+	uploadRoute(request, async () => {
+		const { actor, build } = await requireEditableBuild(params.slug);
+		return json({ deleted: await removeBuildPhoto(actor, build, params.id) });
+	});

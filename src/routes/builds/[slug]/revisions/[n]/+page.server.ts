@@ -5,9 +5,10 @@ import * as schema from '$lib/server/db/schema';
 import { toPhotoView } from '$lib/server/photos';
 import { getRevision, requireVisibleBuild } from '$lib/server/builds';
 import type { PageServerLoad } from './$types';
+import { actorOf } from '$lib/server/actor';
 
 export const load: PageServerLoad = async ({ params, locals }) => {
-	const b = await requireVisibleBuild(params.slug, locals.user);
+	const b = await requireVisibleBuild(params.slug, actorOf(locals.user));
 	const n = /^[1-9]\d{0,6}$/.test(params.n) ? Number(params.n) : NaN;
 	if (!Number.isInteger(n)) error(404, 'Not found');
 	const rev = await getRevision(b.id, n);

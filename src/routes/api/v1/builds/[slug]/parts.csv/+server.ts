@@ -1,7 +1,8 @@
 import type { RequestHandler } from './$types';
-import { apiError, methodNotAllowed } from '$lib/server/api';
+import { apiError, methodNotAllowed } from '$lib/server/http';
 import { canView, getBuildBySlug } from '$lib/server/builds';
 import { listPartLines, partsToCsv } from '$lib/server/parts';
+import { actorOf } from '$lib/server/actor';
 
 /**
  * GET /api/v1/builds/:slug/parts.csv — the parts list as RFC 4180 CSV (API.md). Published and archived
@@ -10,7 +11,7 @@ import { listPartLines, partsToCsv } from '$lib/server/parts';
  */
 export const GET: RequestHandler = async ({ params, locals }) => {
 	const b = await getBuildBySlug(params.slug);
-	if (!b || !canView(locals.user, b)) return apiError(404, 'not_found', 'No such build.');
+	if (!b || !canView(actorOf(locals.user), b)) return apiError(404, 'not_found', 'No such build.');
 	const csv = partsToCsv(await listPartLines(b.id));
 	return new Response(csv, {
 		headers: {

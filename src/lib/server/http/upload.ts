@@ -1,28 +1,26 @@
 import { isHttpError, isRedirect } from '@sveltejs/kit';
-import { apiError, type ApiErrorCode } from './api';
-import { requireUser } from './auth';
-import { assertCanEdit, type Viewer } from './builds/access';
-import { PhotoError, deletePhoto, findBuildForPhotos, findPhoto } from './photos';
-import { db } from './db';
-import { recordRevision } from './builds/revisions';
+import { apiError, codeForStatus, type ApiErrorCode } from './envelope';
 
-const codeFor: Record<number, ApiErrorCode> = {
-	400: 'invalid',
-	401: 'unauthenticated',
-	403: 'forbidden',
-	404: 'not_found',
-	409: 'conflict',
-	413: 'too_large',
-	415: 'invalid',
-	422: 'invalid'
-};
+/** A refusal about one field of an upload, answered as the envelope with one issue at `path`. */
+export class FieldError extends Error {
+	constructor(
+		readonly status: 400 | 404 | 413 | 415 | 422,
+		readonly code: ApiErrorCode,
+		message: string,
+		readonly path: string = 'file'
+	) {
+		super(message);
+		this.name = 'FieldError';
+	}
+}
 
 /**
- * Run a photo route handler and answer every expected failure with the JSON error envelope:
- * a PhotoError (bad upload), or an `error()` thrown by a guard (401/403/404). Redirects and
- * unexpected errors pass through (the latter become a logged 500 without details).
+ * Run an upload route's handler (photos) and answer every expected failure with the JSON error envelope,
+ * or with a small page for a plain no-JS form (`htmlBack`): a FieldError (bad upload), or an `error()`
+ * thrown by a guard (401/403/404). Redirects and unexpected errors pass through (the latter become a
+ * logged 500 without details).
  */
-export async function photoRoute(
+export async function uploadRoute(
 	request: Request,
 	handler: () => Promise<Response>,
 	opts: { htmlBack?: string; drainLimit?: number } = {}
@@ -33,7 +31,7 @@ export async function photoRoute(
 		if (isRedirect(err)) throw err;
 		let status: number;
 		let response: Response;
-		if (err instanceof PhotoError) {
+		if (err instanceof FieldError) {
 			status = err.status;
 			response = opts.htmlBack
 				? htmlRefusal(err.status, err.message, opts.htmlBack)
@@ -42,7 +40,7 @@ export async function photoRoute(
 			status = err.status;
 			response = opts.htmlBack
 				? htmlRefusal(err.status, err.body.message, opts.htmlBack)
-				: apiError(err.status, codeFor[err.status] ?? 'invalid', err.body.message);
+				: apiError(err.status, codeForStatus(err.status), err.body.message);
 		} else {
 			throw err;
 		}
@@ -64,40 +62,6 @@ async function finishEarly(request: Request, response: Response, status: number,
 	}
 	response.headers.set('connection', 'close');
 	return response;
-}
-
-const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
-
-/** True for a well-formed UUID (checked before it reaches a uuid column, which would throw). */
-export function isUuid(value: unknown): value is string {
-	return typeof value === 'string' && UUID.test(value);
-}
-
-/**
- * The build at `slug` if `viewer` may change it: 404 when it does not exist, 401/403 from the
- * build access rules otherwise (signed out, another maker, locked) — as every build mutation does.
- */
-export async function editableBuild(slug: string, viewer: Viewer) {
-	const b = await findBuildForPhotos(slug);
-	if (!b) throw new PhotoError(404, 'not_found', 'There is no build at this address.', 'slug');
-	assertCanEdit(viewer, b);
-	return b;
-}
-
-/** Delete photo `photoId` of the build at `slug` for the signed-in maker (or an admin). */
-export async function deleteBuildPhoto(slug: string, photoId: string): Promise<string> {
-	const user = requireUser();
-	const b = await editableBuild(slug, user);
-	const row = isUuid(photoId) ? await findPhoto(photoId) : null;
-	if (!row || row.buildId !== b.id) throw new PhotoError(404, 'not_found', 'That photo is not part of this build (it may already be deleted).', 'id');
-	await deletePhoto(row.id);
-	await notePhotoRevision(b.id, user.id);
-	return row.id;
-}
-
-/** A photo added to or removed from a published build is a change like any other: record a revision. */
-export async function notePhotoRevision(buildId: string, authorId: string): Promise<void> {
-	await db.transaction((tx) => recordRevision(tx, buildId, authorId));
 }
 
 /** True when the caller is a plain HTML form (no JavaScript), which wants a page back, not JSON. */

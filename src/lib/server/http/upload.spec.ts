@@ -1,12 +1,13 @@
 import { describe, it, expect, afterAll, beforeAll, vi } from 'vitest';
 import { error } from '@sveltejs/kit';
 
-// photo-http reads no request itself, but auth.ts (imported for requireUser) needs $app/server.
+// The upload plumbing reads no request itself, but auth.ts (imported by the builds guard) needs $app/server.
 vi.mock('$app/server', () => ({ getRequestEvent: () => ({ locals: { user: null }, url: new URL('http://x/'), request: new Request('http://x/') }) }));
 
-const { editableBuild, isUuid, photoRoute } = await import('./photo-http');
-const { PhotoError } = await import('./photos');
-const { createMakerWithBuild, removeMaker } = await import('./testing/photos');
+const { uploadRoute } = await import('./upload');
+const { requireEditableBuild } = await import('../builds');
+const { PhotoError } = await import('../photos');
+const { createMakerWithBuild, removeMaker } = await import('../testing/photos');
 
 async function status(p: Promise<unknown>): Promise<number | string> {
 	return p.then(
@@ -15,7 +16,11 @@ async function status(p: Promise<unknown>): Promise<number | string> {
 	);
 }
 
-describe('who may add photos (editableBuild)', () => {
+/** Who may change a build, as the photo routes ask it. */
+const editableBuild = (slug: string, as: { id: string; role?: 'maker' | 'moderator' | 'admin' } | null) =>
+	requireEditableBuild(slug, { as: as && { role: 'maker', ...as } });
+
+describe('who may add photos (requireEditableBuild)', () => {
 	let open: Awaited<ReturnType<typeof createMakerWithBuild>>;
 	let locked: Awaited<ReturnType<typeof createMakerWithBuild>>;
 	beforeAll(async () => {
@@ -38,7 +43,7 @@ describe('who may add photos (editableBuild)', () => {
 	});
 });
 
-describe('photoRoute', () => {
+describe('uploadRoute', () => {
 	const upload = (size: number) =>
 		new Request('http://x/builds/b/photos', {
 			method: 'POST',
@@ -48,7 +53,7 @@ describe('photoRoute', () => {
 
 	it('turns a guard error into the JSON envelope and reads the unread body first', async () => {
 		const req = upload(50_000);
-		const res = await photoRoute(req, async () => error(403, 'Only the maker of this build can change it.'), {
+		const res = await uploadRoute(req, async () => error(403, 'Only the maker of this build can change it.'), {
 			drainLimit: 100_000
 		});
 		expect(res.status).toBe(403);
@@ -60,7 +65,7 @@ describe('photoRoute', () => {
 
 	it('answers a refusal of an oversized body at once and closes the connection', async () => {
 		const req = upload(200_000);
-		const res = await photoRoute(
+		const res = await uploadRoute(
 			req,
 			async () => {
 				throw new PhotoError(413, 'too_large', 'The photo is larger than the 15 MB limit.');
@@ -74,7 +79,7 @@ describe('photoRoute', () => {
 	});
 
 	it('answers a no-script form with a small page and a way back', async () => {
-		const res = await photoRoute(
+		const res = await uploadRoute(
 			upload(10),
 			async () => {
 				throw new PhotoError(415, 'invalid', 'That file is not a JPEG, PNG or WebP image.');
@@ -89,39 +94,33 @@ describe('photoRoute', () => {
 	});
 
 	it('lets unexpected errors through (they become a logged 500 without details)', async () => {
-		await expect(photoRoute(upload(10), async () => Promise.reject(new Error('db down')))).rejects.toThrow('db down');
+		await expect(uploadRoute(upload(10), async () => Promise.reject(new Error('db down')))).rejects.toThrow('db down');
 	});
 
-	it('checks UUIDs before they reach a uuid column', () => {
-		expect(isUuid('5d1df01b-f98e-473a-96e0-c2407da0b477')).toBe(true);
-		expect(isUuid('5d1df01b')).toBe(false);
-		expect(isUuid("x' or 1=1")).toBe(false);
-		expect(isUuid(null)).toBe(false);
-	});
 });
 
 describe('photos on a published build', () => {
 	it('record a revision when one is added or removed', async () => {
-		const { db } = await import('./db');
-		const schema = await import('./db/schema');
+		const { db } = await import('../db');
+		const schema = await import('../db/schema');
 		const { eq } = await import('drizzle-orm');
-		const { publish } = await import('./builds');
-		const { processAndStorePhoto, deletePhoto } = await import('./photos');
-		const { notePhotoRevision } = await import('./photo-http');
-		const { jpegWithGpsAndOrientation } = await import('./testing/photos');
+		const { publish } = await import('../builds');
+		const { addBuildPhoto, removeBuildPhoto } = await import('../photos');
+		const { jpegWithGpsAndOrientation } = await import('../testing/photos');
 		const m = await createMakerWithBuild();
 		try {
-			const actor = { id: m.userId, role: 'maker' };
+			const actor = { id: m.userId, role: 'maker' as const };
 			expect(await publish(actor, m.build.id)).toBe(1);
-			const revision = async () => (await db.select().from(schema.build).where(eq(schema.build.id, m.build.id)))[0].revision;
-			const photo = await processAndStorePhoto({ ownerId: m.userId, buildId: m.build.id, stepId: m.step.id, bytes: await jpegWithGpsAndOrientation(400, 300), alt: 'A heatsink' });
-			await notePhotoRevision(m.build.id, m.userId);
-			expect(await revision()).toBe(2);
-			await deletePhoto(photo.id);
-			await notePhotoRevision(m.build.id, m.userId);
-			expect(await revision()).toBe(3);
-			await notePhotoRevision(m.build.id, m.userId); // nothing changed: no new revision
-			expect(await revision()).toBe(3);
+			const current = async () => (await db.select().from(schema.build).where(eq(schema.build.id, m.build.id)))[0];
+			const before = (await current()).updatedAt;
+			const photo = await addBuildPhoto(actor, m.build, { stepId: m.step.id, bytes: await jpegWithGpsAndOrientation(400, 300), alt: 'A heatsink', asCover: false });
+			expect((await current()).revision).toBe(2);
+			expect((await current()).updatedAt.getTime()).toBeGreaterThan(before.getTime());
+			await removeBuildPhoto(actor, m.build, photo.id);
+			expect((await current()).revision).toBe(3);
+			// Not a photo of this build (any more): refused, and no new revision.
+			await expect(removeBuildPhoto(actor, m.build, photo.id)).rejects.toMatchObject({ status: 404 });
+			expect((await current()).revision).toBe(3);
 		} finally {
 			await removeMaker(m.userId);
 		}

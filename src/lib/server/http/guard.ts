@@ -1,18 +1,6 @@
 import { isHttpError } from '@sveltejs/kit';
 import { ZodError } from 'zod';
-import { apiError, zodErrorResponse, type ApiErrorCode } from './api';
-
-const CODES: Record<number, ApiErrorCode> = {
-	400: 'invalid',
-	401: 'unauthenticated',
-	403: 'forbidden',
-	404: 'not_found',
-	409: 'conflict',
-	413: 'too_large',
-	422: 'invalid',
-	429: 'rate_limited',
-	503: 'unavailable'
-};
+import { apiError, codeForStatus, zodErrorResponse } from './envelope';
 
 /**
  * Run an API handler's body and answer the JSON envelope (API.md) for the refusals the domain modules
@@ -27,7 +15,7 @@ export async function apiGuard(fn: () => Promise<Response>, issuePath?: string):
 		if (isHttpError(e) && e.status >= 400 && e.status < 500) {
 			const message = e.body.message;
 			const issues = e.status === 422 && issuePath ? [{ path: issuePath, message }] : [];
-			return apiError(e.status, CODES[e.status] ?? 'invalid', message, issues);
+			return apiError(e.status, codeForStatus(e.status), message, issues);
 		}
 		throw e;
 	}

@@ -14,6 +14,29 @@ export type ApiErrorCode =
 	| 'unavailable'
 	| 'internal';
 
+/**
+ * The one status → error-code table: the envelope's `code` for each HTTP status we answer with. Used by
+ * the API guard, the photo routes and the /api/v1 envelope hook alike.
+ */
+const CODE_FOR_STATUS: Readonly<Record<number, ApiErrorCode>> = {
+	400: 'invalid',
+	401: 'unauthenticated',
+	403: 'forbidden',
+	404: 'not_found',
+	405: 'method_not_allowed',
+	409: 'conflict',
+	413: 'too_large',
+	415: 'invalid',
+	422: 'invalid',
+	429: 'rate_limited',
+	503: 'unavailable'
+};
+
+/** The envelope code for `status`: from the table, else `invalid` for another 4xx and `internal` for a 5xx. */
+export function codeForStatus(status: number): ApiErrorCode {
+	return CODE_FOR_STATUS[status] ?? (status >= 500 ? 'internal' : 'invalid');
+}
+
 export interface ApiIssue {
 	path: string;
 	message: string;

@@ -1,4 +1,4 @@
-import { db, type Db, type Tx } from '../db';
+import { db, type Db, type Tx } from './index';
 
 /** A database handle for reads: the pool or an open transaction. */
 export type DbLike = Db | Tx;
