@@ -266,7 +266,7 @@ const cases: Case[] = [
 		run: (a) => postForm(ctx[a], `/builds/${B.slug}/request-review`, {})
 	},
 	{
-		name: 'raise flag (review?/raiseFlag)',
+		name: 'tag a hazard (review?/raiseFlag)',
 		allowed: REVIEWERS,
 		run: (a) =>
 			postForm(ctx[a], `/builds/${B.slug}/review?/raiseFlag`, {
@@ -278,15 +278,15 @@ const cases: Case[] = [
 			})
 	},
 	{
-		name: 'address flag (flags/[id]?/address)',
+		name: 'mark hazard tag fixed (hazards/[id]?/address)',
 		allowed: ['owner'],
 		run: async (a) =>
-			postForm(ctx[a], `/builds/${B.slug}/flags/${await openFlag(B.slug, B.stepId)}?/address`, { note: 'Fitted the insulator.' })
+			postForm(ctx[a], `/builds/${B.slug}/hazards/${await openFlag(B.slug, B.stepId)}?/address`, { note: 'Fitted the insulator.' })
 	},
 	{
-		name: 'resolve flag (flags/[id]?/resolve)',
+		name: 'clear hazard tag (hazards/[id]?/resolve)',
 		allowed: REVIEWERS,
-		run: async (a) => postForm(ctx[a], `/builds/${B.slug}/flags/${await openFlag(B.slug, B.stepId)}?/resolve`, {})
+		run: async (a) => postForm(ctx[a], `/builds/${B.slug}/hazards/${await openFlag(B.slug, B.stepId)}?/resolve`, {})
 	},
 	{
 		name: 'submit review (review?/submitReview)',

@@ -99,7 +99,7 @@ test.describe.serial('build journal', () => {
 		await page.getByRole('button', { name: 'Publish build' }).click();
 		await expect(page).toHaveURL(new RegExp(`/builds/${slug}$`), { timeout: 30_000 });
 		await expect(page.locator('[data-status="published"]')).toBeVisible();
-		await expect(page.getByRole('link', { name: 'r1', exact: true })).toBeVisible();
+		await expect(page.getByRole('link', { name: 'Rev A', exact: true })).toBeVisible();
 		expect(dialogs).toEqual([]);
 	});
 
@@ -128,9 +128,9 @@ test.describe.serial('build journal', () => {
 		await page.waitForTimeout(300);
 		expect(await page.evaluate(() => (window as unknown as { __xss?: boolean }).__xss)).toBeUndefined();
 
-		// Readers cannot edit or derive without signing in.
+		// Readers cannot edit or start their own build from it without signing in.
 		await expect(page.getByRole('link', { name: 'Edit build' })).toHaveCount(0);
-		await expect(page.getByRole('link', { name: /Sign in to derive/ })).toBeVisible();
+		await expect(page.getByRole('link', { name: /Sign in to start your own build/ })).toBeVisible();
 		const edit = await page.goto(`/builds/${slug}/edit`);
 		expect(new URL(edit!.url()).pathname).toBe('/sign-in');
 
@@ -149,7 +149,7 @@ test.describe.serial('build journal', () => {
 		expect(dialogs).toEqual([]);
 	});
 
-	test('another member cannot change it (403) and derives it instead', async ({ browser }) => {
+	test('another member cannot change it (403) and starts their own build from it instead', async ({ browser }) => {
 		aiko = await browser.newContext();
 		const page = await aiko.newPage();
 		watchDialogs(page, dialogs);
@@ -166,21 +166,21 @@ test.describe.serial('build journal', () => {
 		expect((await post(`/builds/${slug}?/archive`, {})).status()).toBe(403);
 
 		await page.goto(`/builds/${slug}`);
-		await page.getByRole('button', { name: 'Derive a build from this' }).click();
-		await expect(page).toHaveURL(/\/edit\?derived=1$/);
-		await expect(page.getByText('Your derived draft is ready')).toBeVisible();
+		await page.getByRole('button', { name: 'Start from this parts list' }).click();
+		await expect(page).toHaveURL(/\/edit\?started=1$/);
+		await expect(page.getByText('Your draft is ready, based on the original')).toBeVisible();
 		const derivedSlug = new URL(page.url()).pathname.split('/')[2];
 		expect(derivedSlug).not.toBe(slug);
 
 		await page.getByRole('link', { name: 'Preview build' }).click();
 		await expect(page).toHaveURL(new RegExp(`/builds/${derivedSlug}$`));
 		const from = page.locator('[data-derived-from]');
-		await expect(from).toContainText('Derived from');
+		await expect(from).toContainText('Based on');
 		await expect(from.getByRole('link')).toHaveText(TITLE);
-		// No steps were copied: the derived build starts with its maker's own words.
+		// No steps were copied: the new build starts with its maker's own words.
 		await expect(page.locator('[data-step]')).toHaveCount(0);
 
-		// The origin lists the derived build (a draft, so only to its maker).
+		// The original lists the builds based on it (a draft, so only to its maker).
 		await page.goto(`/builds/${slug}`);
 		await expect(page.locator('[data-derived-builds]')).toContainText(`${TITLE.slice(0, 20)}`);
 		expect(dialogs).toEqual([]);

@@ -49,7 +49,7 @@ test('spec blocks: a bad amplifier block is refused field by field, a good one s
 	await expect(block.locator('[data-derived="gainDb"]')).toContainText('dB');
 	const badge = block.locator('[data-check="amp.power-beyond-rails"]');
 	await expect(badge).toBeVisible();
-	await expect(badge).toContainText('Caution');
+	await expect(badge).toContainText('CAUTION');
 	await expect(badge).toContainText('60 W');
 
 	// A supply block: its caution text defers to local codes; 35 V caps on a ~27.6 V rail get a margin caution.
@@ -67,7 +67,7 @@ test('spec blocks: a bad amplifier block is refused field by field, a good one s
 	await expect(page.getByText('Block saved.')).toBeVisible();
 	const supply = page.locator('section[data-spec-block="supply"]', { hasText: `${title} supply` });
 	await expect(supply.locator('[data-derived="peakDcV"]')).toContainText('27.6 V');
-	await expect(supply.locator('[data-check="supply.cap-rating"]')).toContainText('Caution');
+	await expect(supply.locator('[data-check="supply.cap-rating"]')).toContainText('CAUTION');
 	await expect(supply.getByText(/Defer to local codes and licensed practice/).first()).toBeVisible();
 });
 

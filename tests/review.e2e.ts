@@ -1,6 +1,7 @@
-// The review flow of issue 5 end to end in Chromium: a maker asks for review, a reviewer flags the heatsink
-// step and the supply block and gives "rework", the maker gets the mail, addresses the flags and edits the
-// build, the badge shows the revision change, and the reviewer resolves the flags and gives "safe".
+// The review flow end to end in Chromium: a maker asks for review, a reviewer tags hazards on the heatsink
+// step and the supply block and sends the build back for changes, the maker gets the mail, marks the tags
+// fixed and edits the build, the stamp says it was edited since, and the reviewer clears the tags and signs
+// off the new revision as safe.
 import { test, expect, type Browser, type Page } from '@playwright/test';
 import { signIn } from './helpers/auth';
 import { waitForMail, linkIn } from './helpers/mail';
@@ -13,7 +14,7 @@ async function as(browser: Browser, email: string): Promise<Page> {
 	return page;
 }
 
-test('ask for review → flags and rework → mail → addressed and edited → changed since → resolved and safe', async ({ browser }) => {
+test('ask for review → hazard tags and send-back → mail → fixed and edited → edited since → cleared and signed off', async ({ browser }) => {
 	test.setTimeout(180_000);
 	const joss = await as(browser, 'joss@starground.test');
 	const build = await createPublishedBuild(joss);
@@ -22,7 +23,7 @@ test('ask for review → flags and rework → mail → addressed and edited → 
 	// The maker asks for review.
 	await joss.goto(buildUrl, { waitUntil: 'networkidle' });
 	const reviewBox = joss.locator('#review-state');
-	await expect(reviewBox.locator('[data-review-label]')).toHaveText(/not reviewed/);
+	await expect(reviewBox.locator('[data-review-label]')).toHaveText(/Not reviewed/);
 	await reviewBox.getByRole('button', { name: 'Ask for review' }).click();
 	await expect(reviewBox.locator('[data-waiting]')).toBeVisible();
 	await expect(reviewBox.locator('[data-review-label]')).toHaveAttribute('data-review-label', 'waiting');
@@ -36,47 +37,53 @@ test('ask for review → flags and rework → mail → addressed and edited → 
 	await row.getByRole('link', { name: 'Review' }).click();
 	await expect(maren).toHaveURL(new RegExp(`${buildUrl}/review$`));
 
-	// Flag the heatsink step…
+	// Tag a hazard on the heatsink step…
 	const heatsink = maren.locator('[data-review-target="step"]').filter({ hasText: 'Heatsink and mounting' });
-	await heatsink.getByText(/Raise a safety flag on step 2/).click();
-	await heatsink.getByLabel('Category').selectOption('heat');
+	await heatsink.getByText(/Tag a hazard on step 2/).click();
+	await heatsink.getByLabel('What kind of hazard').selectOption('heat');
 	await heatsink.getByLabel('Fix before use').check();
 	await heatsink.getByLabel(/^Note/).fill('The tab sits at V− and is bolted **straight** to a chassis-bonded heatsink: fit an insulator.');
-	await heatsink.getByRole('button', { name: 'Raise flag' }).click();
+	await heatsink.getByRole('button', { name: 'Tag the hazard' }).click();
 	await expect(heatsink.locator('[data-flag]')).toHaveCount(1);
 	await expect(heatsink.locator('[data-flag] strong')).toHaveText('straight');
 
 	// …and the supply block.
 	const supply = maren.locator('[data-review-target="spec"]').first();
-	await supply.getByText(/Raise a safety flag on this supply block/).click();
-	await supply.getByLabel('Category').selectOption('mains-earth');
-	await supply.getByLabel('Stop: do not power up').check();
+	await supply.getByText(/Tag a hazard on this supply block/).click();
+	await supply.getByLabel('What kind of hazard').selectOption('mains-earth');
+	await supply.getByLabel('Do not power up').check();
 	await supply.getByLabel(/^Note/).fill('Fuse is sized for the amplifier, not the transformer inrush; check the primary fuse rating.');
-	await supply.getByRole('button', { name: 'Raise flag' }).click();
+	await supply.getByRole('button', { name: 'Tag the hazard' }).click();
 	await expect(supply.locator('[data-flag]')).toHaveCount(1);
 
-	// "safe" is refused while flags are open; "rework" goes through and pins r1.
-	await maren.getByRole('radio', { name: /^Safe —/ }).check();
+	// A sign-off is refused while tags are still tagged; a send-back goes through and is recorded against Rev A.
+	await maren.getByRole('radio', { name: /^Sign off as safe —/ }).check();
 	await maren.getByLabel(/^Summary/).fill('Two points to fix before first power-up: tab insulation and the primary fuse.');
-	await maren.getByRole('button', { name: /Submit review of r1/ }).click();
-	await expect(maren.getByText(/open safety flags?\. Resolve/)).toBeVisible();
-	await maren.getByRole('radio', { name: /^Rework —/ }).check();
-	await maren.getByRole('button', { name: /Submit review of r1/ }).click();
+	await maren.getByRole('button', { name: /Record the review of Rev A/ }).click();
+	await expect(maren.getByText(/hazard tags? tagged\. Clear/)).toBeVisible();
+	await maren.getByRole('radio', { name: /^Send back for changes —/ }).check();
+	await maren.getByRole('button', { name: /Record the review of Rev A/ }).click();
 	await expect(maren).toHaveURL(new RegExp(`${buildUrl}(#review-state)?$`));
-	await expect(maren.locator('#review-state [data-review-label]')).toHaveText(/rework at r1/);
+	await expect(maren.locator('#review-state [data-review-label]')).toHaveText(/Sent back for changes at Rev A/);
 
-	// The maker gets the mails (flag and review), with an unsubscribe link.
-	const reviewMail = await waitForMail('joss@starground.test', new RegExp(`Review of “${build.title}”: rework at r1`));
+	// The maker gets the mails (hazard tag and review), with an unsubscribe link.
+	const reviewMail = await waitForMail('joss@starground.test', new RegExp(`Sent back for changes at Rev A: “${build.title}”`));
 	expect(reviewMail.text).toContain('Maren Quist');
 	expect(reviewMail.text).toMatch(/\/unsubscribe\?token=/);
-	const flagMail = await waitForMail('joss@starground.test', new RegExp(`Safety flag on “${build.title}”`));
-	expect(flagMail.html).toContain('See the flag');
+	const flagMail = await waitForMail('joss@starground.test', new RegExp(`Hazard tagged on “${build.title}”`));
+	expect(flagMail.html).toContain('See the hazard tag');
+	const tagLink = linkIn(flagMail, '/hazards/');
+	expect(new URL(tagLink).pathname).toMatch(new RegExp(`^${buildUrl}/hazards/[0-9a-f-]{36}$`));
+	// The tag's page before the move still answers, with a permanent redirect to the new address.
+	const old = await joss.request.get(new URL(tagLink).pathname.replace('/hazards/', '/flags/'), { maxRedirects: 0 });
+	expect(old.status()).toBe(308);
+	expect(old.headers()['location']).toBe(new URL(tagLink).pathname);
 
 	// Its one-click unsubscribe link works without signing in, can be undone, and refuses a forged token.
 	const anon = await browser.newPage();
 	const unsub = linkIn(flagMail, '/unsubscribe?token=');
 	await anon.goto(unsub, { waitUntil: 'networkidle' });
-	await expect(anon.locator('[data-unsubscribed="flag"]')).toContainText('safety flag');
+	await expect(anon.locator('[data-unsubscribed="flag"]')).toContainText('tags a hazard');
 	await anon.getByRole('button', { name: /turn it back on/ }).click();
 	await expect(anon.getByRole('heading', { name: 'Turned back on' })).toBeVisible();
 	const token = new URL(unsub).searchParams.get('token')!;
@@ -84,20 +91,21 @@ test('ask for review → flags and rework → mail → addressed and edited → 
 	expect(forged?.status()).toBe(400);
 	await expect(anon.getByText('This unsubscribe link is not valid')).toBeVisible();
 
-	// The maker sees the open flags at the top and inline markers, and marks both addressed.
+	// The maker sees the hazard tags at the top and inline markers, and marks both fixed.
 	await joss.goto(buildUrl, { waitUntil: 'networkidle' });
-	await expect(joss.locator('#flags [data-flag]')).toHaveCount(2);
-	await expect(joss.locator('#step-2 [data-flag-marker]')).toHaveText(/1 open safety flag/);
+	await expect(joss.locator('#hazards [data-flag]')).toHaveCount(2);
+	await expect(joss.locator('#step-2 [data-flag-marker]')).toHaveText(/1 hazard tag to deal with/);
+	await expect(joss.locator('#hazards [data-flag-state="open"]').first()).toHaveText('Tagged');
 	for (let i = 0; i < 2; i++) {
-		const flag = joss.locator('#flags [data-flag]').filter({ has: joss.locator('[data-flag-state="open"]') }).first();
-		await flag.getByText('Mark addressed…').click();
+		const flag = joss.locator('#hazards [data-flag]').filter({ has: joss.locator('[data-flag-state="open"]') }).first();
+		await flag.getByText('Mark fixed…').click();
 		await flag.getByLabel('What did you change?').fill(i === 0 ? 'Fitted a mica insulator and shoulder washer.' : 'Primary fuse now T2A, sized for the transformer.');
-		await flag.getByRole('button', { name: 'Mark addressed' }).click();
-		await expect(joss.locator('#flags [data-flag-state="addressed"]')).toHaveCount(i + 1);
+		await flag.getByRole('button', { name: 'Mark fixed' }).click();
+		await expect(joss.locator('#hazards [data-flag-state="addressed"]')).toHaveCount(i + 1);
 	}
 	await expect(joss.locator('[data-flag-marker]')).toHaveCount(0);
 
-	// The maker edits the build: a new revision; the badge says the verdict is from r1.
+	// The maker edits the build: a new revision; the stamp says it was edited since the send-back at Rev A.
 	await joss.goto(`${buildUrl}/edit`, { waitUntil: 'networkidle' });
 	const addStep = joss.locator('form[action="?/addStep"]');
 	await addStep.getByLabel('Title').fill('Tab insulation');
@@ -105,30 +113,30 @@ test('ask for review → flags and rework → mail → addressed and edited → 
 	await addStep.getByRole('button', { name: 'Add step' }).click();
 	await expect(joss.getByRole('heading', { name: /Step 3\s*Tab insulation/ })).toBeVisible();
 	await joss.goto(buildUrl, { waitUntil: 'networkidle' });
-	await expect(joss.locator('#review-state [data-review-label]')).toHaveText(/rework at r1 · changed since/);
+	await expect(joss.locator('#review-state [data-review-label]')).toHaveText(/Edited since send-back at Rev A/);
 	await joss.locator('#review-state').getByRole('button', { name: 'Ask for review again' }).click();
 	await expect(joss.locator('#review-state [data-waiting]')).toBeVisible();
 
-	// The reviewer resolves both flags and gives "safe" on r2.
+	// The reviewer clears both tags and signs off Rev B as safe.
 	await maren.goto(`${buildUrl}/review`, { waitUntil: 'networkidle' });
 	for (let i = 0; i < 2; i++) {
-		await maren.locator('[data-flag]').filter({ has: maren.locator('[data-flag-state="addressed"]') }).first().getByRole('button', { name: 'Resolve flag' }).click();
+		await maren.locator('[data-flag]').filter({ has: maren.locator('[data-flag-state="addressed"]') }).first().getByRole('button', { name: 'Clear the tag' }).click();
 		await expect(maren.locator('[data-flag-state="resolved"]')).toHaveCount(i + 1);
 	}
-	await maren.getByRole('radio', { name: /^Safe —/ }).check();
+	await maren.getByRole('radio', { name: /^Sign off as safe —/ }).check();
 	await maren.getByLabel(/^Summary/).fill('Tab insulated and the fuse now matches the transformer. Fine to power up.');
-	await maren.getByRole('button', { name: /Submit review of r2/ }).click();
+	await maren.getByRole('button', { name: /Record the review of Rev B/ }).click();
 	await expect(maren).toHaveURL(new RegExp(`${buildUrl}(#review-state)?$`));
 
-	// Everyone, signed out too, sees "safe at r2" with the peer-opinion sentence.
+	// Everyone, signed out too, sees "Signed off as safe at Rev B" with the peer-opinion sentence.
 	const reader = await browser.newPage();
 	await reader.goto(buildUrl, { waitUntil: 'networkidle' });
-	await expect(reader.locator('#review-state [data-review-label]')).toHaveText(/safe at r2/);
-	await expect(reader.locator('#review-state [data-review-label]')).not.toHaveText(/changed since/);
+	await expect(reader.locator('#review-state [data-review-label]')).toHaveText(/Signed off as safe at Rev B/);
+	await expect(reader.locator('#review-state [data-review-label]')).not.toHaveText(/Edited since/);
 	await expect(reader.locator('[data-peer-opinion]')).toContainText('not a certification');
-	await expect(reader.locator('[data-review="rework"]')).toContainText('Rework at r1');
-	await expect(reader.locator('[data-review="safe"]')).toContainText('Safe at r2');
-	await waitForMail('joss@starground.test', new RegExp(`Review of “${build.title}”: safe at r2`));
+	await expect(reader.locator('[data-review="rework"]')).toContainText('Sent back for changes at Rev A');
+	await expect(reader.locator('[data-review="safe"]')).toContainText('Signed off as safe at Rev B');
+	await waitForMail('joss@starground.test', new RegExp(`Signed off as safe at Rev B: “${build.title}”`));
 });
 
 test('a maker can never open review mode on their own build, and makers cannot at all', async ({ browser }) => {

@@ -1,7 +1,10 @@
 /**
  * Review words and pure review-state logic shared by server and browser (PRODUCT.md §3, §4.5).
- * The database side lives in $lib/server/reviews.
+ * A review ends in a sign-off (API `safe`) or a send-back (API `rework`), recorded against one revision;
+ * a reviewer's pointer at a problem is a hazard tag (code and API: `flag`), tagged → fixed → cleared
+ * (API `open` / `addressed` / `resolved`). The database side lives in $lib/server/reviews.
  */
+import { revisionLabel } from './revision-label';
 
 export type ReviewLabel = 'unreviewed' | 'waiting' | 'safe' | 'rework' | 'safe-changed' | 'rework-changed';
 
@@ -58,11 +61,6 @@ export function isWaiting(requestedAt: Date | null, reviewedAt: Date | null): bo
 }
 
 /**
- * One line of text for a state (pure; badges, cards, feeds, API display fields):
- * "safe at r3 · changed since", "rework at r2", "waiting for review", "not reviewed".
- * A build asked again after a change adds "· waiting for review".
- */
-/**
  * The review state as the JSON API gives it (list items and build detail): the label, its words, the
  * latest verdict and the revision it was given on, and the flag counts. "safe" is a peer's opinion.
  */
@@ -81,26 +79,44 @@ export function reviewStateJson(s: ReviewState) {
 	};
 }
 
+/**
+ * One line of text for a state (pure; stamps, cards, feeds, API display fields), in the workshop's words:
+ * "Signed off as safe at Rev C", "Sent back for changes at Rev B", "Edited since sign-off at Rev C",
+ * "Edited since send-back at Rev B", "Waiting for review", "Not reviewed". A build asked again after an
+ * edit adds " · waiting for review".
+ */
 export function reviewLabelText(state: Pick<ReviewState, 'label' | 'verdict' | 'verdictRevision' | 'waiting'>): string {
-	if (!state.verdict || state.verdictRevision === null) return state.waiting ? 'waiting for review' : 'not reviewed';
-	let text = `${state.verdict} at r${state.verdictRevision}`;
-	if (state.label === 'safe-changed' || state.label === 'rework-changed') text += ' · changed since';
+	if (!state.verdict || state.verdictRevision === null) return state.waiting ? 'Waiting for review' : 'Not reviewed';
+	const rev = revisionLabel(state.verdictRevision);
+	const edited = state.label === 'safe-changed' || state.label === 'rework-changed';
+	let text = edited
+		? `Edited since ${state.verdict === 'safe' ? 'sign-off' : 'send-back'} at ${rev}`
+		: state.verdict === 'safe'
+			? `Signed off as safe at ${rev}`
+			: `Sent back for changes at ${rev}`;
 	if (state.waiting) text += ' · waiting for review';
 	return text;
 }
 
+/** A review's outcome in words, pinned to its revision: "Signed off as safe at Rev B" / "Sent back for changes at Rev B". */
+export function verdictText(verdict: Verdict, revision: number): string {
+	return `${verdict === 'safe' ? 'Signed off as safe' : 'Sent back for changes'} at ${revisionLabel(revision)}`;
+}
+
+/** The outcome's short name: "Sign-off" / "Send-back". */
+export const VERDICT_NAMES: Record<Verdict, string> = { safe: 'Sign-off', rework: 'Send-back' };
 
 /** Human names of the review labels (browse filters, API display). */
 export const REVIEW_LABEL_NAMES: Record<ReviewLabel, string> = {
 	unreviewed: 'Not reviewed',
 	waiting: 'Waiting for review',
-	safe: 'Safe (current revision)',
-	rework: 'Rework (current revision)',
-	'safe-changed': 'Safe, changed since',
-	'rework-changed': 'Rework, changed since'
+	safe: 'Signed off as safe (current revision)',
+	rework: 'Sent back for changes (current revision)',
+	'safe-changed': 'Edited since sign-off',
+	'rework-changed': 'Edited since send-back'
 };
 
-/** Safety-flag categories (PRODUCT.md §3), stored value → label. */
+/** Hazard-tag categories (PRODUCT.md §3), stored value → label. */
 export const FLAG_CATEGORIES = {
 	'mains-earth': 'Mains & earth',
 	heat: 'Heat',
@@ -113,28 +129,31 @@ export type FlagCategory = keyof typeof FLAG_CATEGORIES;
 export const FLAG_CATEGORY_VALUES = Object.keys(FLAG_CATEGORIES) as [FlagCategory, ...FlagCategory[]];
 
 /**
- * Safety-flag severities, mildest first: "check" (worth a second look), "fix" (fix before regular use),
+ * How urgent a hazard tag is, mildest first: "check" (look again), "fix" (fix before regular use),
  * "stop" (do not power it up until fixed).
  */
 export const FLAG_SEVERITIES = {
-	check: 'Check',
+	check: 'Look again',
 	fix: 'Fix before use',
-	stop: 'Stop: do not power up'
+	stop: 'Do not power up'
 } as const;
 export type FlagSeverity = keyof typeof FLAG_SEVERITIES;
 export const FLAG_SEVERITY_VALUES = Object.keys(FLAG_SEVERITIES) as [FlagSeverity, ...FlagSeverity[]];
 
-/** Flag states: open → addressed (by the maker) → resolved (by a reviewer), or reopened to open. */
-export const FLAG_STATES = { open: 'Open', addressed: 'Addressed', resolved: 'Resolved' } as const;
+/**
+ * Hazard-tag states: tagged (API `open`) → fixed by the maker (`addressed`) → cleared by a reviewer
+ * (`resolved`), or re-tagged (back to `open`).
+ */
+export const FLAG_STATES = { open: 'Tagged', addressed: 'Fixed', resolved: 'Cleared' } as const;
 export type FlagState = keyof typeof FLAG_STATES;
 
-/** What a flag points at. */
+/** What a hazard tag points at. */
 export const FLAG_TARGET_KINDS = { step: 'Step', spec: 'Spec block', part: 'Part line' } as const;
 export type FlagTargetKind = keyof typeof FLAG_TARGET_KINDS;
 
-/** Shown wherever verdicts show (PRODUCT.md §4.11). */
+/** Shown wherever sign-offs show (PRODUCT.md §4.11). */
 export const PEER_OPINION_NOTE =
-	'“Safe” is a peer’s opinion of one revision, not a certification. Mains, stored charge and heat can hurt: defer to local electrical codes and licensed practice.';
+	'A sign-off as “safe” is one reviewer’s opinion of one revision, not a certification. Mains, stored charge and heat can hurt: defer to local electrical codes and licensed practice.';
 
 /** The build page's review panel (built by getReviewPanel on the server). */
 export interface PanelPerson {

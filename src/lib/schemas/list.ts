@@ -9,21 +9,21 @@ export type ListSort = (typeof LIST_SORTS)[number];
 
 export const SORT_LABELS: Record<ListSort, string> = {
 	recent: 'Newest',
-	'most-derived': 'Most derived',
+	'most-derived': 'Most built upon',
 	'recently-reviewed': 'Recently reviewed',
 	relevance: 'Best match'
 };
 
-/** Review-state filter values: the review labels, with both "changed since" labels folded into `changed`. */
+/** Review-state filter values: the review labels, with both "edited since" labels folded into `changed`. */
 export const REVIEW_FILTERS = ['unreviewed', 'waiting', 'safe', 'rework', 'changed'] as const;
 export type ReviewFilter = (typeof REVIEW_FILTERS)[number];
 
 export const REVIEW_FILTER_LABELS: Record<ReviewFilter, string> = {
 	unreviewed: 'Not reviewed',
 	waiting: 'Waiting for review',
-	safe: 'Safe (this revision)',
-	rework: 'Rework (this revision)',
-	changed: 'Changed since verdict'
+	safe: 'Signed off as safe (this revision)',
+	rework: 'Sent back for changes (this revision)',
+	changed: 'Edited since sign-off or send-back'
 };
 
 /** The `mains` filter: 'true' = mains powered, 'false' = runs from a low-voltage supply or batteries. */

@@ -1,28 +1,28 @@
-/** Input shapes for review, flags, comments and reports: shared by form actions, API routes and forms. */
+/** Input shapes for review, hazard tags (code: flags), comments and reports: shared by form actions, API routes and forms. */
 import { z } from 'zod';
 import { FLAG_CATEGORY_VALUES, FLAG_SEVERITY_VALUES } from '$lib/reviews';
 import { UUID_PATTERN } from '$lib/uuid';
 
 const uuid = z.string().trim().regex(UUID_PATTERN, 'Not a valid id.');
 
-/** A reviewer raises a safety flag on a step, a spec block or a part line. */
+/** A reviewer tags a hazard on a step, a spec block or a part line. */
 export const raiseFlagSchema = z.object({
-	targetKind: z.enum(['step', 'spec', 'part'], { message: 'Choose what the flag points at.' }),
+	targetKind: z.enum(['step', 'spec', 'part'], { message: 'Choose what the tag points at.' }),
 	targetId: uuid,
-	category: z.enum(FLAG_CATEGORY_VALUES, { message: 'Choose a category.' }),
-	severity: z.enum(FLAG_SEVERITY_VALUES, { message: 'Choose a severity.' }),
+	category: z.enum(FLAG_CATEGORY_VALUES, { message: 'Choose what kind of hazard it is.' }),
+	severity: z.enum(FLAG_SEVERITY_VALUES, { message: 'Choose how urgent it is.' }),
 	note: z.string().trim().min(3, 'Say what is wrong and why (at least 3 characters).').max(5000, 'Keep the note under 5000 characters.')
 });
 export type RaiseFlagInput = z.infer<typeof raiseFlagSchema>;
 
-/** The maker says what they changed for a flag. */
+/** The maker says what they fixed for a hazard tag. */
 export const addressFlagSchema = z.object({
 	note: z.string().trim().min(3, 'Say what you changed (at least 3 characters).').max(5000, 'Keep the note under 5000 characters.')
 });
 
-/** A reviewer's verdict with its summary. */
+/** A reviewer's sign-off (`safe`) or send-back (`rework`) with its summary. */
 export const reviewSchema = z.object({
-	verdict: z.enum(['safe', 'rework'], { message: 'Choose safe or rework.' }),
+	verdict: z.enum(['safe', 'rework'], { message: 'Choose: sign off as safe, or send back for changes.' }),
 	summary: z
 		.string()
 		.trim()

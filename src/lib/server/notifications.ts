@@ -1,5 +1,6 @@
 /**
- * E-mail notifications (PRODUCT.md §4.5, §4.6): a review or a safety flag lands on a maker's build, or
+ * E-mail notifications (PRODUCT.md §4.5, §4.6): a review (sign-off or send-back) or a hazard tag lands on a
+ * maker's build (code word for a hazard tag: `flag`), or
  * someone replies to a member's comment. Each kind can be turned off in /account or with the signed
  * one-click link in every message (/unsubscribe?token=…). Mail goes through the durable queue in
  * PostgreSQL (enqueueMail), so an SMTP outage delays it but loses none.
@@ -11,7 +12,8 @@ import { building } from '$app/environment';
 import { db } from './db';
 import * as schema from './db/schema';
 import { composeMail, enqueueMail, type MailMessage } from './mail';
-import { FLAG_CATEGORIES, FLAG_SEVERITIES, type FlagCategory, type FlagSeverity } from '$lib/reviews';
+import { FLAG_CATEGORIES, FLAG_SEVERITIES, verdictText, type FlagCategory, type FlagSeverity } from '$lib/reviews';
+import { revisionLabel } from '$lib/revision-label';
 
 export const NOTIFY_KINDS = ['review', 'flag', 'reply'] as const;
 export type NotifyKind = (typeof NOTIFY_KINDS)[number];
@@ -19,7 +21,7 @@ export type NotifyKind = (typeof NOTIFY_KINDS)[number];
 /** What each kind is, in words for the settings page and the unsubscribe page. */
 export const NOTIFY_KIND_TEXT: Record<NotifyKind, string> = {
 	review: 'a review lands on one of your builds',
-	flag: 'a safety flag is raised on one of your builds',
+	flag: 'a reviewer tags a hazard on one of your builds',
 	reply: 'someone replies to one of your comments'
 };
 
@@ -126,7 +128,7 @@ export function excerpt(md: string, max = 400): string {
 	return flat.length > max ? `${flat.slice(0, max - 1).trimEnd()}…` : flat;
 }
 
-/** Tell a build's maker a reviewer gave a verdict. */
+/** Tell a build's maker a reviewer signed off or sent back one revision of their build. */
 export async function notifyReview(p: {
 	ownerId: string;
 	reviewerName: string;
@@ -138,14 +140,16 @@ export async function notifyReview(p: {
 	return send(p.ownerId, 'review', (to, unsub) =>
 		composeMail({
 			to: to.email,
-			subject: `Review of “${p.build.title}”: ${p.verdict} at r${p.revision}`,
+			subject: `${verdictText(p.verdict, p.revision)}: “${p.build.title}”`,
 			paragraphs: [
 				`Hello ${to.name},`,
-				`${p.reviewerName} reviewed revision r${p.revision} of your build “${p.build.title}” and gave the verdict: ${p.verdict === 'safe' ? 'safe' : 'rework needed'}.`,
+				p.verdict === 'safe'
+					? `${p.reviewerName} reviewed ${revisionLabel(p.revision)} of your build “${p.build.title}” and signed it off as safe.`
+					: `${p.reviewerName} reviewed ${revisionLabel(p.revision)} of your build “${p.build.title}” and sent it back for changes.`,
 				`Summary: ${excerpt(p.summaryMd)}`,
 				p.verdict === 'rework'
-					? 'Open flags are listed at the top of the build page. Mark each one addressed when you have changed the build, then ask for review again.'
-					: '“Safe” is a peer’s opinion of that revision, not a certification; keep deferring to local codes and licensed practice.'
+					? 'The hazard tags are listed at the top of the build page. Mark each one fixed when you have changed the build, then ask for review again.'
+					: 'A sign-off as “safe” is a peer’s opinion of that revision, not a certification; keep deferring to local codes and licensed practice.'
 			],
 			action: { label: 'Open the build', url: buildUrl(p.build.slug, '#review-state') },
 			unsubscribeUrl: unsub
@@ -153,7 +157,7 @@ export async function notifyReview(p: {
 	);
 }
 
-/** Tell a build's maker a reviewer raised a safety flag. */
+/** Tell a build's maker a reviewer tagged a hazard on their build. */
 export async function notifyFlag(p: {
 	ownerId: string;
 	reviewerName: string;
@@ -169,14 +173,14 @@ export async function notifyFlag(p: {
 	return send(p.ownerId, 'flag', (to, unsub) =>
 		composeMail({
 			to: to.email,
-			subject: `Safety flag on “${p.build.title}”: ${category}`,
+			subject: `Hazard tagged on “${p.build.title}”: ${category}`,
 			paragraphs: [
 				`Hello ${to.name},`,
-				`${p.reviewerName} raised a safety flag (${category}, ${severity}) on ${p.targetLabel} of your build “${p.build.title}”.`,
+				`${p.reviewerName} tagged a hazard (${category}; ${severity.toLowerCase()}) on ${p.targetLabel} of your build “${p.build.title}”.`,
 				`Note: ${excerpt(p.noteMd)}`,
-				'When you have dealt with it, mark the flag addressed with a note saying what you changed.'
+				'When you have fixed it, mark the tag fixed with a note saying what you changed; a reviewer then clears it.'
 			],
-			action: { label: 'See the flag', url: `${origin()}/builds/${p.build.slug}/flags/${p.flagId}` },
+			action: { label: 'See the hazard tag', url: `${origin()}/builds/${p.build.slug}/hazards/${p.flagId}` },
 			unsubscribeUrl: unsub
 		})
 	);

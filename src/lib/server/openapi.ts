@@ -96,8 +96,8 @@ const eseriesOut = z.object({
 	errorPct: num('100·(nearest − value)/value')
 });
 const check = z.object({
-	id: z.string().describe('Stable check id, e.g. supply.no-fuse'),
-	level: z.enum(['note', 'caution', 'danger']),
+	id: z.string().describe('Stable rule id of the check, e.g. supply.no-fuse (for programs and reviewers; pages show it only in a tooltip)'),
+	level: z.enum(['note', 'caution', 'danger']).describe('Shown on pages with the safety-sign signal words NOTICE, CAUTION, DANGER (ANSI Z535 / ISO 3864)'),
 	message: z.string(),
 	values: z.record(z.string(), z.unknown())
 });
@@ -114,16 +114,18 @@ const photoOut = z.object({
 const makerOut = z.object({ name: z.string(), handle: z.string().nullable() });
 const reviewOut = z
 	.object({
-		label: z.enum(['unreviewed', 'waiting', 'safe', 'rework', 'safe-changed', 'rework-changed']),
-		text: z.string().describe('"safe at r3 · changed since" — a peer’s opinion, never a certification'),
-		verdict: z.enum(['safe', 'rework']).nullable(),
-		verdictRevision: z.number().int().nullable(),
-		currentRevision: z.number().int(),
+		label: z
+			.enum(['unreviewed', 'waiting', 'safe', 'rework', 'safe-changed', 'rework-changed'])
+			.describe('safe = signed off as safe at the current revision; rework = sent back for changes; *-changed = edited since'),
+		text: z.string().describe('"Signed off as safe at Rev C", "Edited since sign-off at Rev C" — a peer’s opinion, never a certification'),
+		verdict: z.enum(['safe', 'rework']).nullable().describe('safe = sign-off, rework = send-back; null before any review'),
+		verdictRevision: z.number().int().nullable().describe('Revision number the sign-off or send-back was recorded against (1 = Rev A, 2 = Rev B, …)'),
+		currentRevision: z.number().int().describe('The build’s current revision number (1 = Rev A)'),
 		reviewedAt: z.string().nullable().describe('ISO 8601'),
 		reviewer: z.object({ name: z.string(), handle: z.string().nullable() }).nullable(),
 		waiting: z.boolean(),
-		openFlags: z.number().int(),
-		addressedFlags: z.number().int()
+		openFlags: z.number().int().describe('Hazard tags still tagged'),
+		addressedFlags: z.number().int().describe('Hazard tags the maker marked fixed, waiting for a reviewer to clear them')
 	})
 	.nullable();
 const listItem = z.object({
@@ -139,13 +141,13 @@ const listItem = z.object({
 	licence: z.string().describe('SPDX identifier'),
 	status: z.enum(['published', 'archived']),
 	revision: z.number().int(),
-	derivedCount: z.number().int(),
+	derivedCount: z.number().int().describe('How many builds were started from this one (builds based on it)'),
 	locked: z.boolean(),
 	publishedAt: z.string().describe('ISO 8601').nullable(),
 	updatedAt: z.string().describe('ISO 8601').nullable(),
 	maker: makerOut,
 	cover: photoOut.nullable(),
-	derivedFrom: z.object({ slug: z.string(), title: z.string().nullable(), url: z.string() }).nullable(),
+	derivedFrom: z.object({ slug: z.string(), title: z.string().nullable(), url: z.string() }).nullable().describe('The build this one was started from (“based on”), if any'),
 	review: reviewOut.optional(),
 	match: z
 		.object({
@@ -175,8 +177,8 @@ const detailOut = z.looseObject({
 	steps: z.array(z.looseObject({ id: z.string(), number: z.number().int(), title: z.string(), bodyHtml: z.string(), photos: z.array(photoOut) })),
 	specBlocks: z.array(z.looseObject({ id: z.string(), kind: z.enum(SPEC_KINDS), data: z.record(z.string(), z.unknown()), derived: z.record(z.string(), z.unknown()), checks: z.array(check) })),
 	parts: z.array(z.looseObject({ id: z.string(), designators: z.string(), quantity: z.number().int(), kind: z.string(), valueText: z.string(), value: z.number().nullable() })),
-	review: reviewOut.describe('Latest review state: verdict, the revision it was given on, open flags'),
-	lineage: z.object({ derivedFrom: z.unknown().nullable(), derivedBuilds: z.array(z.unknown()) })
+	review: reviewOut.describe('Latest review state: sign-off or send-back, the revision it was recorded against, hazard tags'),
+	lineage: z.object({ derivedFrom: z.unknown().nullable(), derivedBuilds: z.array(z.unknown()) }).describe('derivedFrom: the build this one is based on; derivedBuilds: the builds based on this one')
 });
 const commentItem: z.ZodType = z.looseObject({
 	id: z.string(),
@@ -220,7 +222,7 @@ export const OPERATIONS: Operation[] = [
 		method: 'get',
 		path: '/api/v1/builds/{slug}',
 		tag: 'Builds',
-		summary: 'One build with steps, spec blocks, parts list, review state and lineage',
+		summary: 'One build with steps, spec blocks, parts list, review state, and the build it is based on',
 		description: 'Published and archived builds for everyone; a draft only for its maker (404 for anyone else).',
 		response: detailOut,
 		errors: [404],
@@ -338,7 +340,7 @@ export const OPERATIONS: Operation[] = [
 		method: 'post',
 		path: '/api/v1/spec-check',
 		tag: 'Spec checks',
-		summary: 'Check a spec block: derived values and the checks that fire',
+		summary: 'Check a spec block: the values worked out from its numbers, and its checks',
 		description:
 			'`data` is validated by the schema of its `kind`; issue paths start with `data.`. Checks are note, caution or danger. A passing check is a calculation, not a safety approval: mains, stored charge and heat can hurt — defer to local electrical codes and licensed practice.',
 		body: specCheckBody,
@@ -525,7 +527,7 @@ export function openApiDocument(origin?: string) {
 			version: '1',
 			summary: 'Build journals, spec checks and bench tools for DIY audio.',
 			description:
-				'JSON over HTTP. Numbers are plain SI values and every numeric field name ends in its unit (railV, loadOhm, cornerHz). Errors share one envelope (components.schemas.Error). Public reads carry a weak ETag and answer 304 to If-None-Match. A “safe” review verdict is a peer’s opinion of one revision, never a certification.'
+				'JSON over HTTP. Numbers are plain SI values and every numeric field name ends in its unit (railV, loadOhm, cornerHz). Errors share one envelope (components.schemas.Error). Public reads carry a weak ETag and answer 304 to If-None-Match. A sign-off as “safe” is a peer’s opinion of one revision, never a certification.'
 		},
 		servers: [{ url: origin ?? '/' }],
 		tags: Object.entries(TAG_TEXT).map(([name, description]) => ({ name, description })),

@@ -333,7 +333,7 @@ describe('derive', () => {
 		const child = await derive(other, o.id);
 		const c = await buildRow(child.id);
 		expect(c).toMatchObject({ ownerId: other.id, status: 'draft', derivedFromId: o.id, category: 'power-amp', mainsPowered: true });
-		expect(c.title.endsWith('(derived)')).toBe(true);
+		expect(c.title.endsWith('(my build)')).toBe(true);
 		expect((await buildRow(o.id)).derivedCount).toBe(1);
 
 		const parts = await db.select().from(schema.partLine).where(eq(schema.partLine.buildId, child.id)).orderBy(asc(schema.partLine.position));

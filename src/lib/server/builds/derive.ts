@@ -9,9 +9,9 @@ import { createDraft, lockBuild } from './edit';
 import { refreshSearchText } from './search';
 import { inTx } from '../db/tx';
 
-/** Title of a derived draft: the origin's, marked, within TITLE_MAX. "Quiet class A amp" → "Quiet class A amp (derived)". */
+/** Title of a draft started from another build: the original's, marked, within TITLE_MAX. "Quiet class A amp" → "Quiet class A amp (my build)". */
 export function derivedTitle(originTitle: string): string {
-	const mark = ' (derived)';
+	const mark = ' (my build)';
 	const room = TITLE_MAX - mark.length;
 	const base = originTitle.length > room ? `${originTitle.slice(0, room - 1).trimEnd()}…` : originTitle;
 	return `${base}${mark}`;
@@ -33,7 +33,7 @@ export async function derive(
 	return inTx(tx, async (t) => {
 		const origin = await lockBuild(t, originId);
 		if (origin.status !== 'published') {
-			error(origin.status === 'draft' ? 404 : 409, origin.status === 'draft' ? 'Not found' : 'Only a published build can be derived.');
+			error(origin.status === 'draft' ? 404 : 409, origin.status === 'draft' ? 'Not found' : 'Only a published build can be started from.');
 		}
 		const input: BuildInput = {
 			title: opts.title ?? derivedTitle(origin.title),

@@ -17,7 +17,7 @@ import { inTx } from '../db/tx';
 import type { Actor } from '../actor';
 import { roleAtLeast } from '$lib/roles';
 import { addressFlagSchema, raiseFlagSchema, type RaiseFlagInput } from '$lib/schemas/review';
-import type { FlagState } from '$lib/reviews';
+import { FLAG_STATES, type FlagState } from '$lib/reviews';
 import { requireTarget } from './targets';
 
 
@@ -114,9 +114,9 @@ export async function addressFlag(actor: Actor, flagId: string, note: string, op
 	const data = addressFlagSchema.parse({ note });
 	return inTx(opts.tx, async (tx) => {
 		const { flag, build } = await lockFlag(tx, flagId);
-		if (actor.id !== build.ownerId) error(403, 'Only the maker of this build can mark its flags addressed.');
-		if (build.locked) error(403, 'A moderator has locked this build, so its flags cannot be changed for now.');
-		if (flag.state !== 'open') error(409, `This flag is ${flag.state}, not open: only open flags can be marked addressed.`);
+		if (actor.id !== build.ownerId) error(403, 'Only the maker of this build can mark its hazard tags fixed.');
+		if (build.locked) error(403, 'A moderator has locked this build, so its hazard tags cannot be changed for now.');
+		if (flag.state !== 'open') error(409, `This hazard tag is ${FLAG_STATES[flag.state as FlagState]?.toLowerCase() ?? flag.state}, not tagged: only a tag still tagged can be marked fixed.`);
 		await tx
 			.update(schema.safetyFlag)
 			.set({ state: 'addressed', addressedNote: data.note, addressedAt: new Date(), updatedAt: new Date() })
@@ -142,10 +142,10 @@ export async function setFlagState(
 ): Promise<BuildForReview> {
 	return inTx(opts.tx, async (tx) => {
 		const { flag, build } = await lockFlag(tx, flagId);
-		if (!roleAtLeast(actor.role, 'reviewer')) error(403, 'Only reviewers can resolve or reopen flags.');
-		if (actor.id === build.ownerId) error(403, 'A maker cannot resolve or reopen flags on their own build.');
+		if (!roleAtLeast(actor.role, 'reviewer')) error(403, 'Only reviewers can clear or re-tag hazard tags.');
+		if (actor.id === build.ownerId) error(403, 'A maker cannot clear or re-tag hazard tags on their own build.');
 		if (!FROM[change].includes(flag.state as FlagState)) {
-			error(409, change === 'resolve' ? 'This flag is already resolved.' : 'This flag is already open.');
+			error(409, change === 'resolve' ? 'This hazard tag is already cleared.' : 'This hazard tag is already tagged.');
 		}
 		const now = new Date();
 		await tx

@@ -1,5 +1,6 @@
 // Integration (real PostgreSQL): flag lifecycle and who may move it, verdicts pinned to revisions, the
 // review desk, and notification opt-outs (nothing queued when a member turned a kind off).
+import { revisionLabel } from '$lib/revision-label';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
 import { db } from '../db';
@@ -56,7 +57,7 @@ const flagInput = (targetId: string, kind: 'step' | 'spec' | 'part' = 'step') =>
 	note: 'The tab sits at V− and the heatsink is bonded to the chassis: add an insulator.'
 });
 
-describe('safety flags: who may raise and move them', () => {
+describe('hazard tags (code: flags): who may tag and move them', () => {
 	it('only reviewers who are not the maker raise flags, on targets of the same build', async () => {
 		await expect(raiseFlag(other, build.id, flagInput(build.steps.heatsink))).rejects.toMatchObject({ status: 403 });
 		await expect(raiseFlag(owner, build.id, flagInput(build.steps.heatsink))).rejects.toMatchObject({ status: 403 });
@@ -69,7 +70,7 @@ describe('safety flags: who may raise and move them', () => {
 		await expect(raiseFlag(reviewer, build.id, flagInput(ownReviewerBuild.steps.heatsink))).rejects.toMatchObject({ status: 422 });
 	});
 
-	it('open → addressed (maker only) → resolved (reviewer only) → reopened → addressed again', async () => {
+	it('tagged → fixed (maker only) → cleared (reviewer only) → re-tagged → fixed again', async () => {
 		const id = await raiseFlag(reviewer, build.id, flagInput(build.steps.heatsink), { notify: false });
 		const state = async () => (await db.select().from(schema.safetyFlag).where(eq(schema.safetyFlag.id, id)))[0];
 		expect((await state()).state).toBe('open');
@@ -120,8 +121,8 @@ describe('safety flags: who may raise and move them', () => {
 	});
 });
 
-describe('verdicts pinned to revisions', () => {
-	it('rework at r1, the build changes, it returns to the desk, safe only once flags are resolved', async () => {
+describe('sign-offs and send-backs pinned to revisions', () => {
+	it('sent back at Rev A, the build is edited, it returns to the desk, signed off only once tags are cleared', async () => {
 		const r0 = await getReviewState(build.id);
 		expect(r0.verdict).toBeNull();
 
@@ -130,7 +131,7 @@ describe('verdicts pinned to revisions', () => {
 		await expect(requestReview(other, build.id)).rejects.toMatchObject({ status: 403 });
 		let s = await getReviewState(build.id);
 		expect(s.label).toBe('waiting');
-		expect(reviewLabelText(s)).toBe('waiting for review');
+		expect(reviewLabelText(s)).toBe('Waiting for review');
 		expect((await listWaiting()).some((w) => w.id === build.id)).toBe(true);
 		const desk = (await listWaiting()).find((w) => w.id === build.id)!;
 		expect(desk.mainsPowered).toBe(true);
@@ -147,24 +148,24 @@ describe('verdicts pinned to revisions', () => {
 
 		s = await getReviewState(build.id);
 		expect(s).toMatchObject({ label: 'rework', verdict: 'rework', verdictRevision: rev1, waiting: false, openFlags: 1 });
-		expect(reviewLabelText(s)).toBe(`rework at r${rev1}`);
+		expect(reviewLabelText(s)).toBe(`Sent back for changes at ${revisionLabel(rev1)}`);
 		const [row] = await db.select().from(schema.build).where(eq(schema.build.id, build.id));
 		expect(row.reviewRequestedAt).toBeNull();
 		expect(row.lastReviewedAt).not.toBeNull();
 		expect((await listWaiting()).some((w) => w.id === build.id)).toBe(false);
 
-		// The maker changes the build: a new revision; the verdict stays with r1.
+		// The maker changes the build: a new revision; the send-back stays with Rev A.
 		await addressFlag(owner, flag, 'Insulator fitted, see the new step.');
 		await addStep(owner, build.id, { title: 'Tab insulation', bodyMd: 'Mica, grease, shoulder washer.' });
 		s = await getReviewState(build.id);
 		expect(s.currentRevision).toBe(rev1 + 1);
 		expect(s).toMatchObject({ label: 'rework-changed', verdictRevision: rev1 });
-		expect(reviewLabelText(s)).toBe(`rework at r${rev1} · changed since`);
+		expect(reviewLabelText(s)).toBe(`Edited since send-back at ${revisionLabel(rev1)}`);
 
 		await requestReview(owner, build.id);
 		s = await getReviewState(build.id);
 		expect(s.waiting).toBe(true);
-		expect(reviewLabelText(s)).toBe(`rework at r${rev1} · changed since · waiting for review`);
+		expect(reviewLabelText(s)).toBe(`Edited since send-back at ${revisionLabel(rev1)} · waiting for review`);
 		expect((await listWaiting()).find((w) => w.id === build.id)?.previous).toEqual({ verdict: 'rework', revision: rev1 });
 
 		await setFlagState(reviewer, flag, 'resolve');
@@ -173,13 +174,13 @@ describe('verdicts pinned to revisions', () => {
 		s = (await getReviewStates([build.id])).get(build.id)!;
 		expect(s).toMatchObject({ label: 'safe', verdict: 'safe', verdictRevision: rev1 + 1, waiting: false, openFlags: 0 });
 		expect(s.reviewer?.name).toContain('Reviewer');
-		expect(reviewLabelText(s)).toBe(`safe at r${rev1 + 1}`);
+		expect(reviewLabelText(s)).toBe(`Signed off as safe at ${revisionLabel(rev1 + 1)}`);
 
-		// A further change makes it "safe … changed since".
+		// A further change makes it "edited since sign-off".
 		await addStep(owner, build.id, { title: 'Listening notes', bodyMd: 'Quiet at idle.' });
 		s = await getReviewState(build.id);
 		expect(s.label).toBe('safe-changed');
-		expect(reviewLabelText(s)).toBe(`safe at r${rev1 + 1} · changed since`);
+		expect(reviewLabelText(s)).toBe(`Edited since sign-off at ${revisionLabel(rev1 + 1)}`);
 
 		const panel = await getReviewPanel(build.id, owner);
 		expect(panel.reviews.map((r) => [r.verdict, r.revision])).toEqual([
@@ -222,7 +223,7 @@ describe('notifications respect the opt-outs', () => {
 
 		await raiseFlag({ ...reviewer, name: 'Reviewer R' }, b.id, flagInput(b.steps.heatsink));
 		let mail = await queuedMailTo(email, t0);
-		expect(mail.map((m) => m.subject)).toEqual([`Safety flag on “${b.title}”: Heat`]);
+		expect(mail.map((m) => m.subject)).toEqual([`Hazard tagged on “${b.title}”: Heat`]);
 
 		await db.update(schema.user).set({ notifyFlag: false, notifyReview: false }).where(eq(schema.user.id, maker.id));
 		const t1 = new Date();
@@ -234,6 +235,6 @@ describe('notifications respect the opt-outs', () => {
 		await db.update(schema.user).set({ notifyReview: true }).where(eq(schema.user.id, maker.id));
 		await submitReview(reviewer2, b.id, { verdict: 'rework', summary: 'Agree with the flags raised.' });
 		mail = await queuedMailTo(email, t1);
-		expect(mail.map((m) => m.subject)).toEqual([`Review of “${b.title}”: rework at r${(await getReviewState(b.id)).currentRevision}`]);
+		expect(mail.map((m) => m.subject)).toEqual([`Sent back for changes at ${revisionLabel((await getReviewState(b.id)).currentRevision)}: “${b.title}”`]);
 	});
 });

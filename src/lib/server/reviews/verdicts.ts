@@ -57,7 +57,7 @@ export async function submitReview(
 			if (n > 0) {
 				error(
 					409,
-					`This build has ${n} open safety flag${n === 1 ? '' : 's'}. Resolve ${n === 1 ? 'it' : 'them'} first, or give the verdict "rework".`
+					`This build still has ${n} hazard tag${n === 1 ? '' : 's'} tagged. Clear ${n === 1 ? 'it' : 'them'} first, or send the build back for changes.`
 				);
 			}
 		}

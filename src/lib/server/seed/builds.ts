@@ -92,7 +92,7 @@ async function seedPhotos(tx: Tx, demo: DemoBuild, buildId: string, ownerId: str
 	}
 }
 
-/** Reviews in each state the scenario needs: safe, rework with open flags, waiting, safe but changed since. */
+/** Reviews in each state the scenario needs: signed off, sent back with hazard tags, waiting, edited since sign-off. */
 async function seedReviews(tx: Tx, ids: Ids, seeded: Seeded[]) {
 	const reviewer = ids.reviewer;
 	const day = 24 * 3600 * 1000;
@@ -148,7 +148,7 @@ async function seedReviews(tx: Tx, ids: Ids, seeded: Seeded[]) {
 			}
 		}
 		if (kind === 'safe-changed') {
-			// The maker changed the build after the verdict: r2, so the badge reads "safe at r1 · changed since".
+			// The maker edited the build after the sign-off: Rev B, so the stamp reads "Edited since sign-off at Rev A".
 			await addStep({ id: s.ownerId, role: 'maker' }, s.id, {
 				title: 'Later: a soft-start for the toroid',
 				bodyMd: 'I added an inrush limiter (a thermistor shorted by a relay after two seconds). The fuse no longer flickers at switch-on.'

@@ -519,5 +519,5 @@ export const DEMO_BUILDS: DemoBuild[] = [
 	}
 ];
 
-/** Ravi derives the chip amp for his own ±24 V variant (a draft). */
+/** Ravi starts his own ±24 V variant (a draft) from the chip amp. */
 export const DEMO_DERIVE = { from: 'chipamp', by: 'maker3' as DemoMemberKey, title: 'Chip amp on ±24 V for bookshelf speakers' };

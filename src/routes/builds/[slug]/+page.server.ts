@@ -16,6 +16,7 @@ import {
 import { getFlagMarkers, getReviewPanel } from '$lib/server/reviews';
 import { listComments } from '$lib/server/comments';
 import { isOnBench } from '$lib/server/bench';
+import { revisionLabel } from '$lib/revision-label';
 import type { Actions, PageServerLoad } from './$types';
 import { actorOf } from '$lib/server/actor';
 import { attempt } from '$lib/server/http';
@@ -84,7 +85,7 @@ export const actions: Actions = {
 		const b = await found(params.slug);
 		const r = await attempt(() => publish(actor, b.id));
 		if (!r.ok) return r.failure;
-		return { ok: `Published as r${r.value}.` };
+		return { ok: `Published as ${revisionLabel(r.value)}.` };
 	},
 	archive: async ({ params }) => {
 		const actor = actorOf(requireUser());
@@ -98,7 +99,7 @@ export const actions: Actions = {
 		const b = await found(params.slug);
 		const r = await attempt(() => derive(actor, b.id));
 		if (!r.ok) return r.failure;
-		redirect(303, `/builds/${r.value.slug}/edit?derived=1`);
+		redirect(303, `/builds/${r.value.slug}/edit?started=1`);
 	},
 	lock: async ({ params, request }) => {
 		const actor = actorOf(requireUser());

@@ -10,9 +10,9 @@ import { actorOf } from '$lib/server/actor';
 export const load: PageServerLoad = async ({ params, locals }) => {
 	const viewer = actorOf(locals.user);
 	const b = await requireVisibleBuild(params.slug, viewer);
-	if (!b.derivedFromId) error(404, 'This build was not derived from another, so there is nothing to compare.');
+	if (!b.derivedFromId) error(404, 'This build was not started from another, so there is nothing to compare.');
 	const [origin] = await db.select().from(schema.build).where(eq(schema.build.id, b.derivedFromId));
-	if (!origin || !canView(viewer, origin)) error(404, 'The build this one was derived from is no longer available.');
+	if (!origin || !canView(viewer, origin)) error(404, 'The build this one is based on is no longer available.');
 	const parts = (buildId: string) =>
 		db.select().from(schema.partLine).where(eq(schema.partLine.buildId, buildId)).orderBy(asc(schema.partLine.position));
 	const [mine, theirs, originMaker] = await Promise.all([parts(b.id), parts(origin.id), getMaker(origin.ownerId)]);

@@ -15,6 +15,7 @@ import {
 } from '$lib/server/builds';
 import { attempt } from '$lib/server/http';
 import { buildSchema, stepSchema, type BuildInput } from '$lib/schemas/build';
+import { revisionLabel } from '$lib/revision-label';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ params, url }) => {
@@ -42,8 +43,8 @@ export const load: PageServerLoad = async ({ params, url }) => {
 		cover: content.cover,
 		steps: content.steps.map((s) => ({ id: s.id, title: s.title, bodyMd: s.bodyMd, photos: s.photos })),
 		counts: { specBlocks: content.specBlocks.length, parts: content.parts.length },
-		notice: url.searchParams.has('derived')
-			? 'Your derived draft is ready: it starts with the parts list and spec blocks of the original. Write your own steps, then publish.'
+		notice: url.searchParams.has('started')
+			? 'Your draft is ready, based on the original: it starts with its parts list and spec blocks. Write your own steps, then publish.'
 			: url.searchParams.has('created')
 				? 'Draft created. Add steps, photos, spec blocks and the parts list; publish when it is ready.'
 				: null
@@ -70,7 +71,7 @@ export const actions: Actions = {
 		const r = await attempt(() => updateBuild(actor, b.id, form.data));
 		if (!r.ok) return message(form, r.error, { status: r.status as 403 });
 		if (r.value.slug !== b.slug) redirect(303, `/builds/${r.value.slug}/edit`);
-		return message(form, r.value.revision ? `Saved as r${r.value.revision}.` : 'Saved.');
+		return message(form, r.value.revision ? `Saved as ${revisionLabel(r.value.revision)}.` : 'Saved.');
 	},
 
 	addStep: async ({ request, params }) => {

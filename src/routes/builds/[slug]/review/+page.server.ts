@@ -43,7 +43,7 @@ export const actions: Actions = {
 		if (!parsed.success) {
 			const issues: Record<string, string> = {};
 			for (const i of parsed.error.issues) issues[String(i.path[0])] ??= i.message;
-			return fail(400, { flagFailed: { targetId: values.targetId ?? '', message: 'The flag was not raised: check the fields below.', values, issues } });
+			return fail(400, { flagFailed: { targetId: values.targetId ?? '', message: 'The hazard was not tagged: check the fields below.', values, issues } });
 		}
 		const r = await attempt(() => raiseFlag(user, b.id, parsed.data));
 		if (!r.ok) return fail(r.status, { flagFailed: { targetId: parsed.data.targetId, message: r.error, values, issues: {} } });

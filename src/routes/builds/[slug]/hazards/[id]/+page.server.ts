@@ -8,7 +8,7 @@ import type { Actions, PageServerLoad } from './$types';
 import { actorOf } from '$lib/server/actor';
 import { attempt } from '$lib/server/http';
 
-/** One safety flag on its own page (mail links, and where its forms land without JavaScript). */
+/** One hazard tag on its own page (mail links, and where its forms land without JavaScript). */
 export const load: PageServerLoad = async ({ params, locals }) => {
 	const viewer = actorOf(locals.user);
 	const b = await requireVisibleBuild(params.slug, viewer);
@@ -21,7 +21,7 @@ export const load: PageServerLoad = async ({ params, locals }) => {
 };
 
 const back = (slug: string, id: string, to: FormDataEntryValue | null) =>
-	to === 'review' ? `/builds/${slug}/review#flag-${id}` : to === 'flag' ? `/builds/${slug}/flags/${id}` : `/builds/${slug}#flag-${id}`;
+	to === 'review' ? `/builds/${slug}/review#hazard-${id}` : to === 'flag' ? `/builds/${slug}/hazards/${id}` : `/builds/${slug}#hazard-${id}`;
 
 /** The flag, checked to belong to the build in the URL. */
 async function flagOfBuild(slug: string, id: string, user: Actor) {
