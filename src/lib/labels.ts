@@ -47,6 +47,6 @@ export function labelOf<K extends string>(labels: Record<K, string>, value: stri
 export const MAINS_BUILD_CAUTION =
 	'This build runs from mains voltage, and its supply capacitors hold charge after switch-off. Mains can kill: work unplugged, discharge the capacitors, and defer to local electrical codes and licensed practice.';
 
-/** Where verdicts and checks show: what "safe" means here. */
+/** Where sign-offs and checks show: what "safe" means here. */
 export const NOT_A_CERTIFICATION =
-	'A “safe” verdict is one reviewer’s opinion at one revision, not a certification.';
+	'A sign-off as “safe” is one reviewer’s opinion of one revision, not a certification.';
