@@ -3,7 +3,7 @@ import { and, eq } from 'drizzle-orm';
 import { isHttpError } from '@sveltejs/kit';
 import { db } from './db';
 import * as schema from './db/schema';
-import { setRole, setSuspended } from './members';
+import { setMemberRole as setRole, setMemberSuspended as setSuspended } from './moderation';
 import { createTestUser, removeTestUsers } from './testing/builds';
 
 async function statusOf(p: Promise<unknown>): Promise<number | 'ok'> {

@@ -3,7 +3,6 @@ import { z } from 'zod';
 import { requireRole } from '$lib/server/auth';
 import { attempt } from '$lib/server/http';
 import { actorOf } from '$lib/server/actor';
-import { setRole } from '$lib/server/members';
 import {
 	closeReport,
 	listHiddenComments,
@@ -11,6 +10,7 @@ import {
 	listReports,
 	setBuildLocked,
 	setCommentHidden,
+	setMemberRole,
 	setMemberSuspended
 } from '$lib/server/moderation';
 import { moderationReason } from '$lib/schemas/review';
@@ -89,7 +89,7 @@ export const actions: Actions = {
 		const me = actor();
 		const p = await parse(request, withReason({ userId: id, role: z.enum(['reviewer', 'maker']) }));
 		if (p.error) return p.error;
-		const r = await attempt(() => setRole(me, p.data.userId, p.data.role, p.data.reason));
+		const r = await attempt(() => setMemberRole(me, p.data.userId, p.data.role, p.data.reason));
 		if (!r.ok) return r.failure;
 		return { ok: p.data.role === 'reviewer' ? 'Appointed as reviewer.' : 'Reviewer role revoked.', target: p.target };
 	},

@@ -22,11 +22,11 @@ import {
 	publish,
 	recordRevision,
 	requireVisibleBuild,
-	setLocked,
 	updateBuild,
 	updateStep
 } from './index';
 import type { BuildInput } from '$lib/schemas/build';
+import { setBuildLocked } from '../moderation';
 
 type TestUser = Awaited<ReturnType<typeof createTestUser>>;
 let maker: TestUser, other: TestUser, admin: TestUser, moderator: TestUser;
@@ -287,15 +287,15 @@ describe('who may change a build', () => {
 	it('lets moderators lock a build (audited); its maker then cannot change it', async () => {
 		const d = await createDraft(maker.id, fields());
 		const s = await addStep(maker, d.id, { title: 'Step', bodyMd: '' });
-		expect(await statusOf(setLocked(other, d.id, true, 'no reason'))).toBe(403);
-		expect(await statusOf(setLocked(moderator, d.id, true, ''))).toBe(422);
+		expect(await statusOf(setBuildLocked(other, d.id, true, 'no reason'))).toBe(403);
+		expect(await statusOf(setBuildLocked(moderator, d.id, true, ''))).toBe(422);
 
-		await setLocked(moderator, d.id, true, 'Unsafe mains wiring advice under discussion');
+		await setBuildLocked(moderator, d.id, true, 'Unsafe mains wiring advice under discussion');
 		expect(await buildRow(d.id)).toMatchObject({ locked: true, lockedReason: 'Unsafe mains wiring advice under discussion' });
 		expect(await statusOf(updateStep(maker, s.id, { title: 'Edited', bodyMd: '' }))).toBe(403);
 		expect(await statusOf(publish(maker, d.id))).toBe(403);
 
-		await setLocked(moderator, d.id, false, 'Resolved with the maker');
+		await setBuildLocked(moderator, d.id, false, 'Resolved with the maker');
 		await updateStep(maker, s.id, { title: 'Edited', bodyMd: '' });
 		const audit = await db
 			.select({ action: schema.auditEntry.action, reason: schema.auditEntry.reason, actorId: schema.auditEntry.actorId })

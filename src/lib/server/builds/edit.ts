@@ -3,10 +3,9 @@ import { error } from '@sveltejs/kit';
 import { count, eq, like, or } from 'drizzle-orm';
 import * as schema from '../db/schema';
 import type { Tx } from '../db';
-import { recordAudit } from '../audit';
 import { buildSchema, type BuildInput } from '$lib/schemas/build';
 import type { Actor } from '../actor';
-import { assertCanEdit, canLock } from './access';
+import { assertCanEdit } from './access';
 import { nextFreeSlug, slugify } from './slug';
 import { recordRevision } from './revisions';
 import { refreshSearchText } from './search';
@@ -134,32 +133,5 @@ export async function archive(actor: Actor, buildId: string, tx?: Tx): Promise<v
 		assertCanEdit(actor, b);
 		if (b.status !== 'published') error(409, 'Only a published build can be archived.');
 		await t.update(schema.build).set({ status: 'archived', updatedAt: new Date() }).where(eq(schema.build.id, buildId));
-	});
-}
-
-/**
- * Lock or unlock a build (moderators and admins). A locked build cannot be changed by its maker.
- * Locking needs a reason; both land in the audit log with the reason.
- */
-export async function setLocked(actor: Actor, buildId: string, locked: boolean, reason: string, tx?: Tx): Promise<void> {
-	if (!canLock(actor)) error(403, 'Only moderators can lock or unlock builds.');
-	const why = reason.trim();
-	if (locked && why.length < 3) error(422, 'Give a reason for the lock (at least 3 characters); the maker sees it.');
-	if (why.length > 500) error(422, 'Keep the reason under 500 characters.');
-	await inTx(tx, async (t) => {
-		const b = await lockBuild(t, buildId);
-		if (b.locked === locked) return;
-		await t
-			.update(schema.build)
-			.set({ locked, lockedReason: locked ? why : null })
-			.where(eq(schema.build.id, buildId));
-		await recordAudit(t, {
-			actorId: actor.id,
-			action: locked ? 'build.lock' : 'build.unlock',
-			targetKind: 'build',
-			targetId: buildId,
-			reason: why,
-			details: { slug: b.slug, title: b.title }
-		});
 	});
 }

@@ -6,7 +6,7 @@ import { db } from '../db';
 import * as schema from '../db/schema';
 import { createTestUser, removeTestUsers } from '../testing/builds';
 import { AMP, SUPPLY, statusOf, testBuild } from '../testing/parts';
-import { setLocked } from '../builds';
+import { setBuildLocked } from '../moderation';
 import { deleteSpecBlock, saveSpecBlock } from '../specs';
 import { importPartsCsv, listPartLines, partsToCsv, savePartsList } from './index';
 import { emptyDraft, type PartLineDraft } from '$lib/parts';
@@ -81,7 +81,7 @@ describe('savePartsList', () => {
 		expect(await statusOf(savePartsList(moderator, b.id, [LIST[0]]))).toBe(403);
 		expect(await stored(b.id)).toEqual(before);
 		expect((await savePartsList(admin, b.id, [LIST[0]])).ok).toBe(true);
-		await setLocked(moderator, b.id, true, 'mains wiring under discussion');
+		await setBuildLocked(moderator, b.id, true, 'mains wiring under discussion');
 		expect(await statusOf(savePartsList(maker, b.id, LIST))).toBe(403);
 		expect(await stored(b.id)).toHaveLength(1);
 	});

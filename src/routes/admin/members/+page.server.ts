@@ -1,7 +1,9 @@
 import { fail } from '@sveltejs/kit';
 import { z } from 'zod';
 import { requireRole } from '$lib/server/auth';
-import { listMembers, setRole, setSuspended } from '$lib/server/members';
+import { listMembers } from '$lib/server/members';
+import { setMemberRole, setMemberSuspended } from '$lib/server/moderation';
+import { attempt } from '$lib/server/http';
 import { ROLES, assignableRoles } from '$lib/roles';
 import type { Actions, PageServerLoad } from './$types';
 import { actorOf } from '$lib/server/actor';
@@ -21,21 +23,24 @@ export const actions: Actions = {
 		const actor = actorOf(requireRole('moderator'));
 		const parsed = roleForm.safeParse(Object.fromEntries(await request.formData()));
 		if (!parsed.success) return fail(400, { error: 'Choose a valid role.' });
-		await setRole(actor, parsed.data.userId, parsed.data.role, parsed.data.reason);
+		const r = await attempt(() => setMemberRole(actor, parsed.data.userId, parsed.data.role, parsed.data.reason));
+		if (!r.ok) return r.failure;
 		return { ok: 'Role changed.' };
 	},
 	suspend: async ({ request }) => {
 		const actor = actorOf(requireRole('moderator'));
 		const parsed = suspendForm.safeParse(Object.fromEntries(await request.formData()));
 		if (!parsed.success) return fail(400, { error: parsed.error.issues[0].message, userId: null });
-		await setSuspended(actor, parsed.data.userId, true, parsed.data.reason);
+		const r = await attempt(() => setMemberSuspended(actor, parsed.data.userId, true, parsed.data.reason));
+		if (!r.ok) return r.failure;
 		return { ok: 'Member suspended; their sessions have ended.' };
 	},
 	restore: async ({ request }) => {
 		const actor = actorOf(requireRole('moderator'));
 		const parsed = restoreForm.safeParse(Object.fromEntries(await request.formData()));
 		if (!parsed.success) return fail(400, { error: 'Invalid request.' });
-		await setSuspended(actor, parsed.data.userId, false, parsed.data.reason);
+		const r = await attempt(() => setMemberSuspended(actor, parsed.data.userId, false, parsed.data.reason));
+		if (!r.ok) return r.failure;
 		return { ok: 'Member restored.' };
 	}
 };

@@ -10,13 +10,13 @@ import {
 	getBuildPage,
 	isOwner,
 	publish,
-	getBuildBySlug,
-	setLocked
+	getBuildBySlug
 } from '$lib/server/builds';
 import { getFlagMarkers, getReviewPanel } from '$lib/server/reviews';
 import { listComments } from '$lib/server/comments';
 import { isOnBench } from '$lib/server/bench';
 import { revisionLabel } from '$lib/revision-label';
+import { setBuildLocked } from '$lib/server/moderation';
 import type { Actions, PageServerLoad } from './$types';
 import { actorOf } from '$lib/server/actor';
 import { attempt } from '$lib/server/http';
@@ -107,7 +107,7 @@ export const actions: Actions = {
 		const form = await request.formData();
 		const parsed = lockSchema.safeParse({ locked: form.get('locked') === 'true', reason: form.get('reason') ?? '' });
 		if (!parsed.success) return fail(400, { error: parsed.error.issues[0].message });
-		const r = await attempt(() => setLocked(actor, b.id, parsed.data.locked, parsed.data.reason));
+		const r = await attempt(() => setBuildLocked(actor, b.id, parsed.data.locked, parsed.data.reason));
 		if (!r.ok) return r.failure;
 		return { ok: parsed.data.locked ? 'Build locked. Its maker sees your reason.' : 'Build unlocked.' };
 	}

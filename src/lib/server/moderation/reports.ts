@@ -1,34 +1,17 @@
 /**
- * Reports and the moderation desk (PRODUCT.md §4.6). Any member reports a build, a comment or a member
- * with a reason; moderators work the queue: hide/restore comments, lock/unlock builds, suspend/restore
- * members, appoint reviewers, close reports with a resolution. Every moderator and admin action is
- * written to the audit log in the same transaction as the change itself.
+ * Reports and what the moderation desk and the audit log read (PRODUCT.md §4.6). Any member reports a
+ * build, a comment or a member with a reason; moderators work the queue with the acts in ./acts.
  */
 import { error } from '@sveltejs/kit';
 import { and, asc, desc, eq, gte, ilike, inArray, lt, or, sql, type SQL } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/pg-core';
 import { env } from '$env/dynamic/private';
-import * as schema from './db/schema';
-import { db, type Tx } from './db';
-import { recordAudit } from './audit';
-import type { Actor } from './actor';
-import { setLocked } from './builds';
-import { setSuspended } from './members';
+import * as schema from '../db/schema';
+import { db } from '../db';
+import type { Actor } from '../actor';
 import { roleAtLeast } from '$lib/roles';
-import { moderationReason, reportSchema, type ReportInput, type ReportTargetKind } from '$lib/schemas/review';
+import { reportSchema, type ReportInput, type ReportTargetKind } from '$lib/schemas/review';
 import { isUuid } from '$lib/uuid';
-
-
-
-function assertModerator(actor: Actor): void {
-	if (!roleAtLeast(actor.role, 'moderator')) error(403, 'Only moderators can do this.');
-}
-
-function reasonOf(reason: string): string {
-	const parsed = moderationReason.safeParse(reason);
-	if (!parsed.success) error(422, parsed.error.issues[0].message);
-	return parsed.data;
-}
 
 /** Where a reported thing lives: a build slug, a comment's id and build slug, a member's handle or id. */
 async function resolveReportTarget(kind: ReportTargetKind, id: string): Promise<{ targetId: string }> {
@@ -85,86 +68,6 @@ export async function fileReport(actor: Actor, input: ReportInput): Promise<{ id
 		.values({ reporterId: actor.id, targetKind: data.targetKind, targetId, reason: data.reason })
 		.returning({ id: schema.report.id });
 	return { id: row.id, duplicate: false };
-}
-
-/** Close every open report about one target, in the caller's transaction. */
-async function closeReportsAbout(tx: Tx, actorId: string, kind: ReportTargetKind, targetId: string, resolution: string) {
-	return tx
-		.update(schema.report)
-		.set({ state: 'closed', handledById: actorId, handledAt: new Date(), resolution })
-		.where(and(eq(schema.report.targetKind, kind), eq(schema.report.targetId, targetId), eq(schema.report.state, 'open')))
-		.returning({ id: schema.report.id });
-}
-
-/** Hide (or restore) a comment from readers (moderators). Hiding closes open reports about it. */
-export async function setCommentHidden(actor: Actor, commentId: string, hidden: boolean, reason: string): Promise<void> {
-	assertModerator(actor);
-	const why = reasonOf(reason);
-	if (!isUuid(commentId)) error(404, 'No such comment.');
-	await db.transaction(async (tx) => {
-		const [c] = await tx.select().from(schema.comment).where(eq(schema.comment.id, commentId)).for('update');
-		if (!c) error(404, 'No such comment.');
-		if (c.hidden === hidden) return;
-		await tx
-			.update(schema.comment)
-			.set({ hidden, hiddenReason: hidden ? why : null })
-			.where(eq(schema.comment.id, c.id));
-		const [b] = await tx.select({ slug: schema.build.slug }).from(schema.build).where(eq(schema.build.id, c.buildId));
-		await recordAudit(tx, {
-			actorId: actor.id,
-			action: hidden ? 'comment.hide' : 'comment.restore',
-			targetKind: 'comment',
-			targetId: c.id,
-			reason: why,
-			details: { build: b?.slug, excerpt: c.bodyMd.slice(0, 200) }
-		});
-		if (hidden) await closeReportsAbout(tx, actor.id, 'comment', c.id, `Comment hidden: ${why}`);
-	});
-}
-
-/** Lock or unlock a build (moderators; through the builds module, which writes the audit log). Locking closes open reports about it. */
-export async function setBuildLocked(actor: Actor, buildId: string, locked: boolean, reason: string): Promise<void> {
-	assertModerator(actor);
-	const why = reasonOf(reason);
-	if (!isUuid(buildId)) error(404, 'No such build.');
-	await db.transaction(async (tx) => {
-		await setLocked(actor, buildId, locked, why, tx);
-		if (locked) await closeReportsAbout(tx, actor.id, 'build', buildId, `Build locked: ${why}`);
-	});
-}
-
-/** Suspend or restore a member (moderators; members.setSuspended checks rank and writes the audit log). Suspending closes open reports about them. */
-export async function setMemberSuspended(actor: Actor, userId: string, suspended: boolean, reason: string): Promise<void> {
-	assertModerator(actor);
-	const why = reasonOf(reason);
-	await setSuspended({ id: actor.id, role: actor.role }, userId, suspended, why);
-	if (suspended) {
-		await db.transaction((tx) => closeReportsAbout(tx, actor.id, 'member', userId, `Member suspended: ${why}`));
-	}
-}
-
-/**
- * Close a report with a resolution (moderators), e.g. "no action: within the rules" — and with it every
- * other open report about the same thing, since the matter is settled. Audited once, with the count.
- */
-export async function closeReport(actor: Actor, reportId: string, resolution: string): Promise<void> {
-	assertModerator(actor);
-	const why = reasonOf(resolution);
-	if (!isUuid(reportId)) error(404, 'No such report.');
-	await db.transaction(async (tx) => {
-		const [r] = await tx.select().from(schema.report).where(eq(schema.report.id, reportId)).for('update');
-		if (!r) error(404, 'No such report.');
-		if (r.state !== 'open') error(409, 'This report is already closed.');
-		const closed = await closeReportsAbout(tx, actor.id, r.targetKind as ReportTargetKind, r.targetId, why);
-		await recordAudit(tx, {
-			actorId: actor.id,
-			action: 'report.close',
-			targetKind: 'report',
-			targetId: r.id,
-			reason: why,
-			details: { about: r.targetKind, targetId: r.targetId, reports: closed.length }
-		});
-	});
 }
 
 export interface QueueItem {

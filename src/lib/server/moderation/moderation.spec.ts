@@ -2,14 +2,14 @@
 // actions and the audit log they write, and the signed unsubscribe link.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
-import { db } from './db';
-import * as schema from './db/schema';
-import { stopMail } from './mail';
-import { createTestUser, removeTestUsers } from './testing/builds';
-import { createPublishedBuild, queuedMailTo, type TestBuild } from './testing/reviews';
-import { deleteComment, editComment, listComments, postComment, requireCommentableBuild, EDIT_WINDOW_MS } from './comments';
-import { closeReport, fileReport, listAudit, listReports, setBuildLocked, setCommentHidden, setMemberSuspended } from './moderation';
-import { setNotification, unsubscribeToken, verifyUnsubscribeToken } from './notifications';
+import { db } from '../db';
+import * as schema from '../db/schema';
+import { stopMail } from '../mail';
+import { createTestUser, removeTestUsers } from '../testing/builds';
+import { createPublishedBuild, queuedMailTo, type TestBuild } from '../testing/reviews';
+import { deleteComment, editComment, listComments, postComment, requireCommentableBuild, EDIT_WINDOW_MS } from '../comments';
+import { closeReport, fileReport, listAudit, listReports, setBuildLocked, setCommentHidden, setMemberSuspended } from './index';
+import { setNotification, unsubscribeToken, verifyUnsubscribeToken } from '../notifications';
 
 type U = Awaited<ReturnType<typeof createTestUser>>;
 let owner: U, reader: U, replier: U, moderator: U, admin: U;
