@@ -50,6 +50,9 @@ test('spec blocks: a bad amplifier block is refused field by field, a good one s
 	const badge = block.locator('[data-check="amp.power-beyond-rails"]');
 	await expect(badge).toBeVisible();
 	await expect(badge).toContainText('CAUTION');
+	// The rule id stays out of the visible text (tooltip only); the signal word is a sign, not a colour alone.
+	await expect(badge).not.toContainText('amp.power-beyond-rails');
+	await expect(badge).toHaveAttribute('title', /amp\.power-beyond-rails/);
 	await expect(badge).toContainText('60 W');
 
 	// A supply block: its caution text defers to local codes; 35 V caps on a ~27.6 V rail get a margin caution.

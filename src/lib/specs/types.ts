@@ -27,13 +27,13 @@ export interface SpecResult<D extends Record<string, unknown> = Record<string, u
 
 /** Caution shown with checks about mains wiring and earthing. */
 export const MAINS_CAUTION =
-	'Mains voltage can kill. This check flags and explains; it does not certify anything. Defer to local codes and licensed practice.';
+	'Mains voltage can kill. This check points it out and explains; it does not certify anything. Defer to local codes and licensed practice.';
 /** Caution shown with checks about stored charge. */
 export const CHARGE_CAUTION =
 	'Reservoir capacitors keep their charge after switch-off: measure before touching and discharge through a resistor. This check certifies nothing; defer to local codes and licensed practice.';
 /** Caution shown with checks about heat. */
 export const HEAT_CAUTION =
-	'Heatsinks and parts can get hot enough to burn and to fail. This check flags and explains; it certifies nothing. Defer to local codes and licensed practice.';
+	'Heatsinks and parts can get hot enough to burn and to fail. This check points it out and explains; it certifies nothing. Defer to local codes and licensed practice.';
 
 /** Number field with inclusive bounds and clear messages: num(0.5, 1e5, 'Ω') rejects 0.2 with "must be at least 0.5 Ω". */
 export function num(min: number, max: number, unit = '') {
