@@ -6,6 +6,7 @@
  * the class-B efficiency derivation η = (π/4)·(Vpk/Vrail) (textbook result).
  */
 import { InputRangeError } from './values';
+import { minimumImpedanceOhm } from './speaker';
 
 /** "split": ±railV; "single": one supply of railV, treated as a split supply of railV/2 (output capacitor coupled). */
 export type SupplyKind = 'split' | 'single';
@@ -101,6 +102,158 @@ export function amplifierOutput(input: AmplifierInput): AmplifierOutput {
 		out.efficiency = outputW / supplyPowerW;
 	}
 	return out;
+}
+
+/** Amplifier topologies (API.md). */
+export const TOPOLOGIES = ['class-ab-chip', 'class-ab-discrete', 'class-a', 'class-d', 'valve', 'other'] as const;
+/** One amplifier topology. */
+export type Topology = (typeof TOPOLOGIES)[number];
+
+/** Mains rise a worst-case figure designs for when none is given: +10 % (usual design figure; national limits from memory). */
+export const MAINS_HIGH_PCT = 10;
+/** Class D efficiency assumed when none is given, % (API.md revision 2 default). */
+export const CLASS_D_EFFICIENCY_PCT = 85;
+
+/** Inputs of stageWorstCase(): one amplifier stage (channel) and the conditions it sees (API.md "Checks, revision 2"). */
+export interface StageInput {
+	topology: Topology;
+	supply: SupplyKind;
+	/** split: each rail's magnitude; single: the whole supply. V (nominal, as stated). */
+	railV: number;
+	/** Nominal load, Ω. */
+	loadOhm: number;
+	/** Output swing lost per side, V. */
+	dropoutV?: number;
+	/** Mains above nominal designed for, % (default 10). */
+	mainsHighPct?: number;
+	/** Standing current one stage draws from the rails (datasheet), A. */
+	quiescentA?: number;
+	/** Two stages drive the load in bridge. */
+	bridged?: boolean;
+	/** Class A output-stage standing current, A (required for class-a). */
+	biasA?: number | null;
+	classA?: 'push-pull' | 'single-ended';
+	/** Class D efficiency, % (default 85). */
+	efficiencyPct?: number;
+	/**
+	 * The per-side rail at high mains when something better than railV·(1 + mainsHighPct/100) is known —
+	 * in a build, the supply block's off-load rail at high mains. V.
+	 */
+	highMainsRailV?: number | null;
+}
+
+/** Outputs of stageWorstCase(); null where the topology is not modelled (valve). */
+export interface StageWorstCase {
+	/** Per-side rail V (nominal). */
+	railV: number;
+	/** Per-side rail at high mains, off load (Vhi). */
+	highMainsRailV: number;
+	/** Total supply at high mains, 2·Vhi (what device.maxSupplyV compares with). */
+	highMainsTotalV: number;
+	/** 0.8 × the nominal load (IEC 60268-5 convention). */
+	minImpedanceOhm: number;
+	/** (V−d)²/(2R), bridged 2(V−d)²/R. */
+	railLimitPowerW: number | null;
+	/** Class A: push-pull 2·biasA²·R, single-ended biasA²·R/2. */
+	biasLimitPowerW: number | null;
+	maxPowerW: number | null;
+	/** Textbook worst case at the stated rail and nominal load. */
+	worstDissipationW: number | null;
+	/** Worst case at Vhi and the minimum impedance, quiescent included; per channel (both stages when bridged). */
+	designDissipationW: number | null;
+	/** Peak output current at Vhi into the minimum impedance, (Vhi − d)/Rmin (bridged 2(Vhi − d)/Rmin). A. */
+	worstPeakCurrentA: number | null;
+}
+
+/**
+ * Worst-case figures of one amplifier stage (API.md "Checks, revision 2"). Let V = per-side rail, d = dropout,
+ * R = load, Rmin = 0.8·R, Vhi = V·(1 + mainsHighPct/100) (or the given highMainsRailV), Vtot = 2·Vhi.
+ * - class AB/B (class-ab-chip, class-ab-discrete, other): worstDissipationW 2V²/(π²R) (bridged 8V²/(π²R)),
+ *   designDissipationW 2Vhi²/(π²Rmin) + q·Vtot (bridged 8Vhi²/(π²Rmin) + 2q·Vtot);
+ * - class-a: maxPowerW min(rail limit, bias limit), worst 2V·biasA (idle is hottest), design Vtot·biasA + q·Vtot;
+ * - class-d: worst P·(100/η − 1), design the same at Vhi and Rmin plus q·Vtot (2× bridged);
+ * - valve: the output transformer is not modelled → power and dissipation null.
+ * Sources: power-amp IC datasheet eq. for worst-case dissipation (total-supply form); IEC 60268-5 80 % minimum
+ * impedance (via a loudspeaker maker's glossary); class A bias limits are the textbook results for a push-pull
+ * stage (peak load current 2·Ibias) and a single-ended stage (peak load current Ibias).
+ * stageWorstCase({ topology: 'class-ab-chip', supply: 'split', railV: 35, loadOhm: 8 }).designDissipationW → 46.93 W.
+ */
+export function stageWorstCase(input: StageInput): StageWorstCase {
+	const {
+		topology,
+		supply,
+		railV,
+		loadOhm,
+		dropoutV = 0,
+		mainsHighPct = MAINS_HIGH_PCT,
+		quiescentA = 0,
+		bridged = false,
+		biasA = null,
+		classA = 'push-pull',
+		efficiencyPct = CLASS_D_EFFICIENCY_PCT,
+		highMainsRailV = null
+	} = input;
+	const V = railPerSideV(supply, railV);
+	positive('loadOhm', loadOhm, 'Ω');
+	if (!(Number.isFinite(dropoutV) && dropoutV >= 0 && dropoutV < V))
+		throw new InputRangeError('dropoutV', `dropoutV must be 0 V or more and below the ${V} V rail`);
+	if (!(Number.isFinite(mainsHighPct) && mainsHighPct >= 0)) throw new InputRangeError('mainsHighPct', 'mainsHighPct must be 0 % or more');
+	if (!(Number.isFinite(quiescentA) && quiescentA >= 0)) throw new InputRangeError('quiescentA', 'quiescentA must be 0 A or more');
+	if (topology === 'class-a' && bridged) throw new InputRangeError('bridged', 'a class A stage cannot be bridged here; give one stage');
+	const Vhi = highMainsRailV ?? V * (1 + mainsHighPct / 100);
+	positive('highMainsRailV', Vhi, 'V');
+	const Vtot = 2 * Vhi;
+	const R = loadOhm;
+	const Rmin = minimumImpedanceOhm(R);
+	const k = bridged ? 2 : 1; // stages per channel
+	const pi2 = Math.PI * Math.PI;
+	const sinePowerW = (v: number, r: number) => (bridged ? (2 * (v - dropoutV) ** 2) / r : (v - dropoutV) ** 2 / (2 * r));
+	const classBWorstW = (v: number, r: number) => ((bridged ? 8 : 2) * v * v) / (pi2 * r);
+	const quiescentW = k * quiescentA * Vtot;
+	const base = { railV: V, highMainsRailV: Vhi, highMainsTotalV: Vtot, minImpedanceOhm: Rmin };
+	const peak = Math.max(0, Vhi - dropoutV);
+	const worstPeakCurrentA = ((bridged ? 2 : 1) * peak) / Rmin;
+
+	if (topology === 'valve')
+		return { ...base, railLimitPowerW: null, biasLimitPowerW: null, maxPowerW: null, worstDissipationW: null, designDissipationW: null, worstPeakCurrentA: null };
+
+	const railLimitPowerW = sinePowerW(V, R);
+	if (topology === 'class-a') {
+		if (biasA === null || !(Number.isFinite(biasA) && biasA > 0)) throw new InputRangeError('biasA', 'a class A stage needs its bias current biasA (A)');
+		const biasLimitPowerW = classA === 'single-ended' ? (biasA * biasA * R) / 2 : 2 * biasA * biasA * R;
+		return {
+			...base,
+			railLimitPowerW,
+			biasLimitPowerW,
+			maxPowerW: Math.min(railLimitPowerW, biasLimitPowerW),
+			worstDissipationW: 2 * V * biasA,
+			designDissipationW: Vtot * biasA + quiescentW,
+			worstPeakCurrentA: Math.min(worstPeakCurrentA, classA === 'single-ended' ? biasA : 2 * biasA)
+		};
+	}
+	if (topology === 'class-d') {
+		if (!(Number.isFinite(efficiencyPct) && efficiencyPct > 0 && efficiencyPct <= 100))
+			throw new InputRangeError('efficiencyPct', 'efficiencyPct must be above 0 and at most 100 %');
+		const loss = 100 / efficiencyPct - 1;
+		return {
+			...base,
+			railLimitPowerW,
+			biasLimitPowerW: null,
+			maxPowerW: railLimitPowerW,
+			worstDissipationW: railLimitPowerW * loss,
+			designDissipationW: sinePowerW(Vhi, Rmin) * loss + quiescentW,
+			worstPeakCurrentA
+		};
+	}
+	return {
+		...base,
+		railLimitPowerW,
+		biasLimitPowerW: null,
+		maxPowerW: railLimitPowerW,
+		worstDissipationW: classBWorstW(V, R),
+		designDissipationW: classBWorstW(Vhi, Rmin) + quiescentW,
+		worstPeakCurrentA
+	};
 }
 
 /** Non-inverting stage gain Av = 1 + Rf/Ri, and 20·log10(Av). nonInvertingGain(22e3, 1e3) → { gain: 23, gainDb: 27.23 }. */

@@ -99,6 +99,68 @@ export function supplyRails(input: SupplyRailsInput): SupplyRailsOutput {
 	return { peakDcV, rippleVpp, averageDcV: peakDcV - rippleVpp / 2 };
 }
 
+/** Regulation assumed when a transformer's is not known: 10 % (common practice for small toroids; laminated cores run higher). */
+export const REGULATION_ASSUMED_PCT = 10;
+/** Mains above and below nominal designed for: ±10 % (usual design figure; national limits from memory). */
+export const MAINS_TOLERANCE_PCT = 10;
+
+/** Inputs of supplyWorstCase(): the bench tool's inputs plus regulation and mains tolerance. */
+export interface SupplyWorstCaseInput extends SupplyRailsInput {
+	/** Transformer regulation, off-load rise over the full-load rating, % (default 10). */
+	regulationPct?: number;
+	/** Mains above nominal, % (default 10). */
+	mainsHighPct?: number;
+	/** Mains below nominal, % (default 10). */
+	mainsLowPct?: number;
+}
+
+/** Outputs of supplyWorstCase(), per rail unless named total. */
+export interface SupplyWorstCaseOutput extends SupplyRailsOutput {
+	/** √2·Vac·(1 + reg) − drops: off load at nominal mains. */
+	offLoadPeakDcV: number;
+	/** √2·Vac·(1 + reg)·(1 + mains high) − drops: what the capacitors and devices must withstand. */
+	highMainsPeakDcV: number;
+	/** √2·Vac·(1 − mains low) − drops − ripple/2: the loaded rail at low mains. */
+	lowMainsAverageDcV: number;
+	/** highMainsPeakDcV × 2 for bridge-split (rail to rail), else highMainsPeakDcV. */
+	highMainsTotalDcV: number;
+	regulationPct: number;
+	mainsHighPct: number;
+	mainsLowPct: number;
+}
+
+/**
+ * Rails of a capacitor-input supply at the conditions that matter (API.md "Checks, revision 2"): the bench tool's
+ * peakDcV / rippleVpp / averageDcV (full-load secondary, nominal mains) plus the off-load, high-mains and
+ * low-mains rails. The secondary rating is at full load; off load it rises by the regulation figure.
+ * 25 V, bridge-split, 0.8 V, reg 7 %, +10 % → highMainsPeakDcV 40.81 V, highMainsTotalDcV 81.62 V.
+ */
+export function supplyWorstCase(input: SupplyWorstCaseInput): SupplyWorstCaseOutput {
+	const { regulationPct = REGULATION_ASSUMED_PCT, mainsHighPct = MAINS_TOLERANCE_PCT, mainsLowPct = MAINS_TOLERANCE_PCT } = input;
+	nonNeg('regulationPct', regulationPct, '%');
+	nonNeg('mainsHighPct', mainsHighPct, '%');
+	nonNeg('mainsLowPct', mainsLowPct, '%');
+	if (mainsLowPct >= 100) throw new InputRangeError('mainsLowPct', 'mainsLowPct must be below 100 %');
+	const rails = supplyRails(input);
+	const drops = DIODE_DROPS[input.rectifier] * (input.diodeDropV ?? 0.7);
+	const crest = Math.SQRT2 * input.secondaryVac;
+	const offLoadPeakDcV = crest * (1 + regulationPct / 100) - drops;
+	const highMainsPeakDcV = crest * (1 + regulationPct / 100) * (1 + mainsHighPct / 100) - drops;
+	const lowMainsAverageDcV = crest * (1 - mainsLowPct / 100) - drops - rails.rippleVpp / 2;
+	if (!(lowMainsAverageDcV > 0))
+		throw new InputRangeError('capacitanceF', 'at low mains the ripple would take the whole rail: capacitanceF is far too small for loadCurrentA');
+	return {
+		...rails,
+		offLoadPeakDcV,
+		highMainsPeakDcV,
+		lowMainsAverageDcV,
+		highMainsTotalDcV: RAIL_COUNT[input.rectifier] * highMainsPeakDcV,
+		regulationPct,
+		mainsHighPct,
+		mainsLowPct
+	};
+}
+
 /** Inputs of reservoirForRippleF(). */
 export interface ReservoirInput {
 	loadCurrentA: number;

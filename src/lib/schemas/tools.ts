@@ -13,7 +13,10 @@ export const amplifierToolInput = z.object({
 	railV: pos(200, 'V'),
 	loadOhm: num(0.5, 100_000, 'Ω'),
 	dropoutV: num(0, 20, 'V').default(0),
-	outputW: pos(10_000, 'W').optional()
+	outputW: pos(10_000, 'W').optional(),
+	/** Worst case (API.md revision 2): mains above nominal, %, and the stage's quiescent current, A. */
+	mainsHighPct: num(0, 25, '%').default(10),
+	quiescentA: num(0, 20, 'A').default(0)
 });
 
 /** POST /api/v1/tools/heatsink. */
@@ -24,7 +27,9 @@ export const heatsinkToolInput = z.object({
 	rthJcKPerW: num(0, 50, 'K/W'),
 	rthCsKPerW: num(0, 20, 'K/W'),
 	rthSaKPerW: num(0, 100, 'K/W').optional(),
-	marginC: num(0, 100, '°C').default(0)
+	marginC: num(0, 100, '°C').default(0),
+	/** Devices sharing the heatsink, each dissipating powerW. */
+	devices: z.number({ error: 'must be a whole number' }).int('must be a whole number').min(1, 'must be at least 1').max(64, 'must be at most 64').default(1)
 });
 
 /** POST /api/v1/tools/supply. */
@@ -34,7 +39,11 @@ export const supplyToolInput = z.object({
 	diodeDropV: num(0, 5, 'V').default(0.7),
 	mainsHz: num(45, 65, 'Hz'),
 	loadCurrentA: num(0, 100, 'A'),
-	capacitanceF: pos(10, 'F')
+	capacitanceF: pos(10, 'F'),
+	/** Worst case (API.md revision 2): transformer regulation (10 % assumed), mains above and below nominal, %. */
+	regulationPct: num(0, 50, '%').default(10),
+	mainsHighPct: num(0, 25, '%').default(10),
+	mainsLowPct: num(0, 25, '%').default(10)
 });
 
 /** POST /api/v1/tools/gain (non-inverting stage). */
@@ -109,4 +118,25 @@ export const eseriesQuery = z.object({
 export const specCheckInput = z.object({
 	kind: oneOf(SPEC_KINDS),
 	data: z.looseObject({}, { error: (iss) => (iss.input === undefined ? 'required' : 'must be an object') })
+});
+
+/** POST /api/v1/spec-check/build: each block's `data` is validated by its kind's schema afterwards. */
+export const specCheckBuildInput = z.object({
+	blocks: z
+		.array(specCheckInput, { error: (iss) => (iss.input === undefined ? 'required' : 'must be a list of blocks') })
+		.min(1, 'needs at least 1 block')
+		.max(20, 'at most 20 blocks'),
+	parts: z
+		.array(
+			z.object({
+				designators: z.string({ error: (iss) => (iss.input === undefined ? 'required' : 'must be text') }).max(500, 'at most 500 characters'),
+				kind: z.string({ error: (iss) => (iss.input === undefined ? 'required' : 'must be text') }).max(40, 'at most 40 characters'),
+				value: z.number({ error: (iss) => (iss.input === undefined ? 'required' : 'must be a number') }).finite().nullable(),
+				ratingV: pos(100_000, 'V').nullish(),
+				railToRail: z.boolean({ error: 'must be true or false' }).optional()
+			}),
+			{ error: 'must be a list of part lines' }
+		)
+		.max(2000, 'at most 2000 lines')
+		.default([])
 });

@@ -13,7 +13,18 @@ import { inTx, type DbLike } from './db/tx';
 import type { Actor } from './actor';
 import { afterContentChange, assertCanEdit, lockBuild } from './builds';
 import { InputRangeError } from '$lib/engineering';
-import { isSpecKind, runSpec, specSchemas, SPEC_KINDS, type SpecKind } from '$lib/specs';
+import {
+	checkBuild,
+	isSpecKind,
+	runSpec,
+	specSchemas,
+	SPEC_KINDS,
+	type BuildCheckResult,
+	type Check,
+	type PartLineInput,
+	type SpecBlockInput as BlockInput,
+	type SpecKind
+} from '$lib/specs';
 import { refreshBuildChecks } from './parts/checks';
 import { isUuid } from '$lib/uuid';
 
@@ -71,6 +82,90 @@ export function zodIssues(err: ZodError): SpecIssue[] {
 		if (!out.some((o) => o.path === path)) out.push({ path, message: i.message });
 	}
 	return out;
+}
+
+/**
+ * The one computation behind POST /api/v1/spec-check/build and every build page, review mode and review desk:
+ * $lib/specs checkBuild over the build's own blocks and parts (stored by refreshBuildChecks on every save).
+ */
+export function checkBuildSpecs(blocks: readonly BlockInput[], parts: readonly PartLineInput[] = []): BuildCheckResult {
+	return checkBuild(blocks, parts);
+}
+
+/** A part line that says it sits across both rails ("rail to rail", "across the rails") is checked against both. */
+const RAIL_TO_RAIL = /rail[\s-]+to[\s-]+rail|across (?:both|the) rails/i;
+
+/** A stored or posted part line as the cross checks read it. partInput({ designators: 'C9', kind: 'capacitor', value: 1e-7, ratingV: 63, notes: 'rail to rail' }).railToRail → true. */
+export function partInput(l: { designators: string; kind: string; value: number | null; ratingV?: number | null; notes?: string | null; railToRail?: boolean }): PartLineInput {
+	return {
+		designators: l.designators,
+		kind: l.kind,
+		value: l.value,
+		ratingV: l.ratingV ?? null,
+		railToRail: l.railToRail ?? RAIL_TO_RAIL.test(l.notes ?? '')
+	};
+}
+
+/** What a build's stored rows get: per block its derived values and own checks, and the cross checks to place. */
+export interface BuildRowsResult {
+	blocks: { derived: Record<string, unknown>; checks: Check[] }[];
+	crossRaw: Check[];
+}
+
+/**
+ * checkBuildSpecs over stored rows. A stored block that no longer passes its schema (the rules changed since it was
+ * saved) keeps its stored derived values and gets the caution spec.out-of-date naming the fields to fix.
+ */
+export function checkBuildRows(
+	blocks: readonly { kind: string; data: unknown; derived: unknown }[],
+	lines: readonly { designators: string; kind: string; value: number | null; ratingV?: number | null; notes?: string | null }[]
+): BuildRowsResult {
+	const r = checkBuildSpecs(blocks, lines.map(partInput));
+	return {
+		blocks: r.blocks.map((o, i) => {
+			if (o.ok) return { derived: o.derived, checks: o.checks };
+			const issues = o.error instanceof ZodError ? zodIssues(o.error) : [{ path: (o.error as { field?: string }).field ?? '', message: o.error.message }];
+			return {
+				derived: (blocks[i].derived ?? {}) as Record<string, unknown>,
+				checks: [
+					{
+						id: 'spec.out-of-date',
+						level: 'caution',
+						message: `This block no longer passes the checks (${issues.map((x) => (x.path ? `${x.path}: ${x.message}` : x.message)).join('; ')}); the figures shown are from when it was saved. Edit the block to re-run its checks.`,
+						values: { issues: issues.length }
+					}
+				]
+			};
+		}),
+		crossRaw: r.cross
+	};
+}
+
+/** The answer of POST /api/v1/spec-check/build, or the first failing block's error with its index. */
+export type BuildCheckAnswer =
+	| { ok: true; body: { blocks: { derived: Record<string, unknown>; checks: Check[] }[]; cross: Check[] } }
+	| { ok: false; zod: ZodError }
+	| { ok: false; range: RangeError; index: number };
+
+/**
+ * checkBuildSpecs for the API: every block must pass; schema issues of all blocks come back together with paths
+ * from the body root (blocks.2.data.railV).
+ */
+export function checkBuildRequest(blocks: readonly BlockInput[], parts: readonly PartLineInput[] = []): BuildCheckAnswer {
+	const r = checkBuildSpecs(blocks, parts);
+	const zodIssuesAll = r.blocks.flatMap((o, i) =>
+		!o.ok && o.error instanceof ZodError ? o.error.issues.map((iss) => ({ ...iss, path: ['blocks', i, 'data', ...iss.path] })) : []
+	);
+	if (zodIssuesAll.length) return { ok: false, zod: new ZodError(zodIssuesAll) };
+	const bad = r.blocks.findIndex((o) => !o.ok);
+	if (bad >= 0) {
+		const o = r.blocks[bad];
+		return { ok: false, range: (o as { error: RangeError }).error, index: bad };
+	}
+	return {
+		ok: true,
+		body: { blocks: r.blocks.map((o) => (o.ok ? { derived: o.derived, checks: o.checks } : { derived: {}, checks: [] })), cross: r.cross }
+	};
 }
 
 /** A build's spec blocks in display order. */
@@ -152,8 +247,11 @@ export async function saveSpecBlock(actor: Actor, buildId: string, input: SpecBl
 			id = row.id;
 		}
 		const revision = await afterChange(t, buildId, actor);
-		const [stored] = await t.select({ checks: schema.specBlock.checks }).from(schema.specBlock).where(eq(schema.specBlock.id, id));
-		return { ok: true as const, id, derived: v.derived, checks: stored.checks, revision };
+		const [stored] = await t
+			.select({ derived: schema.specBlock.derived, checks: schema.specBlock.checks })
+			.from(schema.specBlock)
+			.where(eq(schema.specBlock.id, id));
+		return { ok: true as const, id, derived: stored.derived as Record<string, unknown>, checks: stored.checks, revision };
 	});
 }
 

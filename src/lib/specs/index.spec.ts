@@ -1,46 +1,12 @@
 import { describe, expect, it } from 'vitest';
 import { ZodError } from 'zod';
-import { SPEC_KINDS, crossChecks, runSpec, specSchemas } from './index';
+import { evaluate } from 'mathjs';
+import { SPEC_KINDS, checkBuild, crossChecks, runSpec, specSchemas } from './index';
+import { amplifierBlock, supplyBlock, thermalBlock } from './fixtures';
 
-const amplifier = (over: Record<string, unknown> = {}) => ({
-	channels: 2,
-	topology: 'class-ab-chip',
-	supply: 'split',
-	railV: 35,
-	loadOhm: 8,
-	device: { maxSupplyV: 84, dropoutV: 3, junctionMaxC: 150, rthJcKPerW: 1, minLoadOhm: 4 },
-	claimed: { powerW: 60, thdPct: 0.1 },
-	...over
-});
-const supply = (over: Record<string, unknown> = {}) => ({
-	mainsVac: 230,
-	mainsHz: 50,
-	transformerVA: 300,
-	secondaryVac: 25,
-	rectifier: 'bridge-split',
-	diodeDropV: 0.8,
-	reservoirF: 0.01,
-	capRatingV: 50,
-	loadCurrentA: 3,
-	fuse: { ratingA: 3.15, type: 'slow' },
-	chassis: 'metal',
-	protectiveEarth: true,
-	doubleInsulated: false,
-	bleeder: true,
-	...over
-});
-const thermal = (over: Record<string, unknown> = {}) => ({
-	powerW: 31.03,
-	ambientC: 40,
-	junctionMaxC: 150,
-	rthJcKPerW: 1,
-	rthCsKPerW: 0.4,
-	rthSaKPerW: 1.5,
-	tabAtRail: true,
-	tabInsulated: true,
-	heatsinkBondedToChassis: true,
-	...over
-});
+const amplifier = amplifierBlock;
+const supply = supplyBlock;
+const thermal = (over: Record<string, unknown> = {}) => thermalBlock({ powerW: 31.03, rthSaKPerW: 1.5, ...over });
 const measurements = (clipW: number) => ({ dcOffsetMv: [2], points: { thd: [{ powerW: clipW, thdPct: 0.5 }] } });
 
 describe('runSpec', () => {
@@ -70,18 +36,67 @@ describe('runSpec', () => {
 	});
 });
 
-describe('crossChecks', () => {
-	it('cross.cap-below-rail: caution for a capacitor rated below the unloaded rail (34.56 V), per part line', () => {
+// Fixture supply (REFERENCE.md §4.2 / §12 case 7): off load at +10 % mains 40.81 V per rail, 81.62 V rail to rail.
+describe('checkBuild — an amplifier inside a build uses its supply block’s high-mains rail', () => {
+	it('designDissipationW at ±40.81 V and 6.4 Ω = 52.7 W per channel, with the note amp.rails-from-supply', () => {
+		const r = checkBuild([{ kind: 'amplifier', data: amplifier() }, { kind: 'supply', data: supply() }]);
+		const amp = r.blocks[0];
+		if (!amp.ok) throw amp.error;
+		const hi = (r.blocks[1] as { derived: { highMainsPeakDcV: number } }).derived.highMainsPeakDcV;
+		expect(Math.abs(hi - 40.81)).toBeLessThan(0.01);
+		// TI total-supply form at 2 × 40.81 V into 0.8 × 8 Ω (hand: 81.62² / (2 π² · 6.4) = 52.7 W)
+		expect(Math.abs((amp.derived.designDissipationW as number) - evaluate('(81.62 V)^2 / (2 * pi^2 * 6.4 ohm)').toNumber('W'))).toBeLessThan(0.05);
+		expect(amp.checks.map((c) => c.id)).toContain('amp.rails-from-supply');
+		// alone, the same block uses its own 35 V × 1.1
+		expect(runSpec('amplifier', amplifier()).derived.designDissipationW).toBeCloseTo(evaluate('(77 V)^2 / (2 * pi^2 * 6.4 ohm)').toNumber('W'), 9);
+	});
+	it('an amplifier on regulated rails keeps its own figures and skips the supply’s device check', () => {
+		const r = checkBuild([{ kind: 'amplifier', data: amplifier({ regulatedRails: true, device: { maxSupplyV: 50, dropoutV: 3, junctionMaxC: 150, rthJcKPerW: 1, minLoadOhm: 4 }, railV: 20, claimed: null }) }, { kind: 'supply', data: supply() }]);
+		expect((r.blocks[0] as { checks: { id: string }[] }).checks.map((c) => c.id)).not.toContain('amp.rails-from-supply');
+		expect(r.cross.map((c) => c.id)).not.toContain('cross.rails-beyond-device');
+	});
+	it('blocks that fail their schema come back not ok and take no part in the cross checks', () => {
+		const r = checkBuild([{ kind: 'supply', data: { mainsVac: 'x' } }, { kind: 'valve', data: {} }], [{ designators: 'C1', kind: 'capacitor', value: 1e-6, ratingV: 1 }]);
+		expect(r.blocks.map((b) => b.ok)).toEqual([false, false]);
+		expect(r.cross).toEqual([]);
+	});
+});
+
+describe('cross checks at their thresholds', () => {
+	it('cross.cap-below-rail: danger below the 40.81 V high-mains rail, per line; a line across both rails against 81.62 V', () => {
 		const parts = [
-			{ designators: 'C1,C2', kind: 'capacitor', value: 0.01, ratingV: 35 },
-			{ designators: 'C7', kind: 'capacitor', value: 22e-6, ratingV: 25 },
+			{ designators: 'C1,C2', kind: 'capacitor', value: 0.01, ratingV: 63 },
+			{ designators: 'C7', kind: 'capacitor', value: 22e-6, ratingV: 40.8 },
+			{ designators: 'C8', kind: 'capacitor', value: 22e-6, ratingV: 40.82 },
 			{ designators: 'C9', kind: 'capacitor', value: 1e-7, ratingV: null },
+			{ designators: 'C10', kind: 'capacitor', value: 1e-7, ratingV: 63, railToRail: true },
+			{ designators: 'C11', kind: 'capacitor', value: 1e-7, ratingV: 81.7, railToRail: true },
 			{ designators: 'R1', kind: 'resistor', value: 1000, ratingV: 10 }
 		];
 		const checks = crossChecks([{ kind: 'supply', data: supply() }], parts);
-		expect(checks).toHaveLength(1);
-		expect(checks[0]).toMatchObject({ id: 'cross.cap-below-rail', level: 'caution', values: { designators: 'C7', ratingV: 25 } });
+		expect(checks.map((c) => `${c.values.designators}:${c.level}`)).toEqual(['C7:danger', 'C10:danger']);
 		expect(checks[0].caution).toMatch(/licensed practice/);
+	});
+	it('cross.rails-beyond-device: danger when 81.62 V rail to rail passes device.maxSupplyV', () => {
+		const at = (maxSupplyV: number) =>
+			crossChecks([
+				{ kind: 'amplifier', data: amplifier({ device: { maxSupplyV, dropoutV: 3, junctionMaxC: 150, rthJcKPerW: 1, minLoadOhm: 4 } }) },
+				{ kind: 'supply', data: supply() }
+			])
+				.filter((c) => c.id === 'cross.rails-beyond-device')
+				.map((c) => c.level);
+		expect(at(81.7)).toEqual([]);
+		expect(at(81.6)).toEqual(['danger']);
+		expect(at(72)).toEqual(['danger']); // nominal 69.1 V would have passed
+	});
+	it('cross.thermal-power-below-worst: caution below 0.95 × 46.93 W = 44.59 W (amplifier alone), halved per stage when bridged', () => {
+		const at = (powerW: number, over: Record<string, unknown> = {}) =>
+			crossChecks([{ kind: 'amplifier', data: amplifier(over) }, { kind: 'thermal', data: thermal({ powerW }) }]).map((c) => c.id);
+		expect(at(44.6)).toEqual([]);
+		expect(at(44.5)).toEqual(['cross.thermal-power-below-worst']);
+		// bridged: 8·38.5²/(π²·6.4) = 187.7 W per channel, 93.9 W per stage → threshold 89.2 W
+		expect(at(89.2, { bridged: true, claimed: null })).toEqual([]);
+		expect(at(89.1, { bridged: true, claimed: null })).toEqual(['cross.thermal-power-below-worst']);
 	});
 	it('cross.measured-power-beyond-max: caution above 1.05 × the amplifier maxPowerW (64 W → 67.2 W)', () => {
 		const at = (w: number) => crossChecks([{ kind: 'amplifier', data: amplifier() }, { kind: 'measurements', data: measurements(w) }]);
@@ -90,40 +105,13 @@ describe('crossChecks', () => {
 	});
 	it('cross.transformer-small: against the amplifier blocks’ output (2 × 60 W claimed = 120 W)', () => {
 		const at = (va: number) =>
-			crossChecks([{ kind: 'amplifier', data: amplifier() }, { kind: 'supply', data: supply({ transformerVA: va }) }])
+			crossChecks([{ kind: 'amplifier', data: amplifier() }, { kind: 'supply', data: supply({ transformerVA: va, fuse: { ratingA: 1, type: 'slow' } }) }])
 				.filter((c) => c.id === 'cross.transformer-small')
 				.map((c) => c.level);
 		expect(at(180)).toEqual([]);
 		expect(at(179)).toEqual(['note']);
 		expect(at(119)).toEqual(['caution']);
-		// a supply block that states its own demand is checked by supply.transformer-small instead
 		const own = crossChecks([{ kind: 'amplifier', data: amplifier() }, { kind: 'supply', data: supply({ transformerVA: 50, amplifierDemandW: 20 }) }]);
 		expect(own.map((c) => c.id)).not.toContain('cross.transformer-small');
-	});
-	it('cross.rails-beyond-device: danger when the unloaded rails pass the device maximum, caution when only at +10 % mains', () => {
-		// unloaded ±34.56 V = 69.1 V total; at +10 % mains ±38.09 V = 76.2 V total.
-		const at = (maxSupplyV: number) =>
-			crossChecks([
-				{ kind: 'amplifier', data: amplifier({ device: { maxSupplyV, dropoutV: 3, junctionMaxC: 150, rthJcKPerW: 1, minLoadOhm: 4 } }) },
-				{ kind: 'supply', data: supply() }
-			])
-				.filter((c) => c.id === 'cross.rails-beyond-device')
-				.map((c) => c.level);
-		expect(at(84)).toEqual([]);
-		expect(at(75)).toEqual(['caution']);
-		expect(at(70)).toEqual(['caution']);
-		expect(at(69)).toEqual(['danger']);
-	});
-	it('cross.thermal-power-below-worst: caution when the thermal block uses < 0.95 × the worst-case dissipation', () => {
-		const at = (powerW: number) =>
-			crossChecks([{ kind: 'amplifier', data: amplifier() }, { kind: 'thermal', data: thermal({ powerW }) }]).map((c) => c.id);
-		expect(at(31.03)).toEqual([]);
-		expect(at(29.5)).toEqual([]);
-		expect(at(29.4)).toEqual(['cross.thermal-power-below-worst']);
-	});
-	it('skips blocks that fail their schema and unknown kinds', () => {
-		expect(crossChecks([{ kind: 'supply', data: { mainsVac: 'x' } }, { kind: 'valve', data: {} }], [
-			{ designators: 'C1', kind: 'capacitor', value: 1e-6, ratingV: 1 }
-		])).toEqual([]);
 	});
 });

@@ -5,19 +5,20 @@
  */
 import { z } from 'zod';
 import {
+	DIODE_DROPS,
 	RAIL_COUNT,
 	RECTIFIERS,
 	TRANSFORMER_VA_FACTOR,
 	bleederPowerW,
 	bleederTimeS,
 	capMarginRatio,
-	highMainsRailV,
 	primaryCurrentA,
 	primaryFuseRangeA,
 	storedEnergyJ,
-	supplyRails,
+	supplyWorstCase,
 	transformerVaNeeded,
-	unloadedRailV
+	REGULATION_ASSUMED_PCT,
+	MAINS_TOLERANCE_PCT
 } from '../engineering';
 import { CHARGE_CAUTION, MAINS_CAUTION, flag, fmt, num, oneOf, pos, type Check, type SpecResult } from './types';
 
@@ -26,8 +27,18 @@ export const CHASSIS = ['metal', 'plastic', 'wood', 'none'] as const;
 
 /** Capacitor margin asked for against the high-mains unloaded rail: 1.2 (API.md threshold; common practice 1.2–1.25). */
 export const CAP_MARGIN = 1.2;
-/** Mains rise designed for when mainsHighPct is not given: +10 % (usual design figure; national limits from memory). */
-export const MAINS_HIGH_PCT = 10;
+/**
+ * IEC 62368-1 energy-source class limits for steady DC a person may touch, V: ES1 up to 60 V, ES2 up to 120 V
+ * (as given by public summaries of the standard — verify against the standard before relying on them).
+ * A supply whose rails together exceed them keeps a hazardous charge after switch-off unless it is bled.
+ */
+export const ES1_DC_LIMIT_V = 60;
+/** See ES1_DC_LIMIT_V. */
+export const ES2_DC_LIMIT_V = 120;
+/** A primary fuse above this multiple of the full-load primary current protects little (API.md; common practice 1.5–3 ×). */
+export const FUSE_MAX_RATIO = 3;
+/** A fast fuse is noted from this transformer size up (inrush; API.md revision 2). VA. */
+export const FAST_FUSE_NOTE_VA = 100;
 /** Voltage a bleeder is timed to: 5 V (common practice, no single source; below any shock threshold but still able to spark). */
 export const BLEEDER_SAFE_V = 5;
 
@@ -63,21 +74,23 @@ export const supplySpec = z
 		bleeder: z.union([z.boolean(), z.object({ ohm: pos(1e8, 'Ω') })], { error: 'must be true, false, { ohm } or null' }).nullable(),
 		/** Whether the supply is mains powered (default true); a fuse is required only then. */
 		mainsPowered: flag().default(true),
-		/** Transformer regulation: off-load rise over the rated secondary. % (read the transformer's data). */
-		regulationPct: num(0, 50, '%').default(0),
-		mainsHighPct: num(0, 25, '%').default(MAINS_HIGH_PCT),
+		/** Transformer regulation: off-load rise over the rated secondary, % (read the transformer's data; 10 assumed when absent). */
+		regulationPct: num(0, 50, '%').nullish(),
+		mainsHighPct: num(0, 25, '%').default(MAINS_TOLERANCE_PCT),
+		mainsLowPct: num(0, 25, '%').default(MAINS_TOLERANCE_PCT),
 		/** Sum of the rated continuous output powers this supply feeds, for the VA rule. W. */
 		amplifierDemandW: pos(10_000, 'W').nullish()
 	})
 	.superRefine((d, ctx) => {
-		const drops = d.rectifier === 'bridge' ? 2 : 1;
-		if (Math.SQRT2 * d.secondaryVac <= drops * d.diodeDropV)
-			ctx.addIssue({ code: 'custom', path: ['diodeDropV'], message: 'the diode drops are larger than the secondary peak' });
+		const drops = DIODE_DROPS[d.rectifier] * d.diodeDropV;
+		const lowPeak = Math.SQRT2 * d.secondaryVac * (1 - d.mainsLowPct / 100) - drops;
+		if (!(lowPeak > 0))
+			ctx.addIssue({ code: 'custom', path: ['diodeDropV'], message: 'the diode drops are larger than the secondary peak at low mains' });
 		else {
-			const peak = Math.SQRT2 * d.secondaryVac - drops * d.diodeDropV;
+			const peak = Math.SQRT2 * d.secondaryVac - drops;
 			const ripple = d.loadCurrentA / ((d.rectifier === 'half-wave' ? 1 : 2) * d.mainsHz * d.reservoirF);
-			if (ripple >= peak)
-				ctx.addIssue({ code: 'custom', path: ['reservoirF'], message: `too small: the ripple (${fmt(ripple)} Vpp) would exceed the ${fmt(peak)} V rail` });
+			if (ripple >= peak || ripple / 2 >= lowPeak)
+				ctx.addIssue({ code: 'custom', path: ['reservoirF'], message: `too small: the ripple (${fmt(ripple)} Vpp) would swallow the ${fmt(lowPeak)} V rail at low mains` });
 		}
 	});
 
@@ -87,17 +100,29 @@ export type SupplySpec = z.output<typeof supplySpec>;
 /** Derived values of a power-supply block (per rail unless named total). */
 export interface SupplyDerived {
 	[key: string]: number | null;
+	/** √2·Vac − drops (as the bench tool): the rated full-load secondary's crest at nominal mains. */
 	peakDcV: number;
 	rippleVpp: number;
+	/** peakDcV − rippleVpp/2 (as the bench tool). */
 	averageDcV: number;
+	/** √2·Vac·(1 + regulation) − drops. */
+	offLoadPeakDcV: number;
+	/** √2·Vac·(1 + regulation)·(1 + mains high) − drops. */
 	highMainsPeakDcV: number;
-	capMarginRatio: number;
+	/** √2·Vac·(1 − mains low) − drops − ripple/2. */
+	lowMainsAverageDcV: number;
+	/** Rail to rail for bridge-split, else highMainsPeakDcV. */
+	highMainsTotalDcV: number;
+	/** Regulation used (the block's, or 10 % assumed). */
+	regulationPct: number;
+	/** capRatingV / highMainsPeakDcV. */
 	highMainsCapMarginRatio: number;
 	railCount: number;
+	/** transformerVA / mainsVac. */
 	primaryCurrentA: number;
 	fuseMinA: number;
 	fuseMaxA: number;
-	/** All reservoirs together at the high-mains unloaded rail. */
+	/** All reservoirs together at the high-mains rail. */
 	storedEnergyJ: number;
 	vaNeeded: number | null;
 	vaHeadroomRatio: number | null;
@@ -128,40 +153,41 @@ export function transformerCheck(id: string, transformerVA: number, demandW: num
 }
 
 /**
- * Derive a power-supply block. 230 V, 25-0-25 V (bridge-split, 0.8 V), 10 mF, 3 A, 50 V caps, reg 7 %
- * → peakDcV 34.56, rippleVpp 3.0, highMainsPeakDcV 40.81, highMainsCapMarginRatio 1.225 (no cap check).
+ * Derive a power-supply block (API.md "Checks, revision 2"). 230 V, 25-0-25 V (bridge-split, 0.8 V), 10 mF, 3 A,
+ * 50 V caps, reg 7 % → peakDcV 34.56, rippleVpp 3.0, highMainsPeakDcV 40.81, highMainsCapMarginRatio 1.225 (no cap check).
  */
 export function deriveSupply(data: SupplySpec): SpecResult<SupplyDerived> {
-	const rails = supplyRails({
+	const assumed = data.regulationPct === undefined || data.regulationPct === null;
+	const regulationPct = assumed ? REGULATION_ASSUMED_PCT : data.regulationPct!;
+	const rails = supplyWorstCase({
 		secondaryVac: data.secondaryVac,
 		rectifier: data.rectifier,
 		diodeDropV: data.diodeDropV,
 		mainsHz: data.mainsHz,
 		loadCurrentA: data.loadCurrentA,
-		capacitanceF: data.reservoirF
+		capacitanceF: data.reservoirF,
+		regulationPct,
+		mainsHighPct: data.mainsHighPct,
+		mainsLowPct: data.mainsLowPct
 	});
-	// Off-load at nominal mains includes the transformer's regulation when given.
-	const unloadedV = unloadedRailV(data.secondaryVac * (1 + data.regulationPct / 100), data.rectifier, data.diodeDropV);
-	const highV = highMainsRailV({
-		secondaryVac: data.secondaryVac,
-		rectifier: data.rectifier,
-		diodeDropV: data.diodeDropV,
-		regulationPct: data.regulationPct,
-		mainsHighPct: data.mainsHighPct
-	});
+	const highV = rails.highMainsPeakDcV;
 	const railCount = RAIL_COUNT[data.rectifier];
 	const fuseRange = primaryFuseRangeA(data.transformerVA, data.mainsVac);
+	const ip = primaryCurrentA(data.transformerVA, data.mainsVac);
 	const bleederOhm = typeof data.bleeder === 'object' && data.bleeder !== null ? data.bleeder.ohm : null;
 	const vaNeeded = data.amplifierDemandW ? transformerVaNeeded(data.amplifierDemandW) : null;
 	const derived: SupplyDerived = {
-		peakDcV: unloadedV,
+		peakDcV: rails.peakDcV,
 		rippleVpp: rails.rippleVpp,
-		averageDcV: unloadedV - rails.rippleVpp / 2,
+		averageDcV: rails.averageDcV,
+		offLoadPeakDcV: rails.offLoadPeakDcV,
 		highMainsPeakDcV: highV,
-		capMarginRatio: capMarginRatio(data.capRatingV, unloadedV),
+		lowMainsAverageDcV: rails.lowMainsAverageDcV,
+		highMainsTotalDcV: rails.highMainsTotalDcV,
+		regulationPct,
 		highMainsCapMarginRatio: capMarginRatio(data.capRatingV, highV),
 		railCount,
-		primaryCurrentA: primaryCurrentA(data.transformerVA, data.mainsVac),
+		primaryCurrentA: ip,
 		fuseMinA: fuseRange.minA,
 		fuseMaxA: fuseRange.maxA,
 		storedEnergyJ: railCount * storedEnergyJ(data.reservoirF, highV),
@@ -172,6 +198,21 @@ export function deriveSupply(data: SupplySpec): SpecResult<SupplyDerived> {
 	};
 
 	const checks: Check[] = [];
+	if (assumed)
+		checks.push({
+			id: 'supply.regulation-assumed',
+			level: 'note',
+			message: `No transformer regulation given: ${REGULATION_ASSUMED_PCT} % is assumed (common practice for small toroids; laminated cores run higher). The off-load rail is ${fmt(rails.offLoadPeakDcV)} V; enter the figure from the transformer's data to refine it.`,
+			values: { regulationPct: REGULATION_ASSUMED_PCT, offLoadPeakDcV: rails.offLoadPeakDcV }
+		});
+	if (data.mainsPowered && data.chassis === 'none')
+		checks.push({
+			id: 'supply.no-enclosure',
+			level: 'danger',
+			message: 'A mains-powered supply with no enclosure leaves mains terminals within reach. Put it in an earthed metal case or a double-insulated one before it is used.',
+			values: { chassis: 'none', mainsPowered: true },
+			caution: MAINS_CAUTION
+		});
 	if (data.mainsPowered && data.fuse === null)
 		checks.push({
 			id: 'supply.no-fuse',
@@ -180,15 +221,26 @@ export function deriveSupply(data: SupplySpec): SpecResult<SupplyDerived> {
 			values: { fuse: null, transformerVA: data.transformerVA, mainsVac: data.mainsVac, fuseMinA: fuseRange.minA, fuseMaxA: fuseRange.maxA },
 			caution: MAINS_CAUTION
 		});
-	else if (data.mainsPowered && data.fuse && data.fuse.type === 'fast')
+	if (data.mainsPowered && data.fuse && (data.fuse.ratingA > FUSE_MAX_RATIO * ip || data.fuse.ratingA < ip))
+		checks.push({
+			id: 'supply.fuse-size',
+			level: 'caution',
+			message:
+				data.fuse.ratingA < ip
+					? `The ${fmt(data.fuse.ratingA)} A fuse is below the ${fmt(ip)} A full-load primary current of a ${fmt(data.transformerVA)} VA transformer at ${fmt(data.mainsVac)} V: it will blow in normal use.`
+					: `The ${fmt(data.fuse.ratingA)} A fuse is more than ${FUSE_MAX_RATIO} × the ${fmt(ip)} A full-load primary current of a ${fmt(data.transformerVA)} VA transformer at ${fmt(data.mainsVac)} V: a transformer fault may not blow it. About ${fmt(fuseRange.minA)}–${fmt(fuseRange.maxA)} A time-delay is usual (ask the transformer maker).`,
+			values: { ratingA: data.fuse.ratingA, primaryCurrentA: ip, maxRatio: FUSE_MAX_RATIO, ratio: data.fuse.ratingA / ip },
+			caution: MAINS_CAUTION
+		});
+	if (data.mainsPowered && data.fuse && data.fuse.type === 'fast' && data.transformerVA >= FAST_FUSE_NOTE_VA)
 		checks.push({
 			id: 'supply.fuse-type',
 			level: 'note',
-			message: 'A fast fuse on a transformer primary tends to blow at switch-on (inrush); a time-delay (T) fuse is the usual choice.',
-			values: { fuseType: 'fast', ratingA: data.fuse.ratingA },
+			message: `A fast fuse on the primary of a ${fmt(data.transformerVA)} VA transformer tends to blow at switch-on (inrush); a time-delay (T) fuse is the usual choice.`,
+			values: { fuseType: 'fast', ratingA: data.fuse.ratingA, transformerVA: data.transformerVA },
 			caution: MAINS_CAUTION
 		});
-	if (data.chassis === 'metal' && !data.protectiveEarth && !data.doubleInsulated)
+	if (data.mainsPowered && data.chassis === 'metal' && !data.protectiveEarth && !data.doubleInsulated)
 		checks.push({
 			id: 'supply.no-earth',
 			level: 'danger',
@@ -196,7 +248,7 @@ export function deriveSupply(data: SupplySpec): SpecResult<SupplyDerived> {
 			values: { chassis: data.chassis, protectiveEarth: false, doubleInsulated: false },
 			caution: MAINS_CAUTION
 		});
-	else if (data.chassis === 'metal' && !data.protectiveEarth && data.doubleInsulated)
+	else if (data.mainsPowered && data.chassis === 'metal' && !data.protectiveEarth && data.doubleInsulated)
 		checks.push({
 			id: 'supply.double-insulated-metal',
 			level: 'note',
@@ -204,33 +256,47 @@ export function deriveSupply(data: SupplySpec): SpecResult<SupplyDerived> {
 			values: { chassis: data.chassis, protectiveEarth: false, doubleInsulated: true },
 			caution: MAINS_CAUTION
 		});
-	if (data.capRatingV < unloadedV)
+	if (data.mainsPowered && (data.chassis === 'plastic' || data.chassis === 'wood') && !data.doubleInsulated && !data.protectiveEarth)
+		checks.push({
+			id: 'supply.insulation',
+			level: 'caution',
+			message: `A ${data.chassis} case is not insulation by itself: screws, connectors, controls and any metal panel can reach mains under a fault. Either earth every accessible metal part or build to double insulation throughout.`,
+			values: { chassis: data.chassis, protectiveEarth: false, doubleInsulated: false },
+			caution: MAINS_CAUTION
+		});
+	if (data.capRatingV < highV)
 		checks.push({
 			id: 'supply.cap-rating',
 			level: 'danger',
-			message: `The ${fmt(data.capRatingV)} V reservoir capacitors are below the ${fmt(unloadedV)} V unloaded rail: they are over-voltage at normal mains and can vent or burst.`,
-			values: { capRatingV: data.capRatingV, peakDcV: unloadedV, highMainsPeakDcV: highV, ratio: data.capRatingV / unloadedV },
+			message: `The ${fmt(data.capRatingV)} V reservoir capacitors are below the ${fmt(highV)} V rail they see off load at +${fmt(data.mainsHighPct)} % mains: they are over-voltage within normal mains tolerance and can vent or burst.`,
+			values: { capRatingV: data.capRatingV, highMainsPeakDcV: highV, ratio: data.capRatingV / highV },
 			caution: CHARGE_CAUTION
 		});
 	else if (data.capRatingV < CAP_MARGIN * highV)
 		checks.push({
 			id: 'supply.cap-rating',
 			level: 'caution',
-			message: `The ${fmt(data.capRatingV)} V reservoir capacitors have a thin margin: the unloaded rail reaches ${fmt(highV)} V at +${fmt(data.mainsHighPct)} % mains, and ${fmt(CAP_MARGIN)} × that is ${fmt(CAP_MARGIN * highV)} V (common practice).`,
-			values: { capRatingV: data.capRatingV, peakDcV: unloadedV, highMainsPeakDcV: highV, ratio: data.capRatingV / highV, margin: CAP_MARGIN },
+			message: `The ${fmt(data.capRatingV)} V reservoir capacitors have a thin margin: the rail reaches ${fmt(highV)} V off load at +${fmt(data.mainsHighPct)} % mains, and ${fmt(CAP_MARGIN)} × that is ${fmt(CAP_MARGIN * highV)} V (common practice).`,
+			values: { capRatingV: data.capRatingV, highMainsPeakDcV: highV, ratio: data.capRatingV / highV, margin: CAP_MARGIN },
 			caution: CHARGE_CAUTION
 		});
 	if (data.amplifierDemandW) {
 		const c = transformerCheck('supply.transformer-small', data.transformerVA, data.amplifierDemandW);
 		if (c) checks.push(c);
 	}
-	if (data.bleeder === null || data.bleeder === false)
+	if (data.bleeder === null || data.bleeder === false) {
+		const total = rails.highMainsTotalDcV;
+		const level = total > ES2_DC_LIMIT_V ? 'danger' : total > ES1_DC_LIMIT_V ? 'caution' : 'note';
 		checks.push({
 			id: 'supply.no-bleeder',
-			level: 'note',
-			message: `No bleeder: the reservoirs keep about ${fmt(derived.storedEnergyJ)} J after switch-off, enough to spark and burn even where the voltage is low.`,
-			values: { storedEnergyJ: derived.storedEnergyJ, highMainsPeakDcV: highV },
+			level,
+			message:
+				level === 'note'
+					? `No bleeder: the reservoirs keep about ${fmt(derived.storedEnergyJ)} J after switch-off, enough to spark and burn even where the voltage is low.`
+					: `No bleeder: the reservoirs keep up to ${fmt(total)} V${railCount === 2 ? ' rail to rail' : ''} after switch-off, above the ${level === 'danger' ? ES2_DC_LIMIT_V : ES1_DC_LIMIT_V} V DC limit of ${level === 'danger' ? 'IEC 62368-1 class ES2 (can injure)' : 'class ES1 (can hurt)'}, and about ${fmt(derived.storedEnergyJ)} J. Fit a bleeder across each reservoir.`,
+			values: { highMainsTotalDcV: total, es1LimitV: ES1_DC_LIMIT_V, es2LimitV: ES2_DC_LIMIT_V, storedEnergyJ: derived.storedEnergyJ },
 			caution: CHARGE_CAUTION
 		});
+	}
 	return { derived, checks };
 }

@@ -53,6 +53,24 @@ describe('thermal block', () => {
 		expect(ids(base({ powerW: 10, ambientC: 40, rthSaKPerW: 3 }))).not.toContain('thermal.sink-hot:note');
 		expect(ids(base({ powerW: 10, ambientC: 40, rthSaKPerW: 3.01 }))).toContain('thermal.sink-hot:note');
 	});
+	it('devices share the heatsink: 2 × 20 W on 1 K/W → sink 80 °C, each junction 80 + 20 · 1.5 = 110 °C [REF §3.1 note]', () => {
+		const { derived } = deriveThermal(base({ devices: 2, powerW: 20, rthCsKPerW: 0.5, rthSaKPerW: 1 }));
+		expect(derived.sinkC).toBeCloseTo(80, 9);
+		expect(derived.junctionC).toBeCloseTo(110, 9);
+		// (150 − 40 − 20 · 1.5) / (2 · 20) = 80 / 40 = 2.0 K/W
+		expect(derived.requiredRthSaKPerW).toBeCloseTo(2.0, 9);
+		expect(derived.feasible).toBe(true);
+	});
+	it('thermal.impossible: danger once Ta + P·(Rθjc + Rθcs) reaches the limit — 40 + P · 1.5 = 150 at P = 73.3 W', () => {
+		const at = (powerW: number) => base({ powerW, rthJcKPerW: 1, rthCsKPerW: 0.5, rthSaKPerW: 0.1 });
+		expect(ids(at(73.3))).not.toContain('thermal.impossible:danger');
+		expect(deriveThermal(at(73.3)).derived.feasible).toBe(true);
+		expect(ids(at(73.4))).toContain('thermal.impossible:danger');
+		const r = deriveThermal(at(73.4));
+		expect(r.derived.feasible).toBe(false);
+		// no suggestion of a negative heatsink anywhere
+		for (const c of r.checks) expect(c.message).not.toMatch(/≤ −/);
+	});
 	it('zero power is allowed (no requirement), out-of-range values are range errors', () => {
 		expect(deriveThermal(base({ powerW: 0 })).derived.requiredRthSaKPerW).toBeNull();
 		expect(thermalSpec.safeParse({ ...base(), ambientC: 300 }).error!.issues[0]).toMatchObject({ code: 'too_big', path: ['ambientC'] });

@@ -12,10 +12,12 @@ export const JUNCTION_MARGIN_C = 25;
 /** Heatsink temperature above which it is too hot to touch comfortably: 70 °C (common practice, no single source; touch limits are set in product-safety standards). */
 export const SINK_TOUCH_C = 70;
 
-/** Schema of a thermal block (one device on its heatsink); unknown keys are dropped. */
+/** Schema of a thermal block (`devices` devices of powerW each on one heatsink); unknown keys are dropped. */
 export const thermalSpec = z.object({
-	/** Dissipation of the device, W (use the amplifier block's worstDissipationW for a conservative design). */
+	/** Dissipation of each device, W (use the amplifier block's designDissipationW per stage). */
 	powerW: num(0, 2000, 'W'),
+	/** Devices sharing the heatsink, each dissipating powerW. */
+	devices: z.number({ error: 'must be a whole number' }).int('must be a whole number').min(1, 'must be at least 1').max(64, 'must be at most 64').default(1),
 	ambientC: num(-40, 100, '°C'),
 	junctionMaxC: num(50, 250, '°C'),
 	rthJcKPerW: num(0, 50, 'K/W'),
@@ -29,49 +31,71 @@ export const thermalSpec = z.object({
 /** Parsed thermal block. */
 export type ThermalSpec = z.output<typeof thermalSpec>;
 
-/** Derived values of a thermal block. */
+/** Derived values of a thermal block (per device unless named otherwise). */
 export interface ThermalDerived {
-	[key: string]: number | null;
+	[key: string]: number | boolean | null;
 	junctionC: number;
 	caseC: number;
+	/** Ta + devices·powerW·Rθsa. */
 	sinkC: number;
-	/** Largest Rθsa that keeps the junction at junctionMaxC (bench-tool name, margin 0). */
+	/** Largest Rθsa that keeps each junction at junctionMaxC (bench-tool name, margin 0); ≤ 0: none can. */
 	requiredRthSaKPerW: number | null;
-	/** Largest Rθsa that keeps the junction JUNCTION_MARGIN_C below junctionMaxC. */
+	/** requiredRthSaKPerW > 0 (true without dissipation). */
+	feasible: boolean;
+	/** Largest Rθsa that keeps each junction JUNCTION_MARGIN_C below junctionMaxC. */
 	requiredRthSaForMarginKPerW: number | null;
 	/** junctionMaxC − junctionC. */
 	headroomC: number;
 }
 
 /**
- * Derive a thermal block. 31.03 W, 40 °C, Rθ 1.0 + 0.4 + 1.5 → junctionC 130.0 (caution at a 150 °C limit),
+ * Derive a thermal block; temperatures and requirements come from $lib/engineering heatsink().
+ * 31.03 W, 40 °C, Rθ 1.0 + 0.4 + 1.5 → junctionC 130.0 (caution at a 150 °C limit),
  * requiredRthSaKPerW 2.145, requiredRthSaForMarginKPerW 1.339.
  */
 export function deriveThermal(data: ThermalSpec): SpecResult<ThermalDerived> {
-	const base = { ambientC: data.ambientC, junctionMaxC: data.junctionMaxC, rthJcKPerW: data.rthJcKPerW, rthCsKPerW: data.rthCsKPerW };
-	const sinkC = data.ambientC + data.powerW * data.rthSaKPerW;
-	const caseC = sinkC + data.powerW * data.rthCsKPerW;
-	const junctionC = caseC + data.powerW * data.rthJcKPerW;
+	const base = {
+		ambientC: data.ambientC,
+		junctionMaxC: data.junctionMaxC,
+		rthJcKPerW: data.rthJcKPerW,
+		rthCsKPerW: data.rthCsKPerW,
+		devices: data.devices
+	};
 	const hasPower = data.powerW > 0;
+	const at = hasPower ? heatsink({ ...base, powerW: data.powerW, rthSaKPerW: data.rthSaKPerW }) : null;
+	const withMargin = hasPower ? heatsink({ ...base, powerW: data.powerW, marginC: JUNCTION_MARGIN_C }) : null;
+	const sinkC = at?.sinkC ?? data.ambientC;
+	const caseC = at?.caseC ?? data.ambientC;
+	const junctionC = at?.junctionC ?? data.ambientC;
 	const derived: ThermalDerived = {
 		junctionC,
 		caseC,
 		sinkC,
-		requiredRthSaKPerW: hasPower ? heatsink({ ...base, powerW: data.powerW }).requiredRthSaKPerW : null,
-		requiredRthSaForMarginKPerW: hasPower ? heatsink({ ...base, powerW: data.powerW, marginC: JUNCTION_MARGIN_C }).requiredRthSaKPerW : null,
+		requiredRthSaKPerW: at?.requiredRthSaKPerW ?? null,
+		feasible: at?.feasible ?? true,
+		requiredRthSaForMarginKPerW: withMargin?.requiredRthSaKPerW ?? null,
 		headroomC: data.junctionMaxC - junctionC
 	};
 	const checks: Check[] = [];
-	const values = { junctionC, junctionMaxC: data.junctionMaxC, marginC: JUNCTION_MARGIN_C, powerW: data.powerW };
-	if (junctionC >= data.junctionMaxC)
+	const values = { junctionC, junctionMaxC: data.junctionMaxC, marginC: JUNCTION_MARGIN_C, powerW: data.powerW, devices: data.devices };
+	if (at && !at.feasible)
+		checks.push({
+			id: 'thermal.impossible',
+			level: 'danger',
+			message: `No heatsink can hold the junction at ${fmt(data.junctionMaxC)} °C: the junction–case and case–sink path alone takes it to ${fmt(data.ambientC + data.powerW * (data.rthJcKPerW + data.rthCsKPerW))} °C at ${fmt(data.powerW)} W and ${fmt(data.ambientC)} °C ambient. Lower the rails, raise the load, or spread the heat over more devices.`,
+			values: { ...values, requiredRthSaKPerW: at.requiredRthSaKPerW },
+			caution: HEAT_CAUTION
+		});
+	if (junctionC >= data.junctionMaxC) {
+		const r = derived.requiredRthSaForMarginKPerW;
 		checks.push({
 			id: 'thermal.junction-near-limit',
 			level: 'danger',
-			message: `The junction reaches ${fmt(junctionC)} °C, at or over its ${fmt(data.junctionMaxC)} °C limit: the device will shut down or fail. Use a larger heatsink (≤ ${fmt(derived.requiredRthSaForMarginKPerW ?? 0)} K/W for a ${JUNCTION_MARGIN_C} °C margin), lower rails or a higher load.`,
+			message: `The junction reaches ${fmt(junctionC)} °C, at or over its ${fmt(data.junctionMaxC)} °C limit: the device will shut down or fail. ${r !== null && r > 0 ? `Use a larger heatsink (≤ ${fmt(r)} K/W for a ${JUNCTION_MARGIN_C} °C margin), lower rails or a higher load.` : `No heatsink gives a ${JUNCTION_MARGIN_C} °C margin at this dissipation: lower the rails, raise the load or share the heat over more devices.`}`,
 			values,
 			caution: HEAT_CAUTION
 		});
-	else if (junctionC > data.junctionMaxC - JUNCTION_MARGIN_C)
+	} else if (junctionC > data.junctionMaxC - JUNCTION_MARGIN_C)
 		checks.push({
 			id: 'thermal.junction-near-limit',
 			level: 'caution',

@@ -1,8 +1,9 @@
 /**
  * Checks that span a build: the parts list's own checks need the supply rail from the spec blocks, and the
- * cross checks ($lib/specs crossChecks) read all blocks and the parts list. Both are recomputed and stored
- * whenever the parts list or a spec block is saved, so the build page, the review desk's counts and the API
- * read them straight from the rows.
+ * cross checks read all blocks and the parts list. Everything is computed by the one function behind
+ * POST /api/v1/spec-check/build (checkBuildRows in ../specs, $lib/specs checkBuild) and stored whenever the parts
+ * list or a spec block is saved, so the build page, review mode, the review desk's counts and the API read the
+ * same result straight from the rows.
  * Where a cross check lands: cross.cap-below-rail on the part line it names; the others on one block each
  * (measurements, thermal, supply, then amplifier — the block whose numbers the maker would change).
  */
@@ -10,21 +11,23 @@ import { asc, eq } from 'drizzle-orm';
 import * as schema from '../db/schema';
 import type { StoredCheck } from '../db/schema';
 import type { Tx } from '../db';
-import { crossChecks, isSpecKind, type Check } from '$lib/specs';
+import { type Check } from '$lib/specs';
 import { lineToDraft, normaliseLine, type NormalisedPartLine, type PartCheck } from '$lib/parts';
+import { checkBuildRows, partInput } from '../specs';
 
 type BlockRow = Pick<schema.SpecBlock, 'id' | 'kind' | 'data' | 'derived' | 'checks'>;
-type LineLike = Pick<NormalisedPartLine, 'designators' | 'value' | 'ratingV'> & { kind: string };
+type LineLike = Pick<NormalisedPartLine, 'designators' | 'value' | 'ratingV'> & { kind: string; notes?: string | null };
 
 /**
- * Highest voltage the parts may see, V: the largest unloaded rail of the supply blocks (derived.peakDcV),
- * else the largest amplifier block rail (railV; split supplies per side). Null without either.
- * railFromBlocks([{ kind: 'supply', derived: { peakDcV: 34.6 } }]) → 34.6.
+ * Highest voltage the parts may see on one rail, V: the largest rail of the supply blocks off load at high mains
+ * (derived.highMainsPeakDcV, the worst case of API.md revision 2), else the largest amplifier block rail
+ * (railV; split supplies per side). Null without either.
+ * railFromBlocks([{ kind: 'supply', derived: { highMainsPeakDcV: 40.8 } }]) → 40.8.
  */
 export function railFromBlocks(blocks: readonly Pick<BlockRow, 'kind' | 'data' | 'derived'>[]): number | null {
 	const supply = blocks
 		.filter((b) => b.kind === 'supply')
-		.map((b) => Number((b.derived as Record<string, unknown>)?.peakDcV))
+		.map((b) => Number((b.derived as Record<string, unknown>)?.highMainsPeakDcV ?? (b.derived as Record<string, unknown>)?.peakDcV))
 		.filter((v) => Number.isFinite(v) && v > 0);
 	if (supply.length) return Math.max(...supply);
 	const amp = blocks
@@ -45,21 +48,17 @@ const toStored = (c: Check | PartCheck): StoredCheck => ({
 });
 
 /**
- * Run the cross checks and say where each lands: per block id and per line index.
- * Blocks are in display order (the indexes crossChecks reports refer to it).
+ * Say where each cross check lands: per block id and per line index. Blocks are in display order (the indexes
+ * the checks report refer to it).
  */
 export function placeCrossChecks(
-	blocks: readonly Pick<BlockRow, 'id' | 'kind' | 'data'>[],
-	lines: readonly LineLike[]
+	blocks: readonly Pick<BlockRow, 'id'>[],
+	lines: readonly LineLike[],
+	cross: readonly Check[]
 ): { byBlock: Map<string, StoredCheck[]>; byLine: StoredCheck[][] } {
-	const valid = blocks.filter((b) => isSpecKind(b.kind));
-	const checks = crossChecks(
-		valid.map((b) => ({ kind: b.kind, data: b.data })),
-		lines.map((l) => ({ designators: l.designators, kind: l.kind, value: l.value, ratingV: l.ratingV }))
-	);
 	const byBlock = new Map<string, StoredCheck[]>();
 	const byLine: StoredCheck[][] = lines.map(() => []);
-	for (const c of checks) {
+	for (const c of cross) {
 		if (c.id === 'cross.cap-below-rail') {
 			lines.forEach((l, i) => {
 				if (l.designators === c.values.designators && l.ratingV === c.values.ratingV && !byLine[i].some((x) => x.id === c.id))
@@ -68,7 +67,7 @@ export function placeCrossChecks(
 			continue;
 		}
 		const key = BLOCK_KEYS.find((k) => typeof c.values[k] === 'number');
-		const block = key ? valid[c.values[key] as number] : undefined;
+		const block = key ? blocks[c.values[key] as number] : undefined;
 		if (!block) continue;
 		byBlock.set(block.id, [...(byBlock.get(block.id) ?? []), toStored(c)]);
 	}
@@ -79,9 +78,9 @@ const own = (checks: readonly StoredCheck[] | null | undefined) => (checks ?? []
 const same = (a: unknown, b: unknown) => JSON.stringify(a) === JSON.stringify(b);
 
 /**
- * Recompute and store, in the caller's transaction, every check that depends on more than one row:
- * the parts list's own checks (they need the rail) and the cross checks on lines and blocks.
- * Writes only rows whose checks changed.
+ * Recompute and store, in the caller's transaction, every block's derived values and checks as the whole-build
+ * check returns them (an amplifier block takes its worst case from the build's supply block), the parts list's
+ * own checks (they need the rail) and the cross checks on lines and blocks. Writes only rows that changed.
  */
 export async function refreshBuildChecks(tx: Tx, buildId: string): Promise<void> {
 	const [blocks, rows] = await Promise.all([
@@ -92,12 +91,15 @@ export async function refreshBuildChecks(tx: Tx, buildId: string): Promise<void>
 			.orderBy(asc(schema.specBlock.position), asc(schema.specBlock.createdAt)),
 		tx.select().from(schema.partLine).where(eq(schema.partLine.buildId, buildId)).orderBy(asc(schema.partLine.position))
 	]);
-	const railV = railFromBlocks(blocks);
-	const { byBlock, byLine } = placeCrossChecks(blocks, rows);
+	const result = checkBuildRows(blocks, rows);
+	const railV = railFromBlocks(blocks.map((b, i) => ({ ...b, derived: result.blocks[i].derived })));
+	const { byBlock, byLine } = placeCrossChecks(blocks, rows, result.crossRaw);
 
-	for (const b of blocks) {
-		const next = [...own(b.checks), ...(byBlock.get(b.id) ?? [])];
-		if (!same(next, b.checks)) await tx.update(schema.specBlock).set({ checks: next }).where(eq(schema.specBlock.id, b.id));
+	for (const [i, b] of blocks.entries()) {
+		const r = result.blocks[i];
+		const next = { derived: r.derived, checks: [...r.checks.map(toStored), ...(byBlock.get(b.id) ?? [])] };
+		if (!same(next.checks, b.checks) || !same(next.derived, b.derived))
+			await tx.update(schema.specBlock).set(next).where(eq(schema.specBlock.id, b.id));
 	}
 	for (const [i, row] of rows.entries()) {
 		// A stored line was valid when saved; if the rules changed since, keep its old own checks.
@@ -107,3 +109,5 @@ export async function refreshBuildChecks(tx: Tx, buildId: string): Promise<void>
 		if (!same(next, row.checks)) await tx.update(schema.partLine).set({ checks: next }).where(eq(schema.partLine.id, row.id));
 	}
 }
+
+export { partInput };

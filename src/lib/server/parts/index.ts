@@ -10,7 +10,7 @@ import { inTx, type DbLike } from '../db/tx';
 import type { Actor } from '../actor';
 import { afterContentChange, assertCanEdit, lockBuild } from '../builds';
 import { lineToDraft, normaliseLines, type LineError, type NormalisedPartLine, type PartLineDraft } from '$lib/parts';
-import { placeCrossChecks, railFromBlocks } from './checks';
+import { railFromBlocks, refreshBuildChecks } from './checks';
 import { previewPartsCsv, type ImportPreview } from './preview';
 
 export { partsToCsv, readPartsCsv, CSV_COLUMNS, CSV_MAX_BYTES, type CsvRead, type CsvRow } from './csv';
@@ -85,7 +85,6 @@ async function writeLines(
 	blocks: Awaited<ReturnType<typeof blocksFor>>,
 	lines: NormalisedPartLine[]
 ): Promise<void> {
-	const { byBlock, byLine } = placeCrossChecks(blocks, lines);
 	// A line keeps its id while its designators stay the same, so safety flags on it keep their target.
 	const previous = await t
 		.select({ id: schema.partLine.id, designators: schema.partLine.designators })
@@ -113,16 +112,13 @@ async function writeLines(
 					...keptId(l.designators),
 					buildId,
 					position: i + j,
-					checks: [...l.checks, ...byLine[i + j]]
+					checks: l.checks
 				}))
 			);
 		}
 	}
-	for (const blk of blocks) {
-		const next = [...(blk.checks ?? []).filter((c) => !c.id.startsWith('cross.')), ...(byBlock.get(blk.id) ?? [])];
-		if (JSON.stringify(next) !== JSON.stringify(blk.checks))
-			await t.update(schema.specBlock).set({ checks: next }).where(eq(schema.specBlock.id, blk.id));
-	}
+	// Cross checks on lines and blocks: the same whole-build computation as POST /api/v1/spec-check/build.
+	await refreshBuildChecks(t, buildId);
 }
 
 /**

@@ -37,6 +37,8 @@ export async function statusOf(p: Promise<unknown>): Promise<number> {
 	throw new Error('expected the call to fail');
 }
 
+import { supplyBlock } from '$lib/specs/fixtures';
+
 /** A valid amplifier block: ±28 V into 8 Ω, device max 60 V. */
 export const AMP = {
 	channels: 2,
@@ -49,19 +51,17 @@ export const AMP = {
 	claimed: { powerW: 35, thdPct: 1 }
 };
 
-/** A valid supply block: 20 V secondaries, bridge-split → ≈ 27.6 V unloaded rails, 50 V caps, fused and earthed. */
-export const SUPPLY = {
-	mainsVac: 230,
-	mainsHz: 50,
+/**
+ * A valid supply block (the shared fixture with a smaller transformer): 20 V secondaries, bridge-split, 0.7 V drops,
+ * 10 % regulation assumed → 27.6 V per rail at full load, 33.5 V off load at +10 % mains; 50 V caps, fused and earthed.
+ */
+export const SUPPLY = supplyBlock({
 	transformerVA: 160,
 	secondaryVac: 20,
-	rectifier: 'bridge-split',
-	reservoirF: 0.01,
+	diodeDropV: undefined,
+	regulationPct: undefined,
 	capRatingV: 50,
 	loadCurrentA: 1.5,
 	fuse: { ratingA: 1.6, type: 'slow' },
-	chassis: 'metal',
-	protectiveEarth: true,
-	doubleInsulated: false,
 	bleeder: { ohm: 2200 }
-};
+});

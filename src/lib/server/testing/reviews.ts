@@ -8,24 +8,10 @@ import { saveSpecBlock } from '../specs';
 import { savePartsList } from '../parts';
 import { emptyDraft } from '$lib/parts';
 import { uniqueTitle } from './builds';
+import { supplyBlock } from '$lib/specs/fixtures';
 
-/** Supply block data that passes its schema (mains powered, fused, earthed metal chassis). */
-export const SUPPLY_DATA = {
-	mainsVac: 230,
-	mainsHz: 50,
-	transformerVA: 300,
-	secondaryVac: 25,
-	rectifier: 'bridge-split',
-	diodeDropV: 0.8,
-	reservoirF: 0.01,
-	capRatingV: 50,
-	loadCurrentA: 3,
-	fuse: { ratingA: 3.15, type: 'slow' },
-	chassis: 'metal',
-	protectiveEarth: true,
-	doubleInsulated: false,
-	bleeder: { ohm: 4700 }
-};
+/** Supply block data that passes its schema and fires no check (the shared fixture of $lib/specs/fixtures). */
+export const SUPPLY_DATA = supplyBlock();
 
 export interface TestBuild {
 	id: string;

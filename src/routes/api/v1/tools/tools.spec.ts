@@ -102,11 +102,12 @@ describe('POST /tools/amplifier', () => {
 
 describe('POST /tools/heatsink', () => {
 	const good = { powerW: 39.72, ambientC: 25, junctionMaxC: 150, rthJcKPerW: 1, rthCsKPerW: 0.2 };
-	it('200: required Rθsa 1.947 K/W (REFERENCE.md §12 case 4); junctionC with rthSaKPerW', async () => {
+	it('200: required Rθsa 1.947 K/W (REFERENCE.md §12 case 4), feasible; junctionC with rthSaKPerW', async () => {
 		const r = await post(heatsink.POST, 'heatsink', good);
 		expect(r.status).toBe(200);
 		expect(Math.abs(r.body.requiredRthSaKPerW - 1.947)).toBeLessThan(0.005);
-		expect(r.body).not.toHaveProperty('junctionC');
+		expect(r.body.feasible).toBe(true);
+		expect(r.body.junctionC).toBeCloseTo(150, 6); // at the required heatsink the junction sits at the limit
 		const j = await post(heatsink.POST, 'heatsink', { ...good, powerW: 31.03, ambientC: 40, rthCsKPerW: 0.4, rthSaKPerW: 1.5 });
 		expect(j.body.junctionC).toBeCloseTo(130, 1);
 	});
@@ -121,6 +122,16 @@ describe('POST /tools/heatsink', () => {
 		expect(z.status).toBe(422);
 		expect(paths(z.body)).toEqual(['powerW']);
 	});
+	it('feasible false (not a negative heatsink to fit) when 100 W at 50 °C over 1.4 K/W already passes 150 °C; devices share the sink', async () => {
+		const r = await post(heatsink.POST, 'heatsink', { powerW: 100, ambientC: 50, junctionMaxC: 150, rthJcKPerW: 1, rthCsKPerW: 0.4 });
+		expect(r.status).toBe(200);
+		expect(r.body.feasible).toBe(false);
+		expect(r.body.junctionC).toBeCloseTo(190, 9); // 50 + 100 · 1.4, on an ideal sink
+		const two = await post(heatsink.POST, 'heatsink', { ...good, powerW: 20, devices: 2, ambientC: 40, rthCsKPerW: 0.5, rthSaKPerW: 1 });
+		expect(two.body.sinkC).toBeCloseTo(80, 9); // 40 + 2 · 20 · 1
+		expect(two.body.junctionC).toBeCloseTo(110, 9); // 80 + 20 · 1.5
+		expect((await post(heatsink.POST, 'heatsink', { ...good, devices: 0 })).status).toBe(422);
+	});
 });
 
 describe('POST /tools/supply', () => {
@@ -131,6 +142,15 @@ describe('POST /tools/supply', () => {
 		expect(r.body.peakDcV).toBeCloseTo(34.56, 2);
 		expect(r.body.rippleVpp).toBeCloseTo(3, 9);
 		expect(r.body.averageDcV).toBeCloseTo(33.06, 2);
+	});
+	it('worst case with regulation 7 %: 40.81 V at +10 % mains (REFERENCE.md §4.2), 81.62 V rail to rail; 10 % regulation assumed when absent', async () => {
+		const r = await post(supply.POST, 'supply', { ...good, regulationPct: 7 });
+		expect(Math.abs(r.body.highMainsPeakDcV - 40.81)).toBeLessThan(0.01);
+		expect(Math.abs(r.body.highMainsTotalDcV - 81.62)).toBeLessThan(0.02);
+		expect(Math.abs(r.body.lowMainsAverageDcV - 29.52)).toBeLessThan(0.01); // 35.355 · 0.9 − 0.8 − 1.5
+		const d = await post(supply.POST, 'supply', good);
+		expect(d.body.regulationPct).toBe(10);
+		expect(Math.abs(d.body.highMainsPeakDcV - 41.98)).toBeLessThan(0.01); // 35.355 · 1.21 − 0.8
 	});
 	it('diodeDropV defaults to 0.7 V', async () => {
 		const { diodeDropV: _d, ...rest } = good;
