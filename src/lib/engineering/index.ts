@@ -9,6 +9,8 @@ export {
 	TOLERANCE_LETTERS,
 	cleanNumber,
 	parseValue,
+	parseQuantity,
+	QUANTITY_PREFIX,
 	decodeMarking,
 	formatValue,
 	taperNoteFor,

@@ -57,6 +57,59 @@ export function cleanNumber(x: number): number {
 	return x === 0 ? 0 : Number(x.toPrecision(12));
 }
 
+/** SI prefixes a plain quantity may carry ("300m" A, "1.5k" W, "20k" Hz). */
+export const QUANTITY_PREFIX: Readonly<Record<string, number>> = { p: 1e-12, n: 1e-9, u: 1e-6, µ: 1e-6, m: 1e-3, k: 1e3, K: 1e3, M: 1e6, G: 1e9 };
+/** Units that take SI prefixes (mA, kW, mV, kHz; '' = a bare number); °C, K/W, % and ratios do not. */
+const PREFIXABLE = new Set(['', 'V', 'A', 'W', 'Hz', 'VA', 's', 'J', 'Vrms', 'Vpp']);
+/** Other spellings accepted for a unit. */
+const UNIT_ALIASES: Readonly<Record<string, string[]>> = {
+	'°C': ['°C', 'C', 'degC', '° C'],
+	'K/W': ['K/W', '°C/W', 'C/W'],
+	Hz: ['Hz', 'hz'],
+	V: ['V', 'v'],
+	Vrms: ['Vrms', 'V rms', 'V'],
+	Vpp: ['Vpp', 'V p-p', 'V'],
+	A: ['A', 'a'],
+	W: ['W', 'w'],
+	'%': ['%'],
+	s: ['s']
+};
+
+/**
+ * Read a plain quantity as a maker types it, in `unit`: a decimal number (point or comma, e notation, a typographic
+ * minus), an optional SI prefix where the unit takes one, and an optional unit. "35" → 35, "35 V" → 35, "0,8" → 0.8,
+ * "300m" or "300 mA" (unit A) → 0.3, "1.5k" (unit W) → 1500, "20k" (unit '') → 20000. Component values (Ω, F, H)
+ * are read by parseValue instead. Throws RangeError with a sentence for anything else.
+ */
+export function parseQuantity(text: string, unit = ''): number {
+	const s = String(text)
+		.trim()
+		.replace(/[\u2212\u2013]/g, '-')
+		.replace(/\u03bc/g, 'µ');
+	if (s === '') throw new RangeError('Enter a value.');
+	const m = /^([+-]?(?:\d+(?:[.,]\d*)?|[.,]\d+)(?:[eE][+-]?\d+)?)\s*(.*)$/.exec(s);
+	if (!m) throw new RangeError(`Cannot read "${text}" as a number${unit ? ` of ${unit}` : ''}: write e.g. 35${unit ? ` or 35 ${unit}` : ''}.`);
+	let value = Number(m[1].replace(',', '.'));
+	let rest = m[2].trim();
+	const spellings = UNIT_ALIASES[unit] ?? [unit];
+	const stripUnit = (r: string) => {
+		for (const u of spellings) if (u && r.toLowerCase().endsWith(u.toLowerCase())) return r.slice(0, r.length - u.length).trim();
+		return null;
+	};
+	const withoutUnit = rest === '' ? '' : stripUnit(rest);
+	if (withoutUnit !== null) rest = withoutUnit;
+	if (rest !== '') {
+		const factor = PREFIXABLE.has(unit) ? QUANTITY_PREFIX[rest] : undefined;
+		if (factor === undefined)
+			throw new RangeError(
+				`Cannot read "${text}"${unit ? ` as ${unit}` : ''}: ${PREFIXABLE.has(unit) ? `use a number, optionally with a prefix (m, k)${unit ? ` and ${unit}` : ''}` : `use a plain number${unit ? ` of ${unit}` : ''}`}.`
+			);
+		value *= factor;
+	}
+	if (!Number.isFinite(value)) throw new RangeError(`"${text}" is not a finite number.`);
+	return cleanNumber(value);
+}
+
 /** Tolerance letters accepted after a code (API.md: F 1, G 2, J 5, K 10, M 20 %). IEC 60062 letter code. */
 export const TOLERANCE_LETTERS: Readonly<Record<string, number>> = { F: 1, G: 2, J: 5, K: 10, M: 20 };
 

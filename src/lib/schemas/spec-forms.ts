@@ -5,7 +5,7 @@
  * $lib/specs on the server; its issues are mapped back to these fields (a point list's issues to its line).
  */
 import { z } from 'zod';
-import { parseValue, RECTIFIERS, type ValueKind } from '$lib/engineering';
+import { parseQuantity, parseValue, RECTIFIERS, type ValueKind } from '$lib/engineering';
 import { SPEC_KINDS, TOPOLOGIES, CHASSIS, type SpecKind } from '$lib/specs';
 
 /** How a field is typed and read. */
@@ -67,7 +67,22 @@ export const SPEC_FORMS: Record<SpecKind, SpecSection[]> = {
 				{ path: 'device.dropoutV', label: 'Dropout per side', type: n('V'), placeholder: '3', initial: '3' },
 				{ path: 'device.junctionMaxC', label: 'Junction max', type: n('°C'), placeholder: '150', initial: '150' },
 				{ path: 'device.rthJcKPerW', label: 'Rth junction–case', type: n('K/W'), placeholder: '1' },
-				{ path: 'device.minLoadOhm', label: 'Minimum load', type: ohm, placeholder: '4R' }
+				{ path: 'device.minLoadOhm', label: 'Minimum load', type: ohm, placeholder: '4R' },
+				{ path: 'device.maxOutputCurrentA', label: 'Peak output current rating', type: n('A'), optional: true, hint: 'Current limit or safe-area figure; blank if the data sheet gives none.', placeholder: '11' }
+			]
+		},
+		{
+			title: 'Worst case and topology details',
+			note: 'Heat and ratings are checked at the worst case: rails at high mains off load, the speaker at 80 % of its nominal impedance, the quiescent current included.',
+			fields: [
+				{ path: 'quiescentA', label: 'Quiescent current per stage', type: n('A'), optional: true, hint: 'From the data sheet; 50m = 50 mA. Blank: 0.', placeholder: '0.05' },
+				{ path: 'mainsHighPct', label: 'High-mains allowance', type: n('%'), optional: true, hint: 'Blank: 10 %.', placeholder: '10' },
+				{ path: 'bridged', label: 'Two stages drive the load in bridge', type: yesNo },
+				{ path: 'biasA', label: 'Class A bias current', type: n('A'), optional: true, hint: 'Class A only: the output stage’s standing current.', placeholder: '0.1' },
+				{ path: 'classA', label: 'Class A stage', type: sel(['push-pull', 'single-ended']), initial: 'push-pull' },
+				{ path: 'efficiencyPct', label: 'Class D efficiency', type: n('%'), optional: true, hint: 'Class D only. Blank: 85 %.', placeholder: '85' },
+				{ path: 'regulatedRails', label: 'Runs from regulated rails after the supply block', type: yesNo },
+				{ path: 'speakerProtection', label: 'Speaker DC protection fitted', type: yesNo }
 			]
 		},
 		{
@@ -104,9 +119,11 @@ export const SPEC_FORMS: Record<SpecKind, SpecSection[]> = {
 				{ path: 'mainsHz', label: 'Mains frequency', type: n('Hz'), placeholder: '50', initial: '50' },
 				{ path: 'transformerVA', label: 'Transformer rating', type: n('VA'), placeholder: '160' },
 				{ path: 'secondaryVac', label: 'Secondary per rail (RMS, at rated load)', type: n('V'), placeholder: '20' },
-				{ path: 'regulationPct', label: 'Transformer regulation', type: n('%'), optional: true, hint: 'Off-load rise over the rated secondary; from the transformer’s data.', placeholder: '7' },
+				{ path: 'regulationPct', label: 'Transformer regulation', type: n('%'), optional: true, hint: 'Off-load rise over the rated secondary; from the transformer’s data. Blank: 10 % assumed.', placeholder: '7' },
 				{ path: 'mainsHighPct', label: 'High-mains allowance', type: n('%'), optional: true, hint: 'Blank: 10 %.', placeholder: '10' },
-				{ path: 'mainsPowered', label: 'Mains powered', type: yesNo, initial: 'on' }
+				{ path: 'mainsLowPct', label: 'Low-mains allowance', type: n('%'), optional: true, hint: 'Blank: 10 %.', placeholder: '10' },
+				{ path: 'mainsPowered', label: 'Mains powered', type: yesNo, initial: 'on' },
+				{ path: 'softStart', label: 'Soft-start (inrush limiter) fitted', type: yesNo }
 			]
 		},
 		{
@@ -144,7 +161,8 @@ export const SPEC_FORMS: Record<SpecKind, SpecSection[]> = {
 		{
 			title: 'Heat path',
 			fields: [
-				{ path: 'powerW', label: 'Dissipation', type: n('W'), hint: 'Use the amplifier block’s worst-case dissipation per device.', placeholder: '31' },
+				{ path: 'powerW', label: 'Dissipation per device', type: n('W'), hint: 'Use the amplifier block’s design (worst-case) dissipation per stage.', placeholder: '31' },
+				{ path: 'devices', label: 'Devices on this heatsink', type: n('', true), optional: true, hint: 'Each dissipating the figure above. Blank: 1.', placeholder: '1', initial: '1' },
 				{ path: 'ambientC', label: 'Ambient (inside the case)', type: n('°C'), placeholder: '40', initial: '40' },
 				{ path: 'junctionMaxC', label: 'Junction max', type: n('°C'), placeholder: '150', initial: '150' },
 				{ path: 'rthJcKPerW', label: 'Rth junction–case', type: n('K/W'), placeholder: '1' },
@@ -231,26 +249,18 @@ export interface FormIssue {
 	message: string;
 }
 
-const SI: Record<string, number> = { p: 1e-12, n: 1e-9, u: 1e-6, µ: 1e-6, m: 1e-3, '': 1, k: 1e3, K: 1e3, M: 1e6, G: 1e9 };
-
 /**
- * Read a plain number as typed: "35", "-12.5", "0,47", "1e3", "20k" (SI prefix), with an optional unit after it
- * ("35 V", "1.5A", "0.01 %"). readNumber('20k', 'Hz') → 20000. Null when unreadable.
+ * Read a plain number as typed: "35", "-12.5", "0,47", "1e3", "20k" (SI prefix where the unit takes one), with an
+ * optional unit after it ("35 V", "1.5A", "0.01 %") — the engineering library's parseQuantity, as the bench tools.
+ * readNumber('20k', 'Hz') → 20000. Null when unreadable.
  */
 export function readNumber(text: string, unit = ''): number | null {
-	let s = text.trim().replace(/\u2212/g, '-');
-	if (unit) {
-		const u = unit.replace(/[.*+?^${}()|[\]\\]/g, '\\$&');
-		s = s.replace(new RegExp(`\\s*${u}$`, 'i'), '');
+	const s = text.trim().replace(/\s*%$/, '');
+	try {
+		return parseQuantity(s, unit === '%' ? '' : unit);
+	} catch {
+		return null;
 	}
-	s = s.replace(/\s*%$/, '').replace(/^\+/, '');
-	if (/^-?\d+,\d+$/.test(s)) s = s.replace(',', '.');
-	const m = /^(-?(?:\d+(?:\.\d*)?|\.\d+)(?:e[+-]?\d+)?)\s*([pnuµmkKMG]?)$/i.exec(s);
-	if (!m) return null;
-	const mult = SI[m[2]] ?? (m[2] === 'K' ? 1e3 : undefined);
-	if (mult === undefined) return null;
-	const v = Number(m[1]) * mult;
-	return Number.isFinite(v) ? Number(v.toPrecision(12)) : null;
 }
 
 const isOn = (s: string) => /^(on|true|yes|1)$/i.test(s.trim());

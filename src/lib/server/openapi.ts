@@ -17,6 +17,7 @@ import {
 	resistorBandsColorsQuery,
 	resistorBandsValueQuery,
 	specCheckInput,
+	specCheckBuildInput,
 	supplyToolInput
 } from '$lib/schemas/tools';
 import { commentEditSchema, commentSchema, reportSchema } from '$lib/schemas/review';
@@ -60,18 +61,34 @@ const amplifierOut = z.object({
 	peakCurrentA: num('Peak output current at maximum power, A'),
 	rmsVoltageV: num('RMS output voltage at maximum power, V'),
 	worstDissipationW: num('Class B worst-case dissipation per channel, 2·Vcc²/(π²·R), W'),
+	railLimitPowerW: num('(V − dropout)²/(2R), W'),
+	designDissipationW: num('Worst case per channel at +mainsHighPct % mains, 0.8 × loadOhm, quiescent included: 2·Vhi²/(π²·0.8R) + quiescentA·2Vhi, W'),
+	highMainsTotalV: num('Total supply at high mains, 2·V·(1 + mainsHighPct/100), V'),
+	minImpedanceOhm: num('0.8 × loadOhm (IEC 60268-5), Ω'),
+	worstPeakCurrentA: num('Peak output current at high mains into the minimum impedance, A'),
 	supplyPowerW: num('Power drawn from the rails at outputW, W').optional(),
 	dissipationW: num('Dissipation at outputW, W').optional(),
 	efficiency: num('Efficiency at outputW, 0–1').optional()
 });
 const heatsinkOut = z.object({
-	requiredRthSaKPerW: num('Largest sink-to-ambient resistance that keeps the junction at junctionMaxC − marginC, K/W'),
-	junctionC: num('Junction temperature with the given rthSaKPerW, °C').optional()
+	requiredRthSaKPerW: num('Largest sink-to-ambient resistance that keeps each junction at junctionMaxC − marginC, (Tj − Ta − P·(θjc + θcs))/(devices·P), K/W; ≤ 0 when no heatsink can'),
+	feasible: z.boolean().describe('requiredRthSaKPerW > 0'),
+	sinkC: num('Heatsink temperature Ta + devices·powerW·rthSa at the given heatsink, or at the required one (an ideal 0 K/W one when none can), °C'),
+	caseC: num('sinkC + powerW·rthCs, °C'),
+	junctionC: num('sinkC + powerW·(rthJc + rthCs), °C'),
+	devices: z.number().int().describe('Devices sharing the heatsink')
 });
 const supplyOut = z.object({
-	peakDcV: num('Unloaded DC rail, V'),
+	peakDcV: num('√2·secondaryVac − diode drops (rated load, nominal mains), V'),
 	rippleVpp: num('Ripple at loadCurrentA, V peak to peak'),
-	averageDcV: num('Peak minus half the ripple, V')
+	averageDcV: num('peakDcV minus half the ripple, V'),
+	offLoadPeakDcV: num('√2·secondaryVac·(1 + regulationPct/100) − drops, V'),
+	highMainsPeakDcV: num('√2·secondaryVac·(1 + regulationPct/100)·(1 + mainsHighPct/100) − drops, V'),
+	lowMainsAverageDcV: num('√2·secondaryVac·(1 − mainsLowPct/100) − drops − rippleVpp/2, V'),
+	highMainsTotalDcV: num('Rail to rail at high mains (× 2 for bridge-split), V'),
+	regulationPct: num('Regulation used (10 when not given), %'),
+	mainsHighPct: num('%'),
+	mainsLowPct: num('%')
 });
 const gainOut = z.object({ gain: num('Voltage gain, 1 + Rf/Ri'), gainDb: num('Gain in dB') });
 const cornerOut = z.object({ cornerHz: num('First-order corner 1/(2πRC), Hz') });
@@ -102,6 +119,10 @@ const check = z.object({
 	values: z.record(z.string(), z.unknown())
 });
 const specCheckOut = z.object({ derived: z.record(z.string(), z.unknown()), checks: z.array(check) });
+const specCheckBuildOut = z.object({
+	blocks: z.array(specCheckOut).describe('One result per block, in the order given'),
+	cross: z.array(check).describe('Checks across blocks and the parts list: cross.rails-beyond-device, cross.cap-below-rail (danger), cross.thermal-power-below-worst (caution), …')
+});
 
 const photoOut = z.object({
 	id: z.string(),
@@ -197,6 +218,7 @@ const benchSetOut = z.object({ slug: z.string(), saved: z.boolean() });
 const suggestOut = z.object({ items: z.array(z.object({ slug: z.string(), title: z.string(), url: z.string() })) });
 
 const specCheckBody = z.union(SPEC_KINDS.map((k) => z.object({ kind: z.literal(k), data: specSchemas[k] })) as unknown as [z.ZodType, z.ZodType]);
+const specCheckBuildBody = z.object({ blocks: z.array(specCheckBody).min(1).max(20), parts: specCheckBuildInput.shape.parts });
 
 // ---------------------------------------------------------------------------------------------
 
@@ -345,6 +367,17 @@ export const OPERATIONS: Operation[] = [
 			'`data` is validated by the schema of its `kind`; issue paths start with `data.`. Checks are note, caution or danger. A passing check is a calculation, not a safety approval: mains, stored charge and heat can hurt — defer to local electrical codes and licensed practice.',
 		body: specCheckBody,
 		response: specCheckOut,
+		errors: [400, 422]
+	},
+	{
+		method: 'post',
+		path: '/api/v1/spec-check/build',
+		tag: 'Spec checks',
+		summary: 'Check a whole build: every block, then the checks across blocks and the parts list',
+		description:
+			'The same computation as the build page. Inside a build whose supply block states the rails, an amplifier block’s worst-case figures use that supply’s off-load rail at high mains. Issue paths start at the body root: `blocks.2.data.railV`. A passing check is a calculation, not a safety approval: mains, stored charge and heat can hurt — defer to local electrical codes and licensed practice.',
+		body: specCheckBuildBody,
+		response: specCheckBuildOut,
 		errors: [400, 422]
 	},
 	{ method: 'post', path: '/api/v1/tools/amplifier', tag: 'Bench tools', summary: 'Class AB/B output stage: power, current and dissipation', body: amplifierToolInput, response: amplifierOut, errors: [400, 422] },

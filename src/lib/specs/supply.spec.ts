@@ -105,6 +105,11 @@ describe('supply block — checks at their thresholds', () => {
 		// ±40 V class supply of the issue: 81.6 V rail to rail with no bleeder is a caution, not a note
 		expect(ids(base({ bleeder: null }))).toContain('supply.no-bleeder:caution');
 	});
+	it('supply.soft-start: note above 300 VA without a soft-start (amplifier-project supply article, REFERENCE.md §4.7)', () => {
+		expect(ids(base({ transformerVA: 300 }))).not.toContain('supply.soft-start:note');
+		expect(ids(base({ transformerVA: 301, fuse: { ratingA: 3.15, type: 'slow' } }))).toContain('supply.soft-start:note');
+		expect(ids(base({ transformerVA: 301, softStart: true }))).not.toContain('supply.soft-start:note');
+	});
 	it('supply.transformer-small: caution below 1.0 × the output it feeds, note below 1.5 × (common practice)', () => {
 		expect(ids(base({ amplifierDemandW: 200, transformerVA: 300 }))).not.toContain('supply.transformer-small:note');
 		expect(ids(base({ amplifierDemandW: 200, transformerVA: 299 }))).toContain('supply.transformer-small:note');

@@ -37,6 +37,11 @@ export const ES1_DC_LIMIT_V = 60;
 export const ES2_DC_LIMIT_V = 120;
 /** A primary fuse above this multiple of the full-load primary current protects little (API.md; common practice 1.5–3 ×). */
 export const FUSE_MAX_RATIO = 3;
+/**
+ * Transformer size above which a soft-start (series NTC, or a resistor a relay shorts after a moment) is advised:
+ * 300 VA. Source: an amplifier-project supply article recommends one above 300 VA (toroid inrush; REFERENCE.md §4.7).
+ */
+export const SOFT_START_VA = 300;
 /** A fast fuse is noted from this transformer size up (inrush; API.md revision 2). VA. */
 export const FAST_FUSE_NOTE_VA = 100;
 /** Voltage a bleeder is timed to: 5 V (common practice, no single source; below any shock threshold but still able to spark). */
@@ -72,6 +77,8 @@ export const supplySpec = z
 		doubleInsulated: flag(),
 		/** true / false, or { ohm } (one bleeder per rail), or null for none. */
 		bleeder: z.union([z.boolean(), z.object({ ohm: pos(1e8, 'Ω') })], { error: 'must be true, false, { ohm } or null' }).nullable(),
+		/** A soft-start (inrush limiter) is fitted. */
+		softStart: flag().optional(),
 		/** Whether the supply is mains powered (default true); a fuse is required only then. */
 		mainsPowered: flag().default(true),
 		/** Transformer regulation: off-load rise over the rated secondary, % (read the transformer's data; 10 assumed when absent). */
@@ -238,6 +245,14 @@ export function deriveSupply(data: SupplySpec): SpecResult<SupplyDerived> {
 			level: 'note',
 			message: `A fast fuse on the primary of a ${fmt(data.transformerVA)} VA transformer tends to blow at switch-on (inrush); a time-delay (T) fuse is the usual choice.`,
 			values: { fuseType: 'fast', ratingA: data.fuse.ratingA, transformerVA: data.transformerVA },
+			caution: MAINS_CAUTION
+		});
+	if (data.mainsPowered && data.transformerVA > SOFT_START_VA && data.softStart !== true)
+		checks.push({
+			id: 'supply.soft-start',
+			level: 'note',
+			message: `A ${fmt(data.transformerVA)} VA transformer (toroids especially) can draw many times its running current at switch-on: above ${SOFT_START_VA} VA a soft-start is usual, so the primary fuse can stay small.`,
+			values: { transformerVA: data.transformerVA, softStartVA: SOFT_START_VA },
 			caution: MAINS_CAUTION
 		});
 	if (data.mainsPowered && data.chassis === 'metal' && !data.protectiveEarth && !data.doubleInsulated)

@@ -73,7 +73,7 @@ export const DEMO_BUILDS: DemoBuild[] = [
 			},
 			{
 				title: 'Heatsinks and insulation',
-				body: `The tab of this IC sits at the negative rail, so each one is mounted on a mica washer with a thin layer of thermal compound and a shoulder washer on the screw. I checked with an ohmmeter that the tab does not touch the heatsink before any power was applied.\n\nHeatsinks are 2.5 K/W each; the thermal block shows the junction estimate at 40 °C inside the case.`,
+				body: `The tab of this IC sits at the negative rail, so each one is mounted on a mica washer with a thin layer of thermal compound and a shoulder washer on the screw. I checked with an ohmmeter that the tab does not touch the heatsink before any power was applied.\n\nHeatsinks are 0.8 K/W each; the thermal block shows the junction estimate at 40 °C inside the case.`,
 				image: { motif: 'heatsink', alt: 'Sketch of a finned heatsink with the IC mounted on an insulating washer' }
 			},
 			{
@@ -91,10 +91,11 @@ export const DEMO_BUILDS: DemoBuild[] = [
 					supply: 'split',
 					railV: 28,
 					loadOhm: 8,
-					device: { maxSupplyV: 84, dropoutV: 4, junctionMaxC: 150, rthJcKPerW: 1, minLoadOhm: 4 },
+					device: { maxSupplyV: 84, dropoutV: 4, junctionMaxC: 150, rthJcKPerW: 1, minLoadOhm: 4, maxOutputCurrentA: 11 },
 					gain: { rfOhm: 22000, riOhm: 1000 },
 					input: { rOhm: 22000, cF: 1e-6 },
-					claimed: { powerW: 38, thdPct: 0.1 }
+					claimed: { powerW: 33, thdPct: 1 },
+					quiescentA: 0.05
 				}
 			},
 			{
@@ -107,7 +108,7 @@ export const DEMO_BUILDS: DemoBuild[] = [
 					rectifier: 'bridge-split',
 					diodeDropV: 0.8,
 					reservoirF: 0.01,
-					capRatingV: 35,
+					capRatingV: 50,
 					loadCurrentA: 1.5,
 					fuse: { ratingA: 1.6, type: 'slow' },
 					chassis: 'metal',
@@ -121,12 +122,12 @@ export const DEMO_BUILDS: DemoBuild[] = [
 			{
 				kind: 'thermal',
 				data: {
-					powerW: 19.9,
+					powerW: 36,
 					ambientC: 40,
 					junctionMaxC: 150,
 					rthJcKPerW: 1,
 					rthCsKPerW: 0.4,
-					rthSaKPerW: 2.5,
+					rthSaKPerW: 0.8,
 					tabAtRail: true,
 					tabInsulated: true,
 					heatsinkBondedToChassis: true
@@ -184,7 +185,7 @@ export const DEMO_BUILDS: DemoBuild[] = [
 			{ designators: 'R5, R6', quantity: 2, kind: 'resistor', value: '22k', tolerancePct: 1, ratingW: 0.25, package: 'axial', notes: 'Input to ground' },
 			{ designators: 'C1, C2', quantity: 2, kind: 'capacitor', value: '1u', tolerancePct: 10, ratingV: 63, package: 'film 5 mm', notes: 'Input coupling' },
 			{ designators: 'C3a, C3b, C4a, C4b', quantity: 4, kind: 'capacitor', value: '1u+1u', designValue: '470n', tolerancePct: 10, ratingV: 63, package: 'film 5 mm', notes: 'Two in series per channel', reason: 'Had 1 µF film on hand; two in series give 0.5 µF' },
-			{ designators: 'C5, C6', quantity: 2, kind: 'capacitor', value: '10000u', tolerancePct: 20, ratingV: 35, package: 'snap-in 30 mm', notes: 'Reservoirs, one per rail' },
+			{ designators: 'C5, C6', quantity: 2, kind: 'capacitor', value: '10000u', tolerancePct: 20, ratingV: 50, package: 'snap-in 30 mm', notes: 'Reservoirs, one per rail' },
 			{ designators: 'C7–C10', quantity: 4, kind: 'capacitor', value: '100n', tolerancePct: 10, ratingV: 100, package: 'film 5 mm', notes: 'Local bypass' },
 			{ designators: 'R7, R8', quantity: 2, kind: 'resistor', value: '2R2', designValue: '2R7', tolerancePct: 5, ratingW: 1, package: 'axial', notes: 'Zobel resistor', reason: 'Closest value in the drawer' },
 			{ designators: 'R9, R10', quantity: 2, kind: 'resistor', value: '4k7', tolerancePct: 5, ratingW: 1, package: 'axial', notes: 'Bleeders across the reservoirs' },
@@ -231,13 +232,17 @@ export const DEMO_BUILDS: DemoBuild[] = [
 					railV: 15,
 					loadOhm: 32,
 					device: { maxSupplyV: 40, dropoutV: 3, junctionMaxC: 150, rthJcKPerW: 2.5, minLoadOhm: 16 },
-					gain: { rfOhm: 4700, riOhm: 1000 }
+					gain: { rfOhm: 4700, riOhm: 1000 },
+					biasA: 0.1,
+					classA: 'single-ended',
+					regulatedRails: true,
+					claimed: { powerW: 0.5, thdPct: 0.1 }
 				}
 			},
 			{
 				kind: 'thermal',
 				data: {
-					powerW: 6,
+					powerW: 3.3,
 					ambientC: 45,
 					junctionMaxC: 150,
 					rthJcKPerW: 2.5,
@@ -447,6 +452,7 @@ export const DEMO_BUILDS: DemoBuild[] = [
 					capRatingV: 25,
 					loadCurrentA: 0.3,
 					fuse: { ratingA: 0.1, type: 'slow' },
+					regulationPct: 20,
 					chassis: 'plastic',
 					protectiveEarth: false,
 					doubleInsulated: true,
@@ -486,11 +492,12 @@ export const DEMO_BUILDS: DemoBuild[] = [
 				kind: 'thermal',
 				data: {
 					powerW: 50,
+					devices: 4,
 					ambientC: 25,
 					junctionMaxC: 200,
 					rthJcKPerW: 0.5,
 					rthCsKPerW: 0.2,
-					rthSaKPerW: 0.8,
+					rthSaKPerW: 0.2,
 					tabAtRail: false,
 					tabInsulated: false,
 					heatsinkBondedToChassis: true
