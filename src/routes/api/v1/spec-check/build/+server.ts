@@ -1,7 +1,7 @@
 import type { RequestHandler } from './$types';
 import { json } from '@sveltejs/kit';
 import { specCheckBuildInput } from '$lib/schemas/tools';
-import { apiError, methodNotAllowed, rangeErrorResponse, readJson, zodErrorResponse } from '$lib/server/api';
+import { apiError, methodNotAllowed, rangeErrorResponse, readJson, zodErrorResponse } from '$lib/server/http';
 import { checkBuildRequest } from '$lib/server/specs';
 
 /**
