@@ -133,7 +133,9 @@ export const specCheckBuildInput = z.object({
 				kind: z.string({ error: (iss) => (iss.input === undefined ? 'required' : 'must be text') }).max(40, 'at most 40 characters'),
 				value: z.number({ error: (iss) => (iss.input === undefined ? 'required' : 'must be a number') }).finite().nullable(),
 				ratingV: pos(100_000, 'V').nullish(),
-				railToRail: z.boolean({ error: 'must be true or false' }).optional()
+				railToRail: z.boolean({ error: 'must be true or false' }).optional(),
+				valueText: z.string({ error: 'must be text' }).max(200, 'at most 200 characters').nullish(),
+				designValueText: z.string({ error: 'must be text' }).max(200, 'at most 200 characters').nullish()
 			}),
 			{ error: 'must be a list of part lines' }
 		)

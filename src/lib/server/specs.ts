@@ -96,13 +96,24 @@ export function checkBuildSpecs(blocks: readonly BlockInput[], parts: readonly P
 const RAIL_TO_RAIL = /rail[\s-]+to[\s-]+rail|across (?:both|the) rails/i;
 
 /** A stored or posted part line as the cross checks read it. partInput({ designators: 'C9', kind: 'capacitor', value: 1e-7, ratingV: 63, notes: 'rail to rail' }).railToRail → true. */
-export function partInput(l: { designators: string; kind: string; value: number | null; ratingV?: number | null; notes?: string | null; railToRail?: boolean }): PartLineInput {
+export function partInput(l: {
+	designators: string;
+	kind: string;
+	value: number | null;
+	ratingV?: number | null;
+	notes?: string | null;
+	railToRail?: boolean;
+	valueText?: string | null;
+	designValueText?: string | null;
+}): PartLineInput {
 	return {
 		designators: l.designators,
 		kind: l.kind,
 		value: l.value,
 		ratingV: l.ratingV ?? null,
-		railToRail: l.railToRail ?? RAIL_TO_RAIL.test(l.notes ?? '')
+		railToRail: l.railToRail ?? RAIL_TO_RAIL.test(l.notes ?? ''),
+		valueText: l.valueText ?? null,
+		designValueText: l.designValueText ?? null
 	};
 }
 
@@ -118,7 +129,7 @@ export interface BuildRowsResult {
  */
 export function checkBuildRows(
 	blocks: readonly { kind: string; data: unknown; derived: unknown }[],
-	lines: readonly { designators: string; kind: string; value: number | null; ratingV?: number | null; notes?: string | null }[]
+	lines: readonly { designators: string; kind: string; value: number | null; ratingV?: number | null; notes?: string | null; valueText?: string | null; designValueText?: string | null }[]
 ): BuildRowsResult {
 	const r = checkBuildSpecs(blocks, lines.map(partInput));
 	return {

@@ -10,7 +10,7 @@ import { supplySpec, deriveSupply, transformerCheck, type SupplyDerived, type Su
 import { thermalSpec, deriveThermal } from './thermal';
 import { measurementsSpec, deriveMeasurements, type MeasurementsDerived } from './measurements';
 import { bringupSpec, deriveBringup } from './bringup';
-import { CHARGE_CAUTION, HEAT_CAUTION, fmt, type Check } from './types';
+import { CHARGE_CAUTION, HEAT_CAUTION, MAINS_CAUTION, fmt, type Check } from './types';
 
 /** The spec-block kinds, in the order the UI lists them. */
 export const SPEC_KINDS = ['amplifier', 'supply', 'thermal', 'measurements', 'bringup'] as const;
@@ -38,6 +38,17 @@ export interface PartLineInput {
 	value: number | null;
 	ratingV?: number | null;
 	railToRail?: boolean;
+	/** The fitted value as written ("T2A") and, on a substitution line, the design's ("T1.6A"). */
+	valueText?: string | null;
+	designValueText?: string | null;
+}
+
+/** Current rating written in a fuse's value: "T1.6A" → 1.6, "500 mA slow" → 0.5; null when none. fuseRatingA('T1.6A') → 1.6. */
+export function fuseRatingA(text: string | null | undefined): number | null {
+	const m = /(\d+(?:[.,]\d+)?)\s*(m?)A(?![a-z])/i.exec(String(text ?? ''));
+	if (!m) return null;
+	const v = Number(m[1].replace(',', '.')) * (m[2] ? 1e-3 : 1);
+	return Number.isFinite(v) && v > 0 ? v : null;
 }
 
 /** One block's outcome: derived values and checks, or why it could not be checked. */
@@ -53,6 +64,8 @@ export interface BuildCheckResult {
 
 /** Capacitor share of a cross check: a capacitor line is one whose kind says so. */
 const isCapacitor = (kind: string) => /cap/i.test(kind);
+/** Transistor lines (bipolar, MOSFET, JFET) are checked against the rail like capacitors. */
+const isTransistor = (kind: string) => /transistor|mosfet|fet\b/i.test(kind);
 
 /** The rails an amplifier block sees from a supply block (per side; see AmplifierRailContext). */
 export function railContext(amp: Pick<AmplifierSpec, 'supply'>, supply: SupplyDerived, supplyBlock: number): AmplifierRailContext {
@@ -103,7 +116,10 @@ function attempt(kind: SpecKind, data: Record<string, unknown>, run: () => { der
  *   per stage (halved when bridged);
  * - cross.measured-power-beyond-max (caution): measured power at ≤ 1 % THD above 1.05 × the amplifier's maxPowerW;
  * - cross.transformer-small (caution/note): the supply's VA against the amplifier blocks' output, when the supply block
- *   does not state amplifierDemandW itself.
+ *   does not state amplifierDemandW itself;
+ * - cross.rating-below-rail (danger): a transistor line's ratingV below the rail it sees (as cross.cap-below-rail);
+ * - part.fuse-larger (caution): a fuse line fitted with a higher current rating than the design's.
+ * Checks about one part line carry its index as values.line.
  */
 export function checkBuild(blocks: readonly SpecBlockInput[], parts: readonly PartLineInput[] = []): BuildCheckResult {
 	const parsed = blocks.map((b) => ({ kind: String(b?.kind), r: parse(String(b?.kind), b?.data) }));
@@ -154,21 +170,40 @@ export function checkBuild(blocks: readonly SpecBlockInput[], parts: readonly Pa
 	});
 
 	const cross: Check[] = [];
-	if (top) {
-		for (const p of parts) {
-			if (!p || !isCapacitor(String(p.kind))) continue;
-			if (typeof p.ratingV !== 'number' || !Number.isFinite(p.ratingV)) continue;
+	parts.forEach((p, line) => {
+		if (!p) return;
+		const kind = String(p.kind);
+		if (top && (isCapacitor(kind) || isTransistor(kind)) && typeof p.ratingV === 'number' && Number.isFinite(p.ratingV)) {
 			const seesV = p.railToRail ? top.derived.highMainsTotalDcV : top.derived.highMainsPeakDcV;
+			const cap = isCapacitor(kind);
 			if (p.ratingV < seesV)
 				cross.push({
-					id: 'cross.cap-below-rail',
+					id: cap ? 'cross.cap-below-rail' : 'cross.rating-below-rail',
 					level: 'danger',
-					message: `${p.designators}: rated ${fmt(p.ratingV)} V, below the ${fmt(seesV)} V ${p.railToRail ? 'rail to rail' : 'rail'} the supply block reaches off load at +${fmt(top.data.mainsHighPct)} % mains. A capacitor on the rail would be over-voltage; if this one never sees the rail (a feedback-leg or coupling capacitor), say so in its line.`,
-					values: { designators: p.designators, ratingV: p.ratingV, highMainsPeakDcV: top.derived.highMainsPeakDcV, seesV, railToRail: !!p.railToRail, supplyBlock: top.index },
+					message: `${p.designators}: rated ${fmt(p.ratingV)} V, below the ${fmt(seesV)} V ${p.railToRail ? 'rail to rail' : 'rail'} the supply block reaches off load at +${fmt(top.data.mainsHighPct)} % mains. ${
+						cap
+							? 'A capacitor on the rail would be over-voltage; if this one never sees the rail (a feedback-leg or coupling capacitor), say so in its line.'
+							: p.railToRail
+								? 'The transistor can break down.'
+								: 'An output transistor of a split supply sees the whole rail-to-rail voltage: check it against that too (write “rail to rail” in its line).'
+					}`,
+					values: { designators: p.designators, line, ratingV: p.ratingV, highMainsPeakDcV: top.derived.highMainsPeakDcV, seesV, railToRail: !!p.railToRail, supplyBlock: top.index },
 					caution: CHARGE_CAUTION
 				});
 		}
-	}
+		if (/fuse/i.test(kind) && p.designValueText) {
+			const fitted = fuseRatingA(p.valueText);
+			const design = fuseRatingA(p.designValueText);
+			if (fitted !== null && design !== null && fitted > design)
+				cross.push({
+					id: 'part.fuse-larger',
+					level: 'caution',
+					message: `${p.designators}: a ${fmt(fitted)} A fuse is fitted where the design has ${fmt(design)} A. A larger fuse lets a fault run longer and hotter before it blows; fit the design's rating, or show why the larger one is needed.`,
+					values: { designators: p.designators, line, ratingA: fitted, designRatingA: design },
+					caution: MAINS_CAUTION
+				});
+		}
+	});
 
 	if (amps.length) {
 		const modelled = amps.filter((a) => a.derived.maxPowerW !== null);

@@ -77,6 +77,23 @@ describe('cross checks at their thresholds', () => {
 		expect(checks.map((c) => `${c.values.designators}:${c.level}`)).toEqual(['C7:danger', 'C10:danger']);
 		expect(checks[0].caution).toMatch(/licensed practice/);
 	});
+	it('cross.rating-below-rail: a transistor line against the same 40.81 V rail (81.62 V when it says rail to rail)', () => {
+		const at = (ratingV: number, railToRail = false) =>
+			crossChecks([{ kind: 'supply', data: supply() }], [{ designators: 'Q1', kind: 'transistor', value: null, ratingV, railToRail }]).map((c) => `${c.id}:${c.level}`);
+		expect(at(40.8)).toEqual(['cross.rating-below-rail:danger']);
+		expect(at(40.82)).toEqual([]);
+		expect(at(81.6, true)).toEqual(['cross.rating-below-rail:danger']);
+		expect(at(81.7, true)).toEqual([]);
+	});
+	it('part.fuse-larger: caution when a fuse line is fitted above the design rating, with the line index', () => {
+		const at = (valueText: string, designValueText: string | null) =>
+			crossChecks([], [{ designators: 'F1', kind: 'fuse', value: null, valueText, designValueText }]);
+		expect(at('T2A', 'T1.6A').map((c) => `${c.id}:${c.level}:${c.values.line}`)).toEqual(['part.fuse-larger:caution:0']);
+		expect(at('T1.6A', 'T1.6A')).toEqual([]);
+		expect(at('T1A', 'T1.6A')).toEqual([]);
+		expect(at('1600mA slow', 'T1.6A')).toEqual([]); // 1600 mA = 1.6 A
+		expect(at('T2A', null)).toEqual([]); // not a substitution
+	});
 	it('cross.rails-beyond-device: danger when 81.62 V rail to rail passes device.maxSupplyV', () => {
 		const at = (maxSupplyV: number) =>
 			crossChecks([

@@ -4,7 +4,7 @@
  * POST /api/v1/spec-check/build (checkBuildRows in ../specs, $lib/specs checkBuild) and stored whenever the parts
  * list or a spec block is saved, so the build page, review mode, the review desk's counts and the API read the
  * same result straight from the rows.
- * Where a cross check lands: cross.cap-below-rail on the part line it names; the others on one block each
+ * Where a cross check lands: checks about a part line (values.line) on that line; the others on one block each
  * (measurements, thermal, supply, then amplifier — the block whose numbers the maker would change).
  */
 import { asc, eq } from 'drizzle-orm';
@@ -59,11 +59,9 @@ export function placeCrossChecks(
 	const byBlock = new Map<string, StoredCheck[]>();
 	const byLine: StoredCheck[][] = lines.map(() => []);
 	for (const c of cross) {
-		if (c.id === 'cross.cap-below-rail') {
-			lines.forEach((l, i) => {
-				if (l.designators === c.values.designators && l.ratingV === c.values.ratingV && !byLine[i].some((x) => x.id === c.id))
-					byLine[i].push(toStored(c));
-			});
+		// A check about one part line names it by index (values.line).
+		if (typeof c.values.line === 'number') {
+			if (byLine[c.values.line] && !byLine[c.values.line].some((x) => x.id === c.id)) byLine[c.values.line].push(toStored(c));
 			continue;
 		}
 		const key = BLOCK_KEYS.find((k) => typeof c.values[k] === 'number');
@@ -74,7 +72,9 @@ export function placeCrossChecks(
 	return { byBlock, byLine };
 }
 
-const own = (checks: readonly StoredCheck[] | null | undefined) => (checks ?? []).filter((c) => !c.id.startsWith('cross.'));
+/** Checks a line gets from the whole-build computation (placed, not its own). */
+const PLACED = new Set(['part.fuse-larger']);
+const own = (checks: readonly StoredCheck[] | null | undefined) => (checks ?? []).filter((c) => !c.id.startsWith('cross.') && !PLACED.has(c.id));
 const same = (a: unknown, b: unknown) => JSON.stringify(a) === JSON.stringify(b);
 
 /**
