@@ -1,6 +1,6 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import { benchedIds, isOnBench, listBench, setOnBench } from './bench';
-import { initials, getMakerProfile, reviewsGivenBy } from './makers';
+import { initials, getMakerProfile, reviewsGivenBy } from './members';
 import { createMember, insertBuilds, insertReview, removeMembers } from './testing/discover';
 
 const members: string[] = [];

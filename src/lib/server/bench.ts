@@ -7,7 +7,7 @@ import { error } from '@sveltejs/kit';
 import { db } from './db';
 import * as schema from './db/schema';
 import { getBuildBySlug } from './builds/queries';
-import { selectBuildList } from './builds/api';
+import { selectBuildList } from './builds/list';
 
 /** Most builds one bench lists (a bench is a short list; beyond this the oldest saves drop off the page). */
 export const BENCH_LIST_MAX = 500;

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { GET as listBuilds } from '../../routes/api/v1/builds/+server';
 import { cachedHomeLists, HOME_CACHE_S, homeLists, listPage } from './discover';
-import { decodeCursor, encodeCursor } from './builds/api';
+import { decodeCursor, encodeCursor } from './builds/list';
 import { createMember, insertBuilds, insertReview, removeMembers, uniqueWord } from './testing/discover';
 
 type Item = { slug: string; title: string; derivedCount: number; publishedAt: string; review: { label: string } | null; match?: { titleHtml: string; snippetHtml: string } | null };

@@ -1,11 +1,10 @@
 /**
  * Discover (PRODUCT.md §4.8): the home page's lists and the card data every build list shows
- * (cover, category, review badge, maker). Lists come from the one list query in builds/api.ts.
+ * (cover, category, review badge, maker). Lists come from the one list query in builds/list.ts.
  */
-import { gt } from 'drizzle-orm';
-import * as schema from './db/schema';
-import { effectiveSort, encodeCursor as encodeCursorFor, listPublishedBuilds, listQuerySchema, queryBuilds, type BuildListRow, type ListQuery } from './builds/api';
-import { getReviewStates, reviewLabelCondition, type ReviewState } from './reviews/state';
+import { effectiveSort, encodeCursor as encodeCursorFor, listPublishedBuilds, queryBuilds, type BuildListRow } from './builds/list';
+import { getReviewStates, type ReviewState } from './reviews/state';
+import { listQuerySchema, type ListQuery } from '$lib/schemas/list';
 import { highlightBuilds, type SearchHighlight } from './search';
 import { queryObject, type ApiIssue } from './http';
 import { CATEGORY_LABELS, TOPOLOGY_LABELS, labelOf } from '$lib/labels';
@@ -84,8 +83,8 @@ export const HOME_LIST_SIZE = 6;
 export async function homeLists() {
 	const [recent, reviewed, derived] = await Promise.all([
 		listPublishedBuilds({ limit: HOME_LIST_SIZE }),
-		listPublishedBuilds({ limit: HOME_LIST_SIZE, sort: 'recently-reviewed', where: [reviewLabelCondition('safe')] }),
-		listPublishedBuilds({ limit: HOME_LIST_SIZE, sort: 'most-derived', where: [gt(schema.build.derivedCount, 0)] })
+		listPublishedBuilds({ limit: HOME_LIST_SIZE, sort: 'recently-reviewed', filters: { review: 'safe' } }),
+		listPublishedBuilds({ limit: HOME_LIST_SIZE, sort: 'most-derived', filters: { derivedOnly: true } })
 	]);
 	const all = [...recent.rows, ...reviewed.rows, ...derived.rows];
 	const states = await getReviewStates(all.map((r) => r.id));

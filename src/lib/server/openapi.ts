@@ -23,7 +23,7 @@ import {
 import { commentEditSchema, commentSchema, reportSchema } from '$lib/schemas/review';
 import { suggestQuery } from '$lib/schemas/search';
 import { SPEC_KINDS, specSchemas } from '$lib/specs';
-import { listQuerySchema } from './builds/api';
+import { listQuerySchema } from '$lib/schemas/list';
 
 type Method = 'get' | 'post' | 'put' | 'patch' | 'delete';
 type JsonSchema = Record<string, unknown>;

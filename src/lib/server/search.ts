@@ -1,13 +1,68 @@
 /**
- * Full-text search over builds (PRODUCT.md §4.8): `build.search` is a generated tsvector (title A,
- * summary B, step text and parts values C) with a GIN index. Matching and ranking live in the list
- * query ($lib/server/builds/api.ts: searchQuery, searchRank, sort `relevance`); this module adds the
- * highlighted snippets and the search-as-you-type title suggestions.
+ * Full-text search over builds (PRODUCT.md §4.8), all of it: `build.search` is a generated tsvector (title A,
+ * summary B, the search text C) with a GIN index; this module keeps the search text current
+ * (refreshSearchText, after every content change), builds the tsquery and rank the list query
+ * (builds/list.ts, sort `relevance`) filters and orders by, and adds the highlighted snippets and the
+ * search-as-you-type title suggestions.
  */
-import { and, desc, eq, inArray, sql } from 'drizzle-orm';
-import { db } from './db';
+import { and, asc, desc, eq, inArray, sql, type SQL } from 'drizzle-orm';
+import { db, type Tx } from './db';
 import * as schema from './db/schema';
-import { searchQuery } from './builds/api';
+
+/** Longest search text kept per build, in characters (the tsvector has a 1 MB limit; this is far below it). */
+const SEARCH_TEXT_MAX = 200_000;
+
+/**
+ * Rebuild `build.search_text` (step titles and text, spec-block titles, parts-list values and notes) in
+ * the caller's transaction. The generated `search` tsvector follows it. Call after every save that
+ * touches steps or parts; the parts editor calls it too.
+ */
+export async function refreshSearchText(tx: Tx, buildId: string): Promise<void> {
+	const [steps, parts, blocks] = await Promise.all([
+		tx
+			.select({ title: schema.buildStep.title, bodyMd: schema.buildStep.bodyMd })
+			.from(schema.buildStep)
+			.where(eq(schema.buildStep.buildId, buildId))
+			.orderBy(asc(schema.buildStep.position)),
+		tx
+			.select({
+				designators: schema.partLine.designators,
+				kind: schema.partLine.kind,
+				valueText: schema.partLine.valueText,
+				designValueText: schema.partLine.designValueText,
+				package: schema.partLine.package,
+				notes: schema.partLine.notes,
+				substitutionReason: schema.partLine.substitutionReason
+			})
+			.from(schema.partLine)
+			.where(eq(schema.partLine.buildId, buildId))
+			.orderBy(asc(schema.partLine.position)),
+		tx.select({ title: schema.specBlock.title }).from(schema.specBlock).where(eq(schema.specBlock.buildId, buildId))
+	]);
+	const text = [
+		...steps.map((s) => `${s.title}\n${s.bodyMd}`),
+		...blocks.map((b) => b.title),
+		...parts.map((p) =>
+			[p.designators, p.kind, p.valueText, p.designValueText, p.package, p.notes, p.substitutionReason]
+				.filter(Boolean)
+				.join(' ')
+		)
+	]
+		.filter(Boolean)
+		.join('\n')
+		.slice(0, SEARCH_TEXT_MAX);
+	await tx.update(schema.build).set({ searchText: text }).where(eq(schema.build.id, buildId));
+}
+
+/** websearch_to_tsquery over the English configuration: quotes, `or` and `-word` work as people expect. */
+export function searchQuery(q: string): SQL {
+	return sql`websearch_to_tsquery('english', ${q})`;
+}
+
+/** Rank of a build against a tsquery: cover density, length-normalised (flag 1: divide by 1 + log(length)). */
+export function searchRank(tsquery: SQL): SQL<number> {
+	return sql<number>`ts_rank_cd(${schema.build.search}, ${tsquery}, 1)`;
+}
 
 /** Private-use characters that mark a hit inside ts_headline output; they never reach a page. */
 const START = '\uE000';

@@ -2,7 +2,7 @@ import { fail } from '@sveltejs/kit';
 import { superValidate, message } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { requireUser } from '$lib/server/auth';
-import { getProfileSettings, saveProfileSettings } from '$lib/server/profile';
+import { getProfileSettings, saveProfileSettings } from '$lib/server/members';
 import { profileSchema } from '$lib/schemas/account';
 import type { Actions, PageServerLoad } from './$types';
 

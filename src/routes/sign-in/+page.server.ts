@@ -2,7 +2,7 @@ import { fail, redirect } from '@sveltejs/kit';
 import { superValidate, message, setError } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { signInSchema } from '$lib/schemas/account';
-import { signInWithPassword } from '$lib/server/account';
+import { signInWithPassword } from '$lib/server/members';
 import type { Actions, PageServerLoad } from './$types';
 
 const safeNext = (next: string | null) => (next && next.startsWith('/') && !next.startsWith('//') ? next : '/');

@@ -2,7 +2,7 @@ import { fail, redirect } from '@sveltejs/kit';
 import { superValidate, setError } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { signUpSchema } from '$lib/schemas/account';
-import { emailTaken, handleIsFree, signUp } from '$lib/server/account';
+import { emailTaken, handleIsFree, signUp } from '$lib/server/members';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals }) => {

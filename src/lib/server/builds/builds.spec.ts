@@ -382,11 +382,10 @@ describe('published list and detail', () => {
 				await publish(owner, d.id);
 				made.push(d.slug);
 			}
-			const mine = eq(schema.build.ownerId, owner.id);
 			const seen: string[] = [];
 			let cursor = null;
 			for (let page = 0; page < 5; page++) {
-				const { rows, next } = await listPublishedBuilds({ limit: 2, cursor, where: [mine] });
+				const { rows, next } = await listPublishedBuilds({ limit: 2, cursor, filters: { ownerId: owner.id } });
 				seen.push(...rows.map((r) => r.slug));
 				if (!next) break;
 				const text = encodeCursor(next);

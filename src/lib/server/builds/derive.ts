@@ -6,7 +6,7 @@ import type { Tx } from '../db';
 import { TITLE_MAX, type BuildInput } from '$lib/schemas/build';
 import type { Actor } from '../actor';
 import { createDraft, lockBuild } from './edit';
-import { refreshSearchText } from './search';
+import { refreshSearchText } from '../search';
 import { inTx } from '../db/tx';
 
 /** Title of a draft started from another build: the original's, marked, within TITLE_MAX. "Quiet class A amp" → "Quiet class A amp (my build)". */

@@ -8,7 +8,7 @@ import type { Actor } from '../actor';
 import { assertCanEdit } from './access';
 import { nextFreeSlug, slugify } from './slug';
 import { recordRevision } from './revisions';
-import { refreshSearchText } from './search';
+import { refreshSearchText } from '../search';
 import { inTx, pgCode } from '../db/tx';
 
 /** Load a build by id for a change, locking its row until the transaction ends; 404 when absent. */

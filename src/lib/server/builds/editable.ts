@@ -11,7 +11,7 @@ import { actorOf, type Actor, type Viewer } from '../actor';
 import { assertCanEdit } from './access';
 import { getBuildBySlug, requireVisibleBuild } from './queries';
 import { recordRevision } from './revisions';
-import { refreshSearchText } from './search';
+import { refreshSearchText } from '../search';
 
 /**
  * The build at `slug` if the member may change it: sign-in redirect (pages) or 401 (API, JSON) when signed

@@ -8,6 +8,8 @@ import { toPhotoView } from '../photos';
 import type { Viewer } from '../actor';
 import { assertCanView, canView } from './access';
 import { isSlugShaped } from './slug';
+import { serializeBuildDetail } from './serialize';
+import { getReviewState } from '../reviews/state';
 import type { DbLike } from '../db/tx';
 
 /** The build row with this slug, or null (no visibility check: callers decide). */
@@ -56,12 +58,21 @@ export async function loadBuildContent(b: Pick<schema.Build, 'id' | 'coverPhotoI
 	};
 }
 
+/** What loadBuildContent reads. */
+export type BuildContent = Awaited<ReturnType<typeof loadBuildContent>>;
+
 export interface LineageLink {
 	slug: string;
 	title: string;
 	status: string;
 	makerName: string;
 	makerHandle: string | null;
+}
+
+/** Where a build came from and the builds derived from it. */
+export interface Lineage {
+	derivedFrom: LineageLink | null;
+	derivedBuilds: LineageLink[];
 }
 
 /**
@@ -72,7 +83,7 @@ export async function loadLineage(
 	b: Pick<schema.Build, 'id' | 'derivedFromId'>,
 	viewer: Viewer,
 	dbx: DbLike = db
-): Promise<{ derivedFrom: LineageLink | null; derivedBuilds: LineageLink[] }> {
+): Promise<Lineage> {
 	const maker = alias(schema.user, 'maker');
 	const cols = {
 		slug: schema.build.slug,
@@ -115,6 +126,21 @@ export async function getBuildPage(slug: string, viewer: Viewer) {
 	const b = await requireVisibleBuild(slug, viewer);
 	const [maker, content, lineage] = await Promise.all([getMaker(b.ownerId), loadBuildContent(b), loadLineage(b, viewer)]);
 	return { build: b, maker, ...content, lineage };
+}
+
+/**
+ * GET /api/v1/builds/:slug — a build readers may see (published or archived; drafts only for their
+ * maker and admins; 404 otherwise), read and serialized (./serialize).
+ */
+export async function getBuildDetail(slug: string, viewer: Viewer, dbx: DbLike = db) {
+	const build = await requireVisibleBuild(slug, viewer, dbx);
+	const [maker, content, lineage, review] = await Promise.all([
+		getMaker(build.ownerId, dbx),
+		loadBuildContent(build, dbx),
+		loadLineage(build, viewer, dbx),
+		getReviewState(build.id)
+	]);
+	return serializeBuildDetail({ build, maker, content, lineage, review });
 }
 
 /** A maker's own builds (all states), newest change first — for their dashboard and the edit pages. */

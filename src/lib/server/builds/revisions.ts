@@ -7,6 +7,7 @@ import * as schema from '../db/schema';
 import type { Tx } from '../db';
 import { db } from '../db';
 import { diffSnapshots, summarize, type BuildSnapshot } from './snapshot';
+import { findPhotoViews } from '../photos';
 import type { DbLike } from '../db/tx';
 
 /** Read the build's current content into a snapshot (in the caller's transaction, to see its writes). */
@@ -142,4 +143,30 @@ export async function getRevision(buildId: string, number: number, dbx: DbLike =
 		.where(and(eq(schema.buildRevision.buildId, buildId), eq(schema.buildRevision.number, number)));
 	if (!row) return null;
 	return { ...row, snapshot: row.snapshot as unknown as BuildSnapshot };
+}
+
+/**
+ * One revision as its page shows it: the snapshot's steps with the photos that still exist (ones deleted
+ * since are counted as gone), its spec blocks and parts list. null when the build has no such revision.
+ */
+export async function getRevisionView(buildId: string, number: number, dbx: DbLike = db) {
+	const rev = await getRevision(buildId, number, dbx);
+	if (!rev) return null;
+	const snap = rev.snapshot;
+	const photos = await findPhotoViews(snap.steps.flatMap((s) => s.photoIds ?? []), dbx);
+	return {
+		revision: { number: rev.number, summary: rev.summary, createdAt: rev.createdAt, authorName: rev.authorName },
+		snapshot: {
+			build: snap.build,
+			steps: snap.steps.map((s) => ({
+				id: s.id,
+				title: s.title,
+				bodyHtml: s.bodyHtml,
+				photos: (s.photoIds ?? []).map((id) => photos.get(id)).filter((p) => !!p),
+				photosGone: (s.photoIds ?? []).filter((id) => !photos.has(id)).length
+			})),
+			specBlocks: snap.specBlocks,
+			parts: snap.parts.map((p, i) => ({ ...p, position: i, checks: (p.checks ?? []) as schema.StoredCheck[] }))
+		}
+	};
 }

@@ -5,7 +5,7 @@ import * as schema from '../db/schema';
 import type { Tx } from '../db';
 import { renderMarkdown } from '../markdown';
 import { photoObjectKeys } from '../photos';
-import { deleteObjects } from '../storage';
+import { deleteObjects } from '../photos';
 import { stepSchema, type StepInput } from '$lib/schemas/build';
 import type { Actor } from '../actor';
 import { assertCanEdit } from './access';

@@ -61,7 +61,7 @@ export const build = pgTable(
 		index('build_status_published_idx').on(t.status, t.publishedAt, t.id),
 		index('build_derived_from_idx').on(t.derivedFromId),
 		index('build_search_idx').using('gin', t.search),
-		// Keyset pagination of the "most derived" and "recently reviewed" orders (builds/api.ts sortSpec).
+		// Keyset pagination of the "most derived" and "recently reviewed" orders (builds/list.ts sortSpec).
 		index('build_published_derived_idx')
 			.on(t.derivedCount.desc(), t.publishedAt.desc(), t.id.desc())
 			.where(sql`${t.status} = 'published'`),

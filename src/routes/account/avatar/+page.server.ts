@@ -1,6 +1,6 @@
 import { fail, redirect } from '@sveltejs/kit';
 import { requireUser } from '$lib/server/auth';
-import { removeAvatar, setAvatar } from '$lib/server/profile';
+import { removeAvatar, setAvatar } from '$lib/server/members';
 import { PhotoError } from '$lib/server/photos';
 import type { Actions, PageServerLoad } from './$types';
 

@@ -1,8 +1,6 @@
-import { eq } from 'drizzle-orm';
-import * as schema from '$lib/server/db/schema';
 import { listPublishedBuilds } from '$lib/server/builds';
 import { toCards } from '$lib/server/discover';
-import { getMakerProfile, reviewsGivenBy } from '$lib/server/makers';
+import { getMakerProfile, reviewsGivenBy } from '$lib/server/members';
 import { roleAtLeast } from '$lib/roles';
 import type { PageServerLoad } from './$types';
 
@@ -12,7 +10,7 @@ export const load: PageServerLoad = async ({ params }) => {
 	const maker = await getMakerProfile(params.handle);
 	const isReviewer = roleAtLeast(maker.role, 'reviewer');
 	const [list, reviews] = await Promise.all([
-		listPublishedBuilds({ limit: BUILDS_SHOWN, where: [eq(schema.build.ownerId, maker.id)] }),
+		listPublishedBuilds({ limit: BUILDS_SHOWN, filters: { ownerId: maker.id } }),
 		isReviewer || maker.reviewCount > 0 ? reviewsGivenBy(maker.id) : Promise.resolve([])
 	]);
 	return {

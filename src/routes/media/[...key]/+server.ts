@@ -1,6 +1,6 @@
 import { error } from '@sveltejs/kit';
 import type { RequestHandler } from './$types';
-import { getObject } from '$lib/server/storage';
+import { getObject } from '$lib/server/photos';
 
 /** Only these stored folders are public; keys are plain path segments (no '..', no empty parts). */
 const PUBLIC_KEY = /^(photos|avatars)\/[A-Za-z0-9_-][A-Za-z0-9._-]*(\/[A-Za-z0-9_-][A-Za-z0-9._-]*)*$/;

@@ -1,6 +1,7 @@
 import { json } from '@sveltejs/kit';
 import { apiError, methodNotAllowed, queryObject, zodErrorResponse } from '$lib/server/http';
-import { encodeCursor, listQuerySchema, queryBuilds, serializeListItem } from '$lib/server/builds';
+import { encodeCursor, queryBuilds, serializeListItem } from '$lib/server/builds';
+import { listQuerySchema } from '$lib/schemas/list';
 import { getReviewStates, reviewStateJson } from '$lib/server/reviews/state';
 import { highlightBuilds } from '$lib/server/search';
 import type { RequestHandler } from './$types';

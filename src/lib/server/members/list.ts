@@ -1,6 +1,6 @@
 import { asc, eq, ilike, or } from 'drizzle-orm';
-import { db } from './db';
-import * as schema from './db/schema';
+import { db } from '../db';
+import * as schema from '../db/schema';
 
 /** Members for the members page, optionally filtered by name, handle or e-mail. */
 export async function listMembers(q = '', limit = 200) {

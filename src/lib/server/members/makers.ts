@@ -4,8 +4,8 @@
  */
 import { error } from '@sveltejs/kit';
 import { and, count, desc, eq, ne } from 'drizzle-orm';
-import { db } from './db';
-import * as schema from './db/schema';
+import { db } from '../db';
+import * as schema from '../db/schema';
 
 /** Reviews listed on a profile. */
 export const PROFILE_REVIEWS = 20;

@@ -1,56 +1,20 @@
 /**
- * The builds read API (/api/v1/builds): query logic and JSON serializers. Pages reuse the list query
- * (browse, search, home, maker profiles). Filters: category, topology, review state, mains powered,
- * maker, full-text `q`; sorts: recent, most derived, recently reviewed, relevance (with `q`); keyset
- * cursor pagination on (sort key…, id) so pages never repeat or skip while builds are published.
+ * The one list query over published builds: the builds API list, the browse and search pages, the home
+ * page's lists, maker profiles and the bench. Typed filters (category, topology, review state, mains
+ * powered, maker, full-text `q`, …); sorts: recent, most derived, recently reviewed, relevance (with `q`);
+ * keyset cursor pagination on (sort key…, id) so pages never repeat or skip while builds are published.
+ * The query string's schema is $lib/schemas/list; the JSON shapes are ./serialize.
  */
-import { and, desc, eq, sql, type SQL } from 'drizzle-orm';
+import { and, desc, eq, gt, sql, type SQL } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/pg-core';
-import { z } from 'zod';
 import * as schema from '../db/schema';
 import { db } from '../db';
-import { photoUrl, type PhotoView } from '../photos';
-import { getReviewState, reviewLabelCondition, reviewStateJson } from '../reviews/state';
-import { CATEGORY_LABELS, TOPOLOGY_LABELS, labelOf } from '$lib/labels';
-import { CATEGORIES, TOPOLOGIES } from '$lib/schemas/build';
-import { LIST_SORTS, REVIEW_FILTERS, type ListSort } from '$lib/schemas/list';
-import type { Viewer } from '../actor';
-import { getMaker, loadBuildContent, loadLineage, requireVisibleBuild, type LineageLink } from './queries';
 import type { DbLike } from '../db/tx';
+import { reviewLabelCondition } from '../reviews/state';
+import { searchQuery, searchRank } from '../search';
+import type { Category, Topology } from '$lib/schemas/build';
+import { LIST_LIMIT_DEFAULT, LIST_LIMIT_MAX, LIST_SORTS, type ListQuery, type ListSort, type ReviewFilter } from '$lib/schemas/list';
 import { isUuid } from '$lib/uuid';
-
-export const LIST_LIMIT_DEFAULT = 20;
-export const LIST_LIMIT_MAX = 100;
-/** Longest accepted search text, in characters. */
-export const QUERY_MAX = 200;
-
-export { LIST_SORTS, REVIEW_FILTERS, type ListSort, type ReviewFilter } from '$lib/schemas/list';
-
-const oneOf = (values: readonly string[]) => ({ error: `must be one of: ${values.join(', ')}` });
-
-/** Query string of GET /api/v1/builds and of the browse and search pages. */
-export const listQuerySchema = z.object({
-	q: z.string().trim().max(QUERY_MAX, `must be at most ${QUERY_MAX} characters`).optional(),
-	category: z.enum(CATEGORIES, oneOf(CATEGORIES)).optional(),
-	topology: z.enum(TOPOLOGIES, oneOf(TOPOLOGIES)).optional(),
-	review: z.enum(REVIEW_FILTERS, oneOf(REVIEW_FILTERS)).optional(),
-	mains: z.enum(['true', 'false'], oneOf(['true', 'false'])).optional(),
-	maker: z
-		.string()
-		.trim()
-		.toLowerCase()
-		.regex(/^[a-z0-9][a-z0-9-]{0,39}$/, 'must be a member handle')
-		.optional(),
-	sort: z.enum(LIST_SORTS, oneOf(LIST_SORTS)).optional(),
-	cursor: z.string().max(400).optional(),
-	limit: z.coerce
-		.number({ error: 'must be a whole number' })
-		.int('must be a whole number')
-		.min(1, 'must be at least 1')
-		.max(LIST_LIMIT_MAX, `must be at most ${LIST_LIMIT_MAX}`)
-		.default(LIST_LIMIT_DEFAULT)
-});
-export type ListQuery = z.infer<typeof listQuerySchema>;
 
 /**
  * Position after the last item of a page: the sort it belongs to, the sort key values of that item
@@ -95,15 +59,29 @@ export function decodeCursor(text: string): ListCursor | null {
 	}
 }
 
+/** What a list may be narrowed to (all optional, ANDed with "published"). */
+export interface ListFilters {
+	/** Full-text search (websearch syntax: quotes, `or`, `-word`); also what the relevance order ranks by. */
+	q?: string;
+	category?: Category;
+	topology?: Topology;
+	review?: ReviewFilter;
+	/** true: mains powered only; false: not mains powered only. */
+	mains?: boolean;
+	/** The maker's handle. */
+	maker?: string;
+	/** The maker's member id. */
+	ownerId?: string;
+	/** Only builds that others have started from (derived at least once). */
+	derivedOnly?: boolean;
+}
+
 export interface ListOptions {
 	limit?: number;
 	cursor?: ListCursor | null;
-	/** Order; `recent` (newest published first) unless given. `relevance` needs `search`. */
+	/** Order; `recent` (newest published first) unless given. `relevance` needs `filters.q`. */
 	sort?: ListSort;
-	/** A tsquery (from searchQuery) for the relevance order. */
-	search?: SQL;
-	/** Extra conditions (filters); ANDed with "published". */
-	where?: (SQL | undefined)[];
+	filters?: ListFilters;
 }
 
 const maker = alias(schema.user, 'maker');
@@ -157,16 +135,6 @@ export function selectBuildList(dbx: DbLike = db) {
 
 export type BuildListRow = Awaited<ReturnType<ReturnType<typeof selectBuildList>['execute']>>[number];
 
-/** websearch_to_tsquery over the English configuration: quotes, `or` and `-word` work as people expect. */
-export function searchQuery(q: string): SQL {
-	return sql`websearch_to_tsquery('english', ${q})`;
-}
-
-/** Rank of a build against a tsquery: cover density, length-normalised (flag 1: divide by 1 + log(length)). */
-export function searchRank(tsquery: SQL): SQL<number> {
-	return sql<number>`ts_rank_cd(${schema.build.search}, ${tsquery}, 1)`;
-}
-
 /** Sort keys of one order, descending, before the id tie-breaker; `casts` turn cursor text back into values. */
 function sortSpec(sort: ListSort, search?: SQL): { keys: SQL[]; text: SQL[]; casts: string[] } {
 	const b = schema.build;
@@ -201,8 +169,9 @@ function sortSpec(sort: ListSort, search?: SQL): { keys: SQL[]; text: SQL[]; cas
 export async function listPublishedBuilds(opts: ListOptions = {}, dbx: DbLike = db) {
 	const limit = Math.min(Math.max(opts.limit ?? LIST_LIMIT_DEFAULT, 1), LIST_LIMIT_MAX);
 	const sort = opts.sort ?? 'recent';
-	const spec = sortSpec(sort, opts.search);
-	const conds: (SQL | undefined)[] = [eq(schema.build.status, 'published'), ...(opts.where ?? [])];
+	const filters = opts.filters ?? {};
+	const spec = sortSpec(sort, filters.q ? searchQuery(filters.q) : undefined);
+	const conds: SQL[] = [eq(schema.build.status, 'published'), ...filterConditions(filters)];
 	if (opts.cursor) {
 		if (opts.cursor.sort !== sort || opts.cursor.keys.length !== spec.keys.length) {
 			throw new RangeError('This cursor belongs to another order; start again from the first page.');
@@ -226,15 +195,17 @@ export async function listPublishedBuilds(opts: ListOptions = {}, dbx: DbLike = 
 	return { rows: page, next };
 }
 
-/** SQL conditions for the filters of a list query (all optional; ANDed). */
-export function listFilters(q: Pick<ListQuery, 'q' | 'category' | 'topology' | 'review' | 'mains' | 'maker'>): SQL[] {
+/** SQL conditions for the filters of a list (all optional; ANDed). */
+function filterConditions(q: ListFilters): SQL[] {
 	const b = schema.build;
 	const out: SQL[] = [];
 	if (q.q) out.push(sql`${b.search} @@ ${searchQuery(q.q)}`);
 	if (q.category) out.push(eq(b.category, q.category));
 	if (q.topology) out.push(eq(b.topology, q.topology));
-	if (q.mains) out.push(eq(b.mainsPowered, q.mains === 'true'));
+	if (q.mains !== undefined) out.push(eq(b.mainsPowered, q.mains));
 	if (q.maker) out.push(eq(maker.handle, q.maker));
+	if (q.ownerId) out.push(eq(b.ownerId, q.ownerId));
+	if (q.derivedOnly) out.push(gt(b.derivedCount, 0));
 	switch (q.review) {
 		case 'unreviewed':
 		case 'safe':
@@ -276,168 +247,14 @@ export async function queryBuilds(q: ListQuery, dbx: DbLike = db): Promise<ListR
 		if (!cursor) return { ok: false, path: 'cursor', message: 'is not a cursor this list made' };
 		if (cursor.sort !== sort) return { ok: false, path: 'cursor', message: 'belongs to another sort order; start from the first page' };
 	}
-	const { rows, next } = await listPublishedBuilds(
-		{ limit: q.limit, cursor, sort, search: q.q ? searchQuery(q.q) : undefined, where: listFilters(q) },
-		dbx
-	);
+	const filters: ListFilters = {
+		q: q.q || undefined,
+		category: q.category,
+		topology: q.topology,
+		review: q.review,
+		mains: q.mains === undefined ? undefined : q.mains === 'true',
+		maker: q.maker
+	};
+	const { rows, next } = await listPublishedBuilds({ limit: q.limit, cursor, sort, filters }, dbx);
 	return { ok: true, rows, next, sort };
-}
-
-/** A photo in API form: pixel sizes, alt text and the URL of every WebP rendition. */
-export function serializePhoto(p: {
-	id: string;
-	keyPrefix: string;
-	widths: number[];
-	width: number;
-	height: number;
-	alt: string;
-}) {
-	const widths = [...p.widths].sort((a, b) => a - b);
-	return {
-		id: p.id,
-		alt: p.alt,
-		widthPx: p.width,
-		heightPx: p.height,
-		url: photoUrl(p.keyPrefix, widths[widths.length - 1]),
-		renditions: widths.map((w) => ({ widthPx: w, url: photoUrl(p.keyPrefix, w) }))
-	};
-}
-
-const iso = (d: Date | null | undefined) => (d ? d.toISOString() : null);
-
-/** One build in a list, as the API answers it. */
-export function serializeListItem(r: BuildListRow) {
-	return {
-		slug: r.slug,
-		url: `/builds/${r.slug}`,
-		title: r.title,
-		summary: r.summary,
-		category: r.category,
-		categoryLabel: labelOf(CATEGORY_LABELS, r.category),
-		topology: r.topology,
-		topologyLabel: labelOf(TOPOLOGY_LABELS, r.topology),
-		mainsPowered: r.mainsPowered,
-		licence: r.licence,
-		status: r.status,
-		revision: r.revision,
-		derivedCount: r.derivedCount,
-		locked: r.locked,
-		publishedAt: iso(r.publishedAt),
-		updatedAt: iso(r.updatedAt),
-		maker: { name: r.makerName, handle: r.makerHandle },
-		cover: r.cover?.id ? serializePhoto(r.cover as Parameters<typeof serializePhoto>[0]) : null,
-		derivedFrom:
-			r.originSlug && r.originStatus !== 'draft' ? { slug: r.originSlug, title: r.originTitle, url: `/builds/${r.originSlug}` } : null
-	};
-}
-
-/**
- * What a build card needs (lists on pages): like the API item, but the cover as a PhotoView for the
- * Photo component. toCardData(row) → BuildCardData.
- */
-export function toCardData(r: BuildListRow) {
-	return {
-		slug: r.slug,
-		title: r.title,
-		summary: r.summary,
-		category: r.category,
-		topology: r.topology,
-		mainsPowered: r.mainsPowered,
-		status: r.status,
-		revision: r.revision,
-		derivedCount: r.derivedCount,
-		publishedAt: iso(r.publishedAt),
-		makerName: r.makerName,
-		makerHandle: r.makerHandle,
-		cover: r.cover?.id ? (r.cover as PhotoView) : null,
-		derivedFrom: r.originSlug && r.originStatus !== 'draft' ? { slug: r.originSlug, title: r.originTitle ?? '' } : null
-	};
-}
-export type BuildCardData = ReturnType<typeof toCardData>;
-
-function serializeLink(l: LineageLink) {
-	return { slug: l.slug, url: `/builds/${l.slug}`, title: l.title, status: l.status, maker: { name: l.makerName, handle: l.makerHandle } };
-}
-
-/**
- * GET /api/v1/builds/:slug — a build readers may see (published or archived; drafts only for their
- * maker and admins; 404 otherwise) with steps, spec blocks (derived values and checks), parts list,
- * review state (latest verdict, the revision it was given on, open flags) and lineage.
- */
-export async function getBuildDetail(slug: string, viewer: Viewer, dbx: DbLike = db) {
-	const b = await requireVisibleBuild(slug, viewer, dbx);
-	const [m, content, lineage, review] = await Promise.all([
-		getMaker(b.ownerId, dbx),
-		loadBuildContent(b, dbx),
-		loadLineage(b, viewer, dbx),
-		getReviewState(b.id)
-	]);
-	const coverPhoto = content.cover;
-	return {
-		slug: b.slug,
-		url: `/builds/${b.slug}`,
-		title: b.title,
-		summary: b.summary,
-		category: b.category,
-		categoryLabel: labelOf(CATEGORY_LABELS, b.category),
-		topology: b.topology,
-		topologyLabel: labelOf(TOPOLOGY_LABELS, b.topology),
-		mainsPowered: b.mainsPowered,
-		licence: b.licence,
-		status: b.status,
-		revision: b.revision,
-		derivedCount: b.derivedCount,
-		locked: b.locked,
-		lockedReason: b.locked ? b.lockedReason : null,
-		publishedAt: iso(b.publishedAt),
-		updatedAt: iso(b.updatedAt),
-		maker: { name: m.name, handle: m.handle },
-		cover: coverPhoto ? serializePhoto(coverPhoto) : null,
-		steps: content.steps.map((s, i) => ({
-			id: s.id,
-			number: i + 1,
-			title: s.title,
-			bodyMd: s.bodyMd,
-			bodyHtml: s.bodyHtml,
-			photos: s.photos.map(serializePhoto)
-		})),
-		specBlocks: content.specBlocks.map((s) => ({
-			id: s.id,
-			kind: s.kind,
-			title: s.title,
-			data: s.data,
-			derived: s.derived,
-			checks: s.checks
-		})),
-		parts: content.parts.map((p) => ({
-			id: p.id,
-			position: p.position,
-			designators: p.designators,
-			quantity: p.quantity,
-			kind: p.kind,
-			valueText: p.valueText,
-			value: p.value,
-			unit: p.unit,
-			tolerancePct: p.tolerancePct,
-			ratingV: p.ratingV,
-			ratingW: p.ratingW,
-			package: p.package,
-			notes: p.notes,
-			substitution:
-				p.designValueText != null && p.designValueText !== ''
-					? {
-							designValueText: p.designValueText,
-							designValue: p.designValue,
-							reason: p.substitutionReason,
-							deviationPct: p.deviationPct
-						}
-					: null,
-			checks: p.checks
-		})),
-		review: reviewStateJson(review),
-		lineage: {
-			derivedFrom: lineage.derivedFrom ? serializeLink(lineage.derivedFrom) : null,
-			derivedBuilds: lineage.derivedBuilds.map(serializeLink)
-		}
-	};
 }

@@ -1,13 +1,13 @@
 /** A member's own profile settings: display name, bio and which notification mails they get. */
 import { eq } from 'drizzle-orm';
 import { error } from '@sveltejs/kit';
-import { db } from './db';
-import * as schema from './db/schema';
+import { db } from '../db';
+import * as schema from '../db/schema';
 import { profileSchema } from '$lib/schemas/account';
 import type { z } from 'zod';
-import { processPhoto } from './photos';
+import { processPhoto } from '../photos';
 import { initials } from './makers';
-import { putObject, deleteObjects } from './storage';
+import { putObject, deleteObjects } from '../photos';
 
 export type ProfileSettings = z.infer<typeof profileSchema>;
 

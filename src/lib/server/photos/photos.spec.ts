@@ -1,8 +1,8 @@
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
 import sharp from 'sharp';
 import { eq } from 'drizzle-orm';
-import { db } from './db';
-import * as schema from './db/schema';
+import { db } from '../db';
+import * as schema from '../db/schema';
 import { getObjectBytes, listKeys } from './storage';
 import {
 	PhotoError,
@@ -21,7 +21,7 @@ import {
 	exifHasGps,
 	jpegWithGpsAndOrientation,
 	removeMaker
-} from './testing/photos';
+} from '../testing/photos';
 
 describe('sniffImageFormat (magic numbers, not names)', () => {
 	it('recognises JPEG, PNG and WebP by their first bytes', async () => {

@@ -1,12 +1,13 @@
 import sharp, { type Metadata, type SharpOptions } from 'sharp';
-import { and, eq, isNull, sql } from 'drizzle-orm';
+import { and, eq, inArray, isNull, sql } from 'drizzle-orm';
 import { env } from '$env/dynamic/private';
-import { db, type Tx } from './db';
-import * as schema from './db/schema';
+import { db, type Tx } from '../db';
+import type { DbLike } from '../db/tx';
+import * as schema from '../db/schema';
 import { deleteObjects, putObject } from './storage';
-import { FieldError } from './http/upload';
-import type { Actor } from './actor';
-import { afterContentChange } from './builds/editable';
+import { FieldError } from '../http/upload';
+import type { Actor } from '../actor';
+import { afterContentChange } from '../builds/editable';
 import { photoSrcset, photoUrl, type PhotoView } from '$lib/media';
 import { isUuid } from '$lib/uuid';
 
@@ -418,6 +419,12 @@ export function toPhotoView(row: schema.Photo): PhotoView & { stepId: string | n
 /** Render an SVG document (a string) to a JPEG: the seed draws its illustrative images this way. */
 export async function renderIllustration(svg: string): Promise<Buffer> {
 	return sharp(Buffer.from(svg, 'utf8')).flatten({ background: '#f7f2e8' }).jpeg({ quality: 88 }).toBuffer();
+}
+
+/** The photos among `ids` that exist, as views by id (one query). */
+export async function findPhotoViews(ids: string[], dbx: DbLike = db): Promise<Map<string, ReturnType<typeof toPhotoView>>> {
+	const rows = ids.length ? await dbx.select().from(schema.photo).where(inArray(schema.photo.id, ids)) : [];
+	return new Map(rows.map((p) => [p.id, toPhotoView(p)]));
 }
 
 /** One photo row, or null. */

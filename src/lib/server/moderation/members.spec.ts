@@ -1,10 +1,10 @@
 import { describe, it, expect, afterAll } from 'vitest';
 import { and, eq } from 'drizzle-orm';
 import { isHttpError } from '@sveltejs/kit';
-import { db } from './db';
-import * as schema from './db/schema';
-import { setMemberRole as setRole, setMemberSuspended as setSuspended } from './moderation';
-import { createTestUser, removeTestUsers } from './testing/builds';
+import { db } from '../db';
+import * as schema from '../db/schema';
+import { setMemberRole as setRole, setMemberSuspended as setSuspended } from '.';
+import { createTestUser, removeTestUsers } from '../testing/builds';
 
 async function statusOf(p: Promise<unknown>): Promise<number | 'ok'> {
 	try {

@@ -1,12 +1,12 @@
 import { describe, it, expect, afterAll } from 'vitest';
 import sharp from 'sharp';
 import { eq } from 'drizzle-orm';
-import { db } from './db';
-import * as schema from './db/schema';
+import { db } from '../db';
+import * as schema from '../db/schema';
 import { setAvatar, removeAvatar } from './profile';
-import { getObjectBytes } from './storage';
-import { createTestUser, removeTestUsers } from './testing/builds';
-import { jpegWithGpsAndOrientation, exifHasGps } from './testing/photos';
+import { getObjectBytes } from '../photos';
+import { createTestUser, removeTestUsers } from '../testing/builds';
+import { jpegWithGpsAndOrientation, exifHasGps } from '../testing/photos';
 
 const keyOf = async (id: string) =>
 	(await db.select({ k: schema.user.avatarKey }).from(schema.user).where(eq(schema.user.id, id)))[0]?.k ?? null;

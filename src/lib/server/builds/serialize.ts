@@ -1,0 +1,146 @@
+/**
+ * The builds API's JSON shapes (API.md): a list item, a build's detail, a photo, a lineage link. Pure
+ * functions over what the list query (./list) and the detail loader (./queries) read.
+ */
+import type { Build } from '../db/schema';
+import { photoUrl } from '../photos';
+import { reviewStateJson, type ReviewState } from '../reviews/state';
+import { CATEGORY_LABELS, TOPOLOGY_LABELS, labelOf } from '$lib/labels';
+import type { BuildListRow } from './list';
+import type { BuildContent, Lineage, LineageLink } from './queries';
+
+/** A photo in API form: pixel sizes, alt text and the URL of every WebP rendition. */
+export function serializePhoto(p: {
+	id: string;
+	keyPrefix: string;
+	widths: number[];
+	width: number;
+	height: number;
+	alt: string;
+}) {
+	const widths = [...p.widths].sort((a, b) => a - b);
+	return {
+		id: p.id,
+		alt: p.alt,
+		widthPx: p.width,
+		heightPx: p.height,
+		url: photoUrl(p.keyPrefix, widths[widths.length - 1]),
+		renditions: widths.map((w) => ({ widthPx: w, url: photoUrl(p.keyPrefix, w) }))
+	};
+}
+
+const iso = (d: Date | null | undefined) => (d ? d.toISOString() : null);
+
+/** One build in a list, as the API answers it. */
+export function serializeListItem(r: BuildListRow) {
+	return {
+		slug: r.slug,
+		url: `/builds/${r.slug}`,
+		title: r.title,
+		summary: r.summary,
+		category: r.category,
+		categoryLabel: labelOf(CATEGORY_LABELS, r.category),
+		topology: r.topology,
+		topologyLabel: labelOf(TOPOLOGY_LABELS, r.topology),
+		mainsPowered: r.mainsPowered,
+		licence: r.licence,
+		status: r.status,
+		revision: r.revision,
+		derivedCount: r.derivedCount,
+		locked: r.locked,
+		publishedAt: iso(r.publishedAt),
+		updatedAt: iso(r.updatedAt),
+		maker: { name: r.makerName, handle: r.makerHandle },
+		cover: r.cover?.id ? serializePhoto(r.cover as Parameters<typeof serializePhoto>[0]) : null,
+		derivedFrom:
+			r.originSlug && r.originStatus !== 'draft' ? { slug: r.originSlug, title: r.originTitle, url: `/builds/${r.originSlug}` } : null
+	};
+}
+
+function serializeLink(l: LineageLink) {
+	return { slug: l.slug, url: `/builds/${l.slug}`, title: l.title, status: l.status, maker: { name: l.makerName, handle: l.makerHandle } };
+}
+
+/** What the detail of a build is made of (see getBuildDetail, which loads it). */
+export interface BuildDetailParts {
+	build: Build;
+	maker: { name: string; handle: string | null };
+	content: BuildContent;
+	lineage: Lineage;
+	review: ReviewState;
+}
+
+/**
+ * GET /api/v1/builds/:slug as JSON: the build with steps, spec blocks (derived values and checks), parts
+ * list, review state (latest verdict, the revision it was given on, open flags) and lineage.
+ */
+export function serializeBuildDetail({ build: b, maker: m, content, lineage, review }: BuildDetailParts) {
+	const coverPhoto = content.cover;
+	return {
+		slug: b.slug,
+		url: `/builds/${b.slug}`,
+		title: b.title,
+		summary: b.summary,
+		category: b.category,
+		categoryLabel: labelOf(CATEGORY_LABELS, b.category),
+		topology: b.topology,
+		topologyLabel: labelOf(TOPOLOGY_LABELS, b.topology),
+		mainsPowered: b.mainsPowered,
+		licence: b.licence,
+		status: b.status,
+		revision: b.revision,
+		derivedCount: b.derivedCount,
+		locked: b.locked,
+		lockedReason: b.locked ? b.lockedReason : null,
+		publishedAt: iso(b.publishedAt),
+		updatedAt: iso(b.updatedAt),
+		maker: { name: m.name, handle: m.handle },
+		cover: coverPhoto ? serializePhoto(coverPhoto) : null,
+		steps: content.steps.map((s, i) => ({
+			id: s.id,
+			number: i + 1,
+			title: s.title,
+			bodyMd: s.bodyMd,
+			bodyHtml: s.bodyHtml,
+			photos: s.photos.map(serializePhoto)
+		})),
+		specBlocks: content.specBlocks.map((s) => ({
+			id: s.id,
+			kind: s.kind,
+			title: s.title,
+			data: s.data,
+			derived: s.derived,
+			checks: s.checks
+		})),
+		parts: content.parts.map((p) => ({
+			id: p.id,
+			position: p.position,
+			designators: p.designators,
+			quantity: p.quantity,
+			kind: p.kind,
+			valueText: p.valueText,
+			value: p.value,
+			unit: p.unit,
+			tolerancePct: p.tolerancePct,
+			ratingV: p.ratingV,
+			ratingW: p.ratingW,
+			package: p.package,
+			notes: p.notes,
+			substitution:
+				p.designValueText != null && p.designValueText !== ''
+					? {
+							designValueText: p.designValueText,
+							designValue: p.designValue,
+							reason: p.substitutionReason,
+							deviationPct: p.deviationPct
+						}
+					: null,
+			checks: p.checks
+		})),
+		review: reviewStateJson(review),
+		lineage: {
+			derivedFrom: lineage.derivedFrom ? serializeLink(lineage.derivedFrom) : null,
+			derivedBuilds: lineage.derivedBuilds.map(serializeLink)
+		}
+	};
+}
