@@ -1,0 +1,284 @@
+/**
+ * Parts-list lines (PRODUCT.md §4.4): a line as typed or read from a CSV (a draft of text fields), validated
+ * and normalised into what is stored, with its checks; and back into a draft for the editor and the CSV
+ * export. Pure TypeScript (no I/O): runs on the server when a list is saved or imported, and in the
+ * browser for the editor's hints. Value notation: ./values.
+ */
+import { decodeMarking } from '$lib/engineering';
+import { PART_KINDS, normaliseKind, valueKindOf, type PartKind } from './kinds';
+import { deviationPct, designRatingOf, parsePartValue, parsePercent, parseVolts, parseWatts } from './values';
+import { partChecks } from './checks';
+
+/** A potentiometer marking: taper letter and a 3-digit value code ("B104"). */
+const POT_MARKING = /^[A-Z]\d{3}$/i;
+
+/** One line as typed in the editor or read from a CSV: every field as text. */
+export interface PartLineDraft {
+	designators: string;
+	quantity: string;
+	kind: string;
+	value: string;
+	tolerance: string;
+	ratingV: string;
+	ratingW: string;
+	package: string;
+	notes: string;
+	designValue: string;
+	reason: string;
+}
+
+/** Fields of a draft line, in column order. */
+export const DRAFT_FIELDS = [
+	'designators',
+	'quantity',
+	'kind',
+	'value',
+	'tolerance',
+	'ratingV',
+	'ratingW',
+	'package',
+	'notes',
+	'designValue',
+	'reason'
+] as const satisfies readonly (keyof PartLineDraft)[];
+
+/** An empty draft line (quantity 1, kind resistor). */
+export function emptyDraft(): PartLineDraft {
+	return { designators: '', quantity: '1', kind: 'resistor', value: '', tolerance: '', ratingV: '', ratingW: '', package: '', notes: '', designValue: '', reason: '' };
+}
+
+/** A check on a line, stored with it (same shape as a spec block's checks). */
+export interface PartCheck {
+	id: string;
+	level: 'note' | 'caution' | 'danger';
+	message: string;
+	values: Record<string, number | string | boolean | null>;
+	caution?: string;
+}
+
+/** The stored fields of a part line, column for column as part_line (without id, position and checks). */
+export interface PartLineFields {
+	designators: string;
+	quantity: number;
+	kind: string;
+	valueText: string;
+	value: number | null;
+	unit: string | null;
+	tolerancePct: number | null;
+	ratingV: number | null;
+	ratingW: number | null;
+	package: string;
+	notes: string;
+	designValueText: string | null;
+	designValue: number | null;
+	substitutionReason: string | null;
+	deviationPct: number | null;
+}
+
+/** A validated line, ready to store. */
+export interface NormalisedPartLine extends PartLineFields {
+	kind: PartKind;
+	checks: PartCheck[];
+}
+
+/** A problem with one field of one line; `line` counts from 1 (the editor's row, or the CSV file's line). */
+export interface LineError {
+	line: number;
+	field: keyof PartLineDraft | 'line';
+	message: string;
+}
+
+/** What the checks on a line need to know about the build. */
+export interface PartContext {
+	/** Highest rail the parts may see, V (the supply block's unloaded rail, else the amplifier block's rail). */
+	railV?: number | null;
+}
+
+/** Limits of a parts list. */
+export const PARTS_LIMITS = { lines: 1000, designators: 500, value: 200, package: 100, notes: 2000, reason: 1000 } as const;
+
+/**
+ * Validate and normalise one draft line. `line` is its number for messages (editor row or CSV line).
+ * normaliseLine({ …, kind: 'capacitor', value: '1u+1u', designValue: '0.47u', tolerance: '10' }, 3)
+ * → line.deviationPct 6.38, no errors.
+ */
+export function normaliseLine(draft: PartLineDraft, line: number, ctx: PartContext = {}): { line?: NormalisedPartLine; errors: LineError[] } {
+	const errors: LineError[] = [];
+	const err = (field: LineError['field'], message: string) => errors.push({ line, field, message });
+	const text = (s: unknown) => (typeof s === 'string' ? s.trim() : '');
+
+	const designators = text(draft.designators);
+	if (designators.length > PARTS_LIMITS.designators) err('designators', `designators are at most ${PARTS_LIMITS.designators} characters`);
+
+	let quantity = 1;
+	const q = text(draft.quantity);
+	if (q !== '') {
+		if (!/^\d+$/.test(q)) err('quantity', `quantity "${q}" must be a whole number (0 for not fitted)`);
+		else if (Number(q) > 100_000) err('quantity', 'quantity must be at most 100000');
+		else quantity = Number(q);
+	}
+
+	const kindText = text(draft.kind);
+	const kind = kindText === '' ? null : normaliseKind(kindText);
+	if (kindText === '') err('kind', 'choose a part kind');
+	else if (!kind) err('kind', `"${kindText}" is not a part kind; use one of ${PART_KINDS.join(', ')}`);
+
+	const valueText = text(draft.value);
+	if (valueText.length > PARTS_LIMITS.value) err('value', `the value is at most ${PARTS_LIMITS.value} characters`);
+	const designText = text(draft.designValue);
+	if (designText.length > PARTS_LIMITS.value) err('designValue', `the design value is at most ${PARTS_LIMITS.value} characters`);
+
+	let tolerancePct: number | null = null;
+	const tolText = text(draft.tolerance);
+	if (tolText !== '') {
+		const t = parsePercent(tolText);
+		if (t === null) err('tolerance', `tolerance "${tolText}" must be a percentage, e.g. 5 or ±1 %`);
+		else if (!(t > 0 && t <= 100)) err('tolerance', 'tolerance must be above 0 % and at most 100 %');
+		else tolerancePct = t;
+	}
+	let ratingV: number | null = null;
+	const rvText = text(draft.ratingV);
+	if (rvText !== '') {
+		const v = parseVolts(rvText);
+		if (v === null) err('ratingV', `voltage rating "${rvText}" must be volts, e.g. 63 or 63 V`);
+		else if (!(v > 0 && v <= 100_000)) err('ratingV', 'voltage rating must be above 0 V and at most 100 kV');
+		else ratingV = v;
+	}
+	let ratingW: number | null = null;
+	const rwText = text(draft.ratingW);
+	if (rwText !== '') {
+		const w = parseWatts(rwText);
+		if (w === null) err('ratingW', `power rating "${rwText}" must be watts, e.g. 0.25, 1/4 or 250mW`);
+		else if (!(w > 0 && w <= 100_000)) err('ratingW', 'power rating must be above 0 W and at most 100 kW');
+		else ratingW = w;
+	}
+
+	const pkg = text(draft.package);
+	if (pkg.length > PARTS_LIMITS.package) err('package', `package is at most ${PARTS_LIMITS.package} characters`);
+	const notes = typeof draft.notes === 'string' ? draft.notes.replace(/\r\n?/g, '\n').trim() : '';
+	if (notes.length > PARTS_LIMITS.notes) err('notes', `notes are at most ${PARTS_LIMITS.notes} characters`);
+	const reason = text(draft.reason);
+	if (reason.length > PARTS_LIMITS.reason) err('reason', `the reason is at most ${PARTS_LIMITS.reason} characters`);
+	if (reason !== '' && designText === '') err('designValue', 'a substitution reason needs the design value it replaces');
+
+	let value: number | null = null;
+	let unit: string | null = null;
+	let designValue: number | null = null;
+	let designRatingV: number | null = null;
+	const vk = kind ? valueKindOf(kind) : null;
+	if (kind && vk) {
+		if (kind === 'jumper') {
+			value = 0;
+			unit = 'ohm';
+		} else if (valueText === '') err('value', `a ${kind} needs a value, e.g. ${vk === 'resistance' ? '4k7' : vk === 'capacitance' ? '100n' : '10u'}`);
+		else {
+			try {
+				// A potentiometer may be written as marked: taper letter + value code ("A103", "B104").
+				const p =
+					kind === 'potentiometer' && POT_MARKING.test(valueText)
+						? { ...decodeMarking(valueText, 'potentiometer'), ratingV: undefined, tolerancePct: undefined }
+						: parsePartValue(valueText, vk);
+				if (kind === 'potentiometer' && p.value === 0) throw new RangeError('a potentiometer must be greater than 0 Ω');
+				value = p.value;
+				unit = p.unit;
+				if (p.ratingV !== undefined) {
+					if (ratingV !== null && ratingV !== p.ratingV)
+						err('ratingV', `the voltage rating is given twice: ${p.ratingV} V in the value and ${ratingV} V in the rating column`);
+					ratingV = p.ratingV;
+				}
+				if (p.tolerancePct !== undefined) {
+					if (tolerancePct !== null && tolerancePct !== p.tolerancePct)
+						err('tolerance', `the tolerance is given twice: ${p.tolerancePct} % in the value and ${tolerancePct} % in the tolerance column`);
+					tolerancePct = p.tolerancePct;
+				}
+			} catch (e) {
+				err('value', `cannot read the value: ${(e as Error).message}`);
+			}
+		}
+		if (designText !== '') {
+			try {
+				const d = parsePartValue(designText, vk);
+				designValue = d.value;
+				designRatingV = d.ratingV ?? null;
+			} catch (e) {
+				// A jumper may stand where the design had a fuse or other non-resistor part: keep that as text.
+				if (kind === 'jumper') designRatingV = designRatingOf(designText);
+				else err('designValue', `cannot read the design value: ${(e as Error).message}`);
+			}
+		}
+	} else if (kind) {
+		designRatingV = designRatingOf(designText);
+	}
+
+	if (errors.length || !kind) return { errors };
+	const base: Omit<NormalisedPartLine, 'checks'> = {
+		designators,
+		quantity,
+		kind,
+		valueText: kind === 'jumper' && valueText === '' ? '0R' : valueText,
+		value,
+		unit,
+		tolerancePct,
+		ratingV,
+		ratingW,
+		package: pkg,
+		notes,
+		designValueText: designText === '' ? null : designText,
+		designValue,
+		substitutionReason: reason === '' ? null : reason,
+		deviationPct: designText === '' ? null : deviationPct(value, designValue)
+	};
+	return { line: { ...base, checks: partChecks(base, designRatingV, ctx) }, errors };
+}
+
+/**
+ * Validate a whole list: either every line is valid (ok, lines in order) or the errors of every bad line.
+ * `lineNumbers[i]` is the number shown for draft i (default i + 1).
+ */
+export function normaliseLines(
+	drafts: readonly PartLineDraft[],
+	ctx: PartContext = {},
+	lineNumbers?: readonly number[]
+): { ok: true; lines: NormalisedPartLine[] } | { ok: false; errors: LineError[]; lines: (NormalisedPartLine | null)[] } {
+	if (drafts.length > PARTS_LIMITS.lines)
+		return { ok: false, errors: [{ line: 0, field: 'line', message: `a parts list holds at most ${PARTS_LIMITS.lines} lines` }], lines: [] };
+	const lines: (NormalisedPartLine | null)[] = [];
+	const errors: LineError[] = [];
+	drafts.forEach((d, i) => {
+		const r = normaliseLine(d, lineNumbers?.[i] ?? i + 1, ctx);
+		lines.push(r.line ?? null);
+		errors.push(...r.errors);
+	});
+	if (errors.length) return { ok: false, errors, lines };
+	return { ok: true, lines: lines as NormalisedPartLine[] };
+}
+
+/** A stored line back as editable text (the editor's rows, the CSV export). */
+export function lineToDraft(row: {
+	designators: string;
+	quantity: number;
+	kind: string;
+	valueText: string;
+	tolerancePct: number | null;
+	ratingV: number | null;
+	ratingW: number | null;
+	package: string;
+	notes: string;
+	designValueText: string | null;
+	substitutionReason: string | null;
+}): PartLineDraft {
+	const num = (x: number | null) => (x === null || x === undefined ? '' : String(x));
+	return {
+		designators: row.designators,
+		quantity: String(row.quantity),
+		kind: row.kind,
+		value: row.valueText,
+		tolerance: num(row.tolerancePct),
+		ratingV: num(row.ratingV),
+		ratingW: num(row.ratingW),
+		package: row.package,
+		notes: row.notes,
+		designValue: row.designValueText ?? '',
+		reason: row.substitutionReason ?? ''
+	};
+}
