@@ -6,17 +6,12 @@ import { and, desc, eq, isNotNull, sql } from 'drizzle-orm';
 import { db } from './db';
 import * as schema from './db/schema';
 import { CATEGORY_LABELS, labelOf } from '$lib/labels';
+import { escapeUTF8 } from 'entities';
 
 /** Escape text for XML character data and attribute values. */
 export function xmlEscape(s: string): string {
 	// Also drop characters XML 1.0 does not allow at all (C0 controls other than tab, LF, CR).
-	return s
-		.replace(/[\u0000-\u0008\u000b\u000c\u000e-\u001f\ufffe\uffff]/g, '')
-		.replace(/&/g, '&amp;')
-		.replace(/</g, '&lt;')
-		.replace(/>/g, '&gt;')
-		.replace(/"/g, '&quot;')
-		.replace(/'/g, '&apos;');
+	return escapeUTF8(s.replace(/[\u0000-\u0008\u000b\u000c\u000e-\u001f\ufffe\uffff]/g, ''));
 }
 
 export interface AtomEntry {

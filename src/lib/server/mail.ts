@@ -1,6 +1,7 @@
 import nodemailer, { type Transporter } from 'nodemailer';
 import PgBoss from 'pg-boss';
 import { env } from '$env/dynamic/private';
+import { escapeUTF8 as escapeHtml } from 'entities';
 
 /** One outgoing message; every message has a plain-text and an HTML part. */
 export interface MailMessage {
@@ -97,8 +98,6 @@ export async function stopMail(): Promise<void> {
 	transport = null;
 }
 
-const escapeHtml = (s: string) =>
-	s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!);
 
 /**
  * Lay out a message in Starground's plain style: a greeting, paragraphs, one action link,

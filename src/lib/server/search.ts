@@ -8,6 +8,7 @@
 import { and, asc, desc, eq, inArray, sql, type SQL } from 'drizzle-orm';
 import { db, type Tx } from './db';
 import * as schema from './db/schema';
+import { escapeUTF8 as escapeHtml } from 'entities';
 
 /** Longest search text kept per build, in characters (the tsvector has a 1 MB limit; this is far below it). */
 const SEARCH_TEXT_MAX = 200_000;
@@ -68,15 +69,13 @@ export function searchRank(tsquery: SQL): SQL<number> {
 const START = '\uE000';
 const STOP = '\uE001';
 
-const esc = (s: string) => s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
-
 /**
  * Turn ts_headline output with START/STOP markers into safe HTML: everything escaped, then each
  * balanced marker pair becomes <mark>…</mark>; stray markers are dropped. The only tag it can emit is
  * <mark>. 'a \uE000b<\uE001' → 'a <mark>b&lt;</mark>'.
  */
 export function markedToHtml(text: string): string {
-	return esc(text)
+	return escapeHtml(text)
 		.replace(/\uE000([^\uE000\uE001]*)\uE001/g, '<mark>$1</mark>')
 		.replace(/[\uE000\uE001]/g, '');
 }

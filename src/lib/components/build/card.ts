@@ -24,16 +24,3 @@ export interface BuildCardData {
 	/** Search only: fragments around the hits, escaped by the server (only <mark> tags). */
 	snippetHtml?: string;
 }
-
-const MONTHS = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'Sep', 'Oct', 'Nov', 'Dec'];
-
-/**
- * '2026-03-04T…' → '4 Mar 2026' (UTC, so server and browser agree). Formatted by hand: a list page
- * calls it for every card, and building an Intl formatter per call showed up in the benchmark's profile.
- */
-export function shortDate(iso: string | null): string {
-	if (!iso) return '';
-	const d = new Date(iso);
-	if (Number.isNaN(d.getTime())) return '';
-	return `${d.getUTCDate()} ${MONTHS[d.getUTCMonth()]} ${d.getUTCFullYear()}`;
-}

@@ -1,26 +1,32 @@
-/** Dates as the build pages show them, in UTC so server and browser render the same text. */
-const day = new Intl.DateTimeFormat('en-GB', { day: 'numeric', month: 'short', year: 'numeric', timeZone: 'UTC' });
-const dayTime = new Intl.DateTimeFormat('en-GB', {
-	day: 'numeric',
-	month: 'short',
-	year: 'numeric',
-	hour: '2-digit',
-	minute: '2-digit',
-	timeZone: 'UTC',
-	timeZoneName: 'short'
-});
+/**
+ * Dates as every page shows them, in UTC and formatted by hand, so server and browser render the same text
+ * whatever ICU data either has (Intl's en-GB short month for September is "Sep" in some, "Sept" in others),
+ * and a list page formatting a date per card costs no formatter.
+ */
+const MONTHS = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'Sep', 'Oct', 'Nov', 'Dec'];
 
-/** '4 Mar 2026' (UTC). Accepts a Date or an ISO string; '' for null. */
-export function formatDay(d: Date | string | null | undefined): string {
-	return d ? day.format(new Date(d)) : '';
+/** The date, or null when there is none or it is not a date. */
+function dateOf(d: Date | string | null | undefined): Date | null {
+	if (!d) return null;
+	const date = new Date(d);
+	return Number.isNaN(date.getTime()) ? null : date;
 }
 
-/** '4 Mar 2026, 14:05 UTC'. */
+const two = (n: number) => String(n).padStart(2, '0');
+
+/** '4 Mar 2026' (UTC). Accepts a Date or an ISO string; '' for null or not a date. */
+export function formatDay(d: Date | string | null | undefined): string {
+	const date = dateOf(d);
+	return date ? `${date.getUTCDate()} ${MONTHS[date.getUTCMonth()]} ${date.getUTCFullYear()}` : '';
+}
+
+/** '4 Mar 2026, 14:05 UTC'; '' for null or not a date. */
 export function formatDayTime(d: Date | string | null | undefined): string {
-	return d ? dayTime.format(new Date(d)) : '';
+	const date = dateOf(d);
+	return date ? `${formatDay(date)}, ${two(date.getUTCHours())}:${two(date.getUTCMinutes())} UTC` : '';
 }
 
 /** ISO string for a <time datetime> attribute. */
 export function isoOf(d: Date | string | null | undefined): string | undefined {
-	return d ? new Date(d).toISOString() : undefined;
+	return dateOf(d)?.toISOString();
 }

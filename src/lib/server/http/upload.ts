@@ -1,5 +1,6 @@
 import { isHttpError, isRedirect } from '@sveltejs/kit';
 import { apiError, codeForStatus, type ApiErrorCode } from './envelope';
+import { escapeUTF8 as escapeHtml } from 'entities';
 
 /** A refusal about one field of an upload, answered as the envelope with one issue at `path`. */
 export class FieldError extends Error {
@@ -83,9 +84,6 @@ export function backTo(request: Request, origin: string, fallback: string): stri
 	}
 	return fallback;
 }
-
-const escapeHtml = (s: string) =>
-	s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!);
 
 /** A minimal page for a no-JS form whose upload was refused: the sentence and a way back. */
 export function htmlRefusal(status: number, message: string, back: string): Response {

@@ -1,5 +1,6 @@
 // Illustrative images for the demo scenario, drawn here as SVG (no photos from elsewhere) and
 // rendered to JPEG by sharp in the photo pipeline. Each motif is a simple bench-notebook sketch.
+import { escapeUTF8 } from 'entities';
 
 export type Motif = 'board' | 'heatsink' | 'transformer' | 'chassis' | 'scope' | 'crossover' | 'caps' | 'meter';
 
@@ -72,7 +73,7 @@ function body(motif: Motif, seed: number): string {
 export function illustrationSvg(motif: Motif, caption: string, seed = 1): string {
 	const w = 1200;
 	const h = 800;
-	const esc = caption.replace(/[&<>]/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;' })[c]!);
+	const esc = escapeUTF8(caption);
 	return `<svg xmlns="http://www.w3.org/2000/svg" width="${w}" height="${h}" viewBox="0 0 ${w} ${h}">
 		<rect width="${w}" height="${h}" fill="${PAPER}"/>${grid(w, h)}${body(motif, seed)}
 		${esc ? `<rect x="0" y="${h - 70}" width="${w}" height="70" fill="${INK}" opacity="0.85"/><text x="30" y="${h - 26}" font-family="sans-serif" font-size="30" fill="${PAPER}">${esc}</text>` : ''}
