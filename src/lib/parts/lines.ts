@@ -128,30 +128,43 @@ export function normaliseLine(draft: PartLineDraft, line: number, ctx: PartConte
 	const designText = text(draft.designValue);
 	if (designText.length > PARTS_LIMITS.value) err('designValue', `the design value is at most ${PARTS_LIMITS.value} characters`);
 
-	let tolerancePct: number | null = null;
-	const tolText = text(draft.tolerance);
-	if (tolText !== '') {
-		const t = parsePercent(tolText);
-		if (t === null) err('tolerance', `tolerance "${tolText}" must be a percentage, e.g. 5 or ±1 %`);
-		else if (!(t > 0 && t <= 100)) err('tolerance', 'tolerance must be above 0 % and at most 100 %');
-		else tolerancePct = t;
-	}
-	let ratingV: number | null = null;
-	const rvText = text(draft.ratingV);
-	if (rvText !== '') {
-		const v = parseVolts(rvText);
-		if (v === null) err('ratingV', `voltage rating "${rvText}" must be volts, e.g. 63 or 63 V`);
-		else if (!(v > 0 && v <= 100_000)) err('ratingV', 'voltage rating must be above 0 V and at most 100 kV');
-		else ratingV = v;
-	}
-	let ratingW: number | null = null;
-	const rwText = text(draft.ratingW);
-	if (rwText !== '') {
-		const w = parseWatts(rwText);
-		if (w === null) err('ratingW', `power rating "${rwText}" must be watts, e.g. 0.25, 1/4 or 250mW`);
-		else if (!(w > 0 && w <= 100_000)) err('ratingW', 'power rating must be above 0 W and at most 100 kW');
-		else ratingW = w;
-	}
+	/** An optional number field: blank → null; else parsed, then checked against (0, max]. */
+	const optionalNumber = (
+		field: 'tolerance' | 'ratingV' | 'ratingW',
+		parse: (t: string) => number | null,
+		max: number,
+		unreadable: (t: string) => string,
+		outOfRange: string
+	): number | null => {
+		const t = text(draft[field]);
+		if (t === '') return null;
+		const n = parse(t);
+		if (n === null) err(field, unreadable(t));
+		else if (!(n > 0 && n <= max)) err(field, outOfRange);
+		else return n;
+		return null;
+	};
+	let tolerancePct = optionalNumber(
+		'tolerance',
+		parsePercent,
+		100,
+		(t) => `tolerance "${t}" must be a percentage, e.g. 5 or ±1 %`,
+		'tolerance must be above 0 % and at most 100 %'
+	);
+	let ratingV = optionalNumber(
+		'ratingV',
+		parseVolts,
+		100_000,
+		(t) => `voltage rating "${t}" must be volts, e.g. 63 or 63 V`,
+		'voltage rating must be above 0 V and at most 100 kV'
+	);
+	const ratingW = optionalNumber(
+		'ratingW',
+		parseWatts,
+		100_000,
+		(t) => `power rating "${t}" must be watts, e.g. 0.25, 1/4 or 250mW`,
+		'power rating must be above 0 W and at most 100 kW'
+	);
 
 	const pkg = text(draft.package);
 	if (pkg.length > PARTS_LIMITS.package) err('package', `package is at most ${PARTS_LIMITS.package} characters`);

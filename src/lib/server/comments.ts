@@ -15,6 +15,7 @@ import { commentEditSchema, commentSchema } from '$lib/schemas/review';
 import { EDIT_WINDOW_MS, type CommentItem } from '$lib/comments';
 import { isUuid } from '$lib/uuid';
 import type { Actor, Viewer } from './actor';
+import { requireVisibleBuild } from './builds/queries';
 
 export { EDIT_WINDOW_MS, type CommentItem };
 
@@ -92,21 +93,7 @@ export async function listComments(buildId: string, viewer: Viewer): Promise<Com
 
 /** The build with this slug for comment routes: 404 unless it exists and `viewer` may see it (drafts: maker and admins). */
 export async function requireCommentableBuild(slug: string, viewer: Viewer): Promise<BuildRef> {
-	if (!/^[a-z0-9][a-z0-9-]{0,200}$/.test(slug)) error(404, 'Not found');
-	const [b] = await db
-		.select({
-			id: schema.build.id,
-			slug: schema.build.slug,
-			title: schema.build.title,
-			status: schema.build.status,
-			locked: schema.build.locked,
-			ownerId: schema.build.ownerId
-		})
-		.from(schema.build)
-		.where(eq(schema.build.slug, slug));
-	if (!b) error(404, 'Not found');
-	if (b.status === 'draft' && !(viewer && (viewer.id === b.ownerId || roleAtLeast(viewer.role, 'admin')))) error(404, 'Not found');
-	return b;
+	return requireVisibleBuild(slug, viewer);
 }
 
 function limitPerMinute(): number {

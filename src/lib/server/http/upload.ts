@@ -1,4 +1,4 @@
-import { isHttpError, isRedirect } from '@sveltejs/kit';
+import { isHttpError, isRedirect, redirect } from '@sveltejs/kit';
 import { apiError, codeForStatus, type ApiErrorCode } from './envelope';
 import { escapeUTF8 as escapeHtml } from 'entities';
 
@@ -63,6 +63,17 @@ async function finishEarly(request: Request, response: Response, status: number,
 	}
 	response.headers.set('connection', 'close');
 	return response;
+}
+
+/**
+ * Who calls an upload route: a plain no-JS form (`html`: it wants a page back, at `back`) or a script
+ * (JSON). A signed-out plain form is sent to sign-in first, with the way back.
+ */
+export function uploadCaller(event: { request: Request; url: URL; locals: App.Locals }, fallback: string): { html: boolean; back: string } {
+	const html = wantsHtml(event.request);
+	const back = backTo(event.request, event.url.origin, fallback);
+	if (!event.locals.user && html) redirect(303, `/sign-in?next=${encodeURIComponent(back)}`);
+	return { html, back };
 }
 
 /** True when the caller is a plain HTML form (no JavaScript), which wants a page back, not JSON. */

@@ -1,7 +1,7 @@
 import { json, redirect } from '@sveltejs/kit';
 import type { RequestHandler } from './$types';
 import { requireEditableBuild } from '$lib/server/builds';
-import { backTo, uploadRoute, wantsHtml } from '$lib/server/http';
+import { uploadCaller, uploadRoute } from '$lib/server/http';
 import { PhotoError, addBuildPhoto, checkAlt, photoMaxBytes, toPhotoView } from '$lib/server/photos';
 import { isUuid } from '$lib/uuid';
 
@@ -12,10 +12,9 @@ const FORM_OVERHEAD = 64 * 1024;
  * Add a photo to a build: multipart `file`, `alt`, `purpose` ('cover' | 'step'), `stepId` (for a step).
  * Sent by XHR (answers `{ photo }` or the error envelope) or by a plain form (redirects back).
  */
-export const POST: RequestHandler = async ({ request, params, locals, url }) => {
-	const html = wantsHtml(request);
-	const back = backTo(request, url.origin, `/builds/${params.slug}/edit`);
-	if (!locals.user && html) redirect(303, `/sign-in?next=${encodeURIComponent(back)}`);
+export const POST: RequestHandler = async (event) => {
+	const { request, params } = event;
+	const { html, back } = uploadCaller(event, `/builds/${params.slug}/edit`);
 
 	return uploadRoute(
 		request,

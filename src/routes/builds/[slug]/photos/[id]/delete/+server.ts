@@ -1,14 +1,13 @@
 import { json, redirect } from '@sveltejs/kit';
 import type { RequestHandler } from './$types';
 import { requireEditableBuild } from '$lib/server/builds';
-import { backTo, uploadRoute, wantsHtml } from '$lib/server/http';
+import { uploadCaller, uploadRoute } from '$lib/server/http';
 import { removeBuildPhoto } from '$lib/server/photos';
 
 /** Delete one photo from a plain form (redirects back) or by fetch (answers JSON). The maker or an admin only. */
-export const POST: RequestHandler = async ({ params, request, locals, url }) => {
-	const html = wantsHtml(request);
-	const back = backTo(request, url.origin, `/builds/${params.slug}/edit`);
-	if (!locals.user && html) redirect(303, `/sign-in?next=${encodeURIComponent(back)}`);
+export const POST: RequestHandler = async (event) => {
+	const { request, params } = event;
+	const { html, back } = uploadCaller(event, `/builds/${params.slug}/edit`);
 	return uploadRoute(
 		request,
 		async () => {
