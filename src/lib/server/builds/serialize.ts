@@ -6,18 +6,12 @@ import type { Build } from '../db/schema';
 import { photoUrl } from '../photos';
 import { reviewStateJson, type ReviewState } from '../reviews/state';
 import { CATEGORY_LABELS, TOPOLOGY_LABELS, labelOf } from '$lib/labels';
+import type { PhotoView } from '$lib/media';
 import type { BuildListRow } from './list';
 import type { BuildContent, Lineage, LineageLink } from './queries';
 
 /** A photo in API form: pixel sizes, alt text and the URL of every WebP rendition. */
-export function serializePhoto(p: {
-	id: string;
-	keyPrefix: string;
-	widths: number[];
-	width: number;
-	height: number;
-	alt: string;
-}) {
+export function serializePhoto(p: Omit<PhotoView, 'placeholder'>) {
 	const widths = [...p.widths].sort((a, b) => a - b);
 	return {
 		id: p.id,

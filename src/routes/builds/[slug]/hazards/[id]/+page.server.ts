@@ -4,7 +4,7 @@ import { requireVisibleBuild } from '$lib/server/builds';
 import type { Actor } from '$lib/server/actor';
 import { addressFlag, getFlag, getReviewPanel, setFlagState } from '$lib/server/reviews';
 import { addressFlagSchema } from '$lib/schemas/review';
-import type { Actions, PageServerLoad } from './$types';
+import type { Action, Actions, PageServerLoad } from './$types';
 import { actorOf } from '$lib/server/actor';
 import { attempt } from '$lib/server/http';
 
@@ -31,6 +31,18 @@ async function flagOfBuild(slug: string, id: string, user: Actor) {
 	return { b, flag };
 }
 
+/** Clear (resolve) or re-tag (reopen) the hazard tag: one action, told the state it moves to. */
+const moveFlag =
+	(to: 'resolve' | 'reopen'): Action =>
+	async ({ params, request }) => {
+		const user = actorOf(requireUser());
+		const { b, flag } = await flagOfBuild(params.slug, params.id, user);
+		const form = await request.formData();
+		const r = await attempt(() => setFlagState(user, flag.id, to));
+		if (!r.ok) return r.failure;
+		redirect(303, back(b.slug, flag.id, form.get('return')));
+	};
+
 export const actions: Actions = {
 	address: async ({ params, request }) => {
 		const user = actorOf(requireUser());
@@ -42,20 +54,6 @@ export const actions: Actions = {
 		if (!r.ok) return r.failure;
 		redirect(303, back(b.slug, flag.id, form.get('return')));
 	},
-	resolve: async ({ params, request }) => {
-		const user = actorOf(requireUser());
-		const { b, flag } = await flagOfBuild(params.slug, params.id, user);
-		const form = await request.formData();
-		const r = await attempt(() => setFlagState(user, flag.id, 'resolve'));
-		if (!r.ok) return r.failure;
-		redirect(303, back(b.slug, flag.id, form.get('return')));
-	},
-	reopen: async ({ params, request }) => {
-		const user = actorOf(requireUser());
-		const { b, flag } = await flagOfBuild(params.slug, params.id, user);
-		const form = await request.formData();
-		const r = await attempt(() => setFlagState(user, flag.id, 'reopen'));
-		if (!r.ok) return r.failure;
-		redirect(303, back(b.slug, flag.id, form.get('return')));
-	}
+	resolve: moveFlag('resolve'),
+	reopen: moveFlag('reopen')
 };
