@@ -2,6 +2,7 @@ import { json, redirect } from '@sveltejs/kit';
 import type { RequestHandler } from './$types';
 import { requireEditableBuild } from '$lib/server/builds';
 import { backTo, uploadRoute, wantsHtml } from '$lib/server/http';
+import { consumeUpload, uploadLimitSentence } from '$lib/server/rate-limit';
 import { PhotoError, addBuildPhoto, checkAlt, photoMaxBytes, toPhotoView } from '$lib/server/photos';
 import { isUuid } from '$lib/uuid';
 
@@ -21,6 +22,8 @@ export const POST: RequestHandler = async ({ request, params, locals, url }) => 
 		request,
 		async () => {
 			const { actor, build } = await requireEditableBuild(params.slug);
+			const budget = await consumeUpload(actor.id);
+			if (!budget.ok) throw new PhotoError(429, 'rate_limited', uploadLimitSentence(budget.retryAfterS), 'file');
 
 			const max = photoMaxBytes();
 			const declared = Number(request.headers.get('content-length') ?? 0);
