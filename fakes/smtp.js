@@ -42,6 +42,10 @@ export async function startFakeSmtp({ smtpPort, httpPort, directory }) {
 						html: typeof parsed.html === 'string' ? parsed.html : '',
 						headers: Object.fromEntries(
 							[...parsed.headers].filter(([, v]) => typeof v === 'string').map(([k, v]) => [k, v])
+						),
+						// Every header as sent (lower-case name → value), also those mailparser turns into objects.
+						rawHeaders: Object.fromEntries(
+							(parsed.headerLines ?? []).map((h) => [h.key, h.line.slice(h.line.indexOf(':') + 1).replace(/\r?\n\s+/g, ' ').trim()])
 						)
 					};
 					messages.unshift(msg);
