@@ -7,7 +7,8 @@
 import { and, eq } from 'drizzle-orm';
 import { db } from './db';
 import * as schema from './db/schema';
-import { canView, type Viewer } from './builds/access';
+import { canView } from './builds/access';
+import type { Viewer } from './actor';
 
 export const PUBLIC_CACHE = 'public, max-age=31536000, immutable';
 /** Draft photos: the viewer's browser may keep them briefly; shared caches never. */

@@ -2,6 +2,7 @@ import { error } from '@sveltejs/kit';
 import type { RequestHandler } from './$types';
 import { getObject } from '$lib/server/storage';
 import { mediaAccess } from '$lib/server/media-access';
+import { actorOf } from '$lib/server/actor';
 
 /** Only these stored folders are public; keys are plain path segments (no '..', no empty parts). */
 const PUBLIC_KEY = /^(photos|avatars)\/[A-Za-z0-9_-][A-Za-z0-9._-]*(\/[A-Za-z0-9_-][A-Za-z0-9._-]*)*$/;
@@ -15,7 +16,7 @@ const TYPES: Record<string, string> = { webp: 'image/webp', jpg: 'image/jpeg', j
 export const GET: RequestHandler = async ({ params, request, locals }) => {
 	const key = params.key;
 	if (!PUBLIC_KEY.test(key) || key.split('/').some((part) => part === '..' || part === '.')) error(404, 'Not found');
-	const access = await mediaAccess(key, locals.user);
+	const access = await mediaAccess(key, actorOf(locals.user));
 	if (!access.ok) error(404, 'Not found');
 	const obj = await getObject(key, { ifNoneMatch: request.headers.get('if-none-match') ?? undefined });
 	const cache = access.cacheControl;
