@@ -1,5 +1,5 @@
-import { describe, it, expect, vi, beforeAll } from 'vitest';
-import { eq, sql } from 'drizzle-orm';
+import { describe, it, expect, vi, beforeAll, afterAll } from 'vitest';
+import { and, eq, gte, like, sql } from 'drizzle-orm';
 
 // better-auth's cookie plugin reads the current request; these tests call the account module directly.
 vi.mock('$app/server', () => ({ getRequestEvent: () => ({ cookies: { set() {}, get() {}, delete() {} } }) }));
@@ -41,6 +41,13 @@ async function confirmedMember() {
 	await db.update(schema.user).set({ emailVerified: true }).where(eq(schema.user.email, email));
 	return { email, handle: `ow${t}` };
 }
+
+const startedAt = new Date(Date.now() - 1000);
+
+// The members made here go again afterwards (the demo seed of the end-to-end run needs an empty table).
+afterAll(async () => {
+	await db.delete(schema.user).where(and(gte(schema.user.createdAt, startedAt), like(schema.user.email, '%@example.test')));
+});
 
 beforeAll(async () => {
 	// The queue's tables exist once pg-boss has started (the mail module starts it on first use).

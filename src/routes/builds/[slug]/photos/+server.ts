@@ -36,7 +36,13 @@ export const POST: RequestHandler = async ({ request, params, locals, url }) => 
 			let form: FormData;
 			try {
 				form = await request.formData();
-			} catch {
+			} catch (err) {
+				// adapter-node stops reading at BODY_SIZE_LIMIT (a body sent without Content-Length): that is "too large".
+				const tooLarge = (e: unknown): boolean =>
+					!!e && ((e as { status?: number }).status === 413 || /exceeds limit/i.test(String((e as Error).message ?? '')) || tooLarge((e as Error).cause));
+				if (tooLarge(err)) {
+					throw new PhotoError(413, 'too_large', `The photo is larger than the ${Math.round(max / (1024 * 1024))} MB limit. Export it smaller and try again.`);
+				}
 				throw new PhotoError(400, 'invalid', 'The upload arrived incomplete. Try again.', '');
 			}
 
