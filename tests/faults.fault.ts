@@ -9,7 +9,7 @@ import sharp from 'sharp';
 import { DEMO_PASSWORD } from './helpers/auth';
 import { origin, uniqueTitle } from './helpers/builds';
 
-test.describe.configure({ mode: 'serial' });
+// One worker runs these in order (scripts/test.js runs this project alone); a failure does not stop the others.
 
 const viewer = () => process.env.MAIL_VIEWER_URL ?? 'http://127.0.0.1:2590';
 const formHeaders = () => ({ origin: origin(), accept: 'text/html' });
@@ -122,8 +122,8 @@ test('PostgreSQL restarted mid-load: acknowledged writes kept, failures are 503 
 		expect(o.retryAfter, `${o.kind} ${o.text}`).toBeTruthy();
 		if (o.kind === 'comment') expect(o.code).toBe('unavailable');
 	}
-	// No hang: every answer came well within the statement and connect timeouts.
-	for (const o of outcomes) expect(o.ms, `${o.kind} ${o.text}`).toBeLessThan(15_000);
+	// No hang: every answer came within one connect timeout (5 s) plus one statement timeout (15 s).
+	for (const o of outcomes) expect(o.ms, `${o.kind} ${o.text}`).toBeLessThan(20_000);
 	// Every acknowledged comment is stored.
 	for (const o of outcomes.filter((x) => x.kind === 'comment' && x.status === 201)) expect(storedIds.has(o.id!), o.text).toBe(true);
 	// Every comment sent again with its Idempotency-Key — refused or acknowledged the first time — ends up

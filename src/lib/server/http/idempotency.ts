@@ -13,8 +13,11 @@ import { idempotencyKey } from '../db/schema';
 import { apiError } from './envelope';
 
 const WRITE = new Set(['POST', 'PUT', 'PATCH', 'DELETE']);
-/** A first request still running after this long is taken to have died with its process. */
-const STALE_MS = 60_000;
+/**
+ * A first request still marked running after this long has died (its process, or the database under
+ * it, went away before the mark could be removed): one connect timeout plus one statement timeout.
+ */
+const STALE_MS = 20_000;
 const KEEP_HOURS = 24;
 
 export const handleIdempotency: Handle = async ({ event, resolve }) => {
