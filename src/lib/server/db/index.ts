@@ -30,6 +30,27 @@ export const db = drizzle(client, { schema });
 export type Db = typeof db;
 export type Tx = Parameters<Parameters<Db['transaction']>[0]>[0];
 
+/**
+ * postgres.js 3.4.9 (the newest) can throw from a timer when a connection closes between buffering a
+ * query and writing it (`socket.write` on a socket it has just set to null) — seen when PostgreSQL
+ * restarts under load. The queries of that connection have already failed with CONNECTION_CLOSED (the
+ * requests answer 503), so this one error is logged instead of ending the process; any other uncaught
+ * error still ends it, as Node would.
+ */
+function isDriverWriteRace(err: unknown): boolean {
+	return err instanceof TypeError && /reading 'write'/.test(err.message) && /postgres[\\/]src[\\/]connection\.js/.test(err.stack ?? '');
+}
+if (!building && !process.listenerCount('uncaughtException')) {
+	process.on('uncaughtException', (err) => {
+		if (isDriverWriteRace(err)) {
+			console.error('[db] a connection closed while a query was being written; its requests failed with 503');
+			return;
+		}
+		console.error(err);
+		process.exit(1);
+	});
+}
+
 process.on('sveltekit:shutdown', async () => {
 	await client.end({ timeout: 5 });
 });
