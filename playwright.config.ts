@@ -4,7 +4,6 @@ import { defineConfig } from '@playwright/test';
 // Debian's Chromium against them. No browser is ever downloaded.
 export default defineConfig({
 	testDir: 'tests',
-	testMatch: /.*\.e2e\.ts/,
 	timeout: 60_000,
 	expect: { timeout: 10_000 },
 	fullyParallel: false,
@@ -29,5 +28,9 @@ export default defineConfig({
 			]
 		}
 	},
-	projects: [{ name: 'chromium', use: { browserName: 'chromium' } }]
+	projects: [
+		{ name: 'chromium', testMatch: /.*\.e2e\.ts/, use: { browserName: 'chromium' } },
+		// Stops PostgreSQL, SMTP and S3 under the running app: scripts/test.js runs it last, on its own.
+		{ name: 'faults', testMatch: /.*\.fault\.ts/, use: { browserName: 'chromium' } }
+	]
 });

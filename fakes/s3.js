@@ -6,15 +6,31 @@ import fs from 'node:fs';
 /** Start the fake S3 on 127.0.0.1:port, storing objects under directory, with `bucket` created. */
 export async function startFakeS3({ port, directory, bucket }) {
 	fs.mkdirSync(directory, { recursive: true });
-	const server = new S3rver({
-		address: '127.0.0.1',
-		port,
-		silent: true,
-		directory,
-		configureBuckets: [{ name: bucket }]
-	});
+	const make = () =>
+		new S3rver({
+			address: '127.0.0.1',
+			port,
+			silent: true,
+			directory,
+			configureBuckets: [{ name: bucket }]
+		});
+	let server = make();
 	await server.run();
-	return { stop: () => server.close() };
+	let up = true;
+	return {
+		stop: async () => {
+			if (!up) return;
+			up = false;
+			await server.close();
+		},
+		/** Start again after stop() (fault tests), with the same objects. */
+		start: async () => {
+			if (up) return;
+			server = make();
+			await server.run();
+			up = true;
+		}
+	};
 }
 
 if (import.meta.url === `file://${process.argv[1]}`) {

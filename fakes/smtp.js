@@ -3,6 +3,8 @@
 //   GET  /            — readable inbox in the browser
 //   GET  /messages    — JSON list (newest first), optional ?to=address
 //   DELETE /messages  — empty the inbox
+//   POST /control/<name> — fault injection for tests (only when started with `controls: true`):
+//                          smtp/stop, smtp/start, and whatever the caller registers (s3/stop, s3/start)
 import { SMTPServer } from 'smtp-server';
 import { simpleParser } from 'mailparser';
 import http from 'node:http';
@@ -12,7 +14,7 @@ import path from 'node:path';
 const esc = (s) => String(s ?? '').replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`);
 
 /** Start SMTP on 127.0.0.1:smtpPort and the inbox viewer on 127.0.0.1:httpPort. */
-export async function startFakeSmtp({ smtpPort, httpPort, directory }) {
+export async function startFakeSmtp({ smtpPort, httpPort, directory, controls = false }) {
 	fs.mkdirSync(directory, { recursive: true });
 	/** @type {any[]} */
 	const messages = [];
@@ -24,11 +26,13 @@ export async function startFakeSmtp({ smtpPort, httpPort, directory }) {
 		}
 	}
 	let seq = messages.length;
-	const smtp = new SMTPServer({
+	const makeSmtp = () => new SMTPServer({
 		disabledCommands: ['STARTTLS', 'AUTH'],
 		authOptional: true,
 		disableReverseLookup: true,
 		logger: false,
+		// A stop for a fault test must not wait for the app's pooled connections to go idle.
+		closeTimeout: 500,
 		onData(stream, session, callback) {
 			simpleParser(stream)
 				.then((parsed) => {
@@ -42,6 +46,10 @@ export async function startFakeSmtp({ smtpPort, httpPort, directory }) {
 						html: typeof parsed.html === 'string' ? parsed.html : '',
 						headers: Object.fromEntries(
 							[...parsed.headers].filter(([, v]) => typeof v === 'string').map(([k, v]) => [k, v])
+						),
+						// Every header as sent (lower-case name → value), also those mailparser turns into objects.
+						rawHeaders: Object.fromEntries(
+							(parsed.headerLines ?? []).map((h) => [h.key, h.line.slice(h.line.indexOf(':') + 1).replace(/\r?\n\s+/g, ' ').trim()])
 						)
 					};
 					messages.unshift(msg);
@@ -51,12 +59,39 @@ export async function startFakeSmtp({ smtpPort, httpPort, directory }) {
 				.catch((err) => callback(err));
 		}
 	});
-	await new Promise((resolve, reject) => {
-		smtp.once('error', reject);
-		smtp.listen(smtpPort, '127.0.0.1', resolve);
-	});
+	let smtp = makeSmtp();
+	let smtpUp = false;
+	const listenSmtp = async () => {
+		if (smtpUp) return;
+		smtp = makeSmtp();
+		await new Promise((resolve, reject) => {
+			smtp.once('error', reject);
+			smtp.listen(smtpPort, '127.0.0.1', resolve);
+		});
+		smtpUp = true;
+	};
+	const closeSmtp = async () => {
+		if (!smtpUp) return;
+		smtpUp = false;
+		await new Promise((r) => smtp.close(r));
+	};
+	await listenSmtp();
+	/** @type {Map<string, () => Promise<unknown>>} */
+	const actions = new Map([
+		['smtp/stop', closeSmtp],
+		['smtp/start', listenSmtp]
+	]);
 	const web = http.createServer((req, res) => {
 		const url = new URL(req.url ?? '/', 'http://x');
+		if (controls && req.method === 'POST' && url.pathname.startsWith('/control/')) {
+			const action = actions.get(url.pathname.slice('/control/'.length));
+			if (!action) return void res.writeHead(404).end();
+			action().then(
+				() => res.writeHead(204).end(),
+				(err) => res.writeHead(500, { 'content-type': 'text/plain' }).end(String(err?.message ?? err))
+			);
+			return;
+		}
 		if (url.pathname === '/messages' && req.method === 'DELETE') {
 			messages.length = 0;
 			for (const f of fs.readdirSync(directory)) fs.rmSync(path.join(directory, f), { force: true });
@@ -88,8 +123,11 @@ export async function startFakeSmtp({ smtpPort, httpPort, directory }) {
 		web.listen(httpPort, '127.0.0.1', resolve);
 	});
 	return {
+		/** Register a fault-injection action under POST /control/<name> (tests). */
+		control: (name, fn) => actions.set(name, fn),
 		stop: async () => {
-			await new Promise((r) => smtp.close(r));
+			await closeSmtp();
+			web.closeAllConnections?.();
 			await new Promise((r) => web.close(r));
 		}
 	};

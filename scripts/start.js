@@ -1,6 +1,7 @@
 // `npm start`: PostgreSQL on loopback (installed from Debian when missing), migrations, the demo
 // scenario when the database is empty, the local fakes, then build and serve the app.
-// Ctrl-C stops everything this script started.
+// Ctrl-C, SIGINT or SIGTERM (from any parent: a terminal, nohup, a process manager), or the death of
+// the parent process (npm's shell does not pass signals on) stop everything this script started.
 import { spawn, spawnSync } from 'node:child_process';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -11,7 +12,7 @@ const root = path.join(here, '..');
 const num = (v, d) => Number(process.env[v] ?? d);
 
 const o = {
-	root: path.join(root, '.data', 'dev'),
+	root: process.env.STARGROUND_DATA_DIR ? path.resolve(process.env.STARGROUND_DATA_DIR) : path.join(root, '.data', 'dev'),
 	pgPort: num('STARGROUND_PG_PORT', 54329),
 	s3Port: num('STARGROUND_S3_PORT', 4569),
 	smtpPort: num('STARGROUND_SMTP_PORT', 2525),
@@ -42,8 +43,13 @@ async function shutdown(code = 0) {
 	await stack?.stop();
 	process.exit(code);
 }
-process.on('SIGINT', () => shutdown(0));
-process.on('SIGTERM', () => shutdown(0));
+for (const sig of ['SIGINT', 'SIGTERM']) process.on(sig, () => shutdown(0));
+// `npm start` runs this script through `sh -c`, which dies on SIGTERM without passing it on: when our
+// parent goes away (we are re-parented), stop as if signalled. Checked every second.
+const parentAtStart = process.ppid;
+setInterval(() => {
+	if (process.ppid !== parentAtStart) shutdown(0);
+}, 1000).unref();
 
 try {
 	console.log('• starting PostgreSQL, fakes and migrations…');
@@ -53,7 +59,8 @@ try {
 		const b = spawnSync('npx', ['vite', 'build'], { cwd: root, stdio: 'inherit', env: { ...process.env, ...stack.env } });
 		if (b.status !== 0) throw new Error('build failed');
 	}
-	app = spawn(process.execPath, ['build'], {
+	// The app exits on its own if this script is killed outright (SIGKILL): see scripts/lib/parent-watch.js.
+	app = spawn(process.execPath, ['--import', path.join(here, 'lib', 'parent-watch.js'), 'build'], {
 		cwd: root,
 		stdio: ['ignore', 'inherit', 'inherit'],
 		env: { ...process.env, ...stack.env, SEED_DEMO: 'true', NODE_ENV: 'production' }

@@ -6,6 +6,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { startStack } from './lib/stack.js';
+import { findPgBin } from './lib/postgres.js';
 
 const here = path.dirname(fileURLToPath(import.meta.url));
 const root = path.join(here, '..');
@@ -20,7 +21,9 @@ const o = {
 	mailViewerPort: num('STARGROUND_TEST_MAIL_VIEWER_PORT', 2590),
 	appPort: num('STARGROUND_TEST_APP_PORT', 3100),
 	database: 'starground_test',
-	fast: true
+	fast: true,
+	// The fault suite stops and starts the fakes through the inbox viewer (POST /control/…).
+	controls: true
 };
 
 // optional: "unit" or "e2e", then filters passed on to Vitest or Playwright after `--`
@@ -98,7 +101,10 @@ try {
 		MAIL_POLL_S: '0.5',
 		MAIL_RETRY_DELAY_S: '1',
 		TEST_SMTP_PORT: String(o.smtpPort),
-		TEST_PG_PORT: String(o.pgPort)
+		TEST_PG_PORT: String(o.pgPort),
+		// The fault suite stops and starts this PostgreSQL with pg_ctl.
+		TEST_PG_DATA: path.join(dataRoot, 'postgres', 'pgdata'),
+		TEST_PG_BIN: findPgBin()
 	};
 	if (only !== 'e2e') {
 		console.log('• Vitest: unit and integration tests');
@@ -112,11 +118,35 @@ try {
 		app = spawn(process.execPath, ['build'], {
 			cwd: root,
 			stdio: ['ignore', fs.openSync(path.join(dataRoot, 'app.log'), 'a'), fs.openSync(path.join(dataRoot, 'app.log'), 'a')],
-			env: { ...process.env, ...testEnv, NODE_ENV: 'production', SEED_DEMO: 'true', AUTH_SIGNIN_MAX: '1000', API_WRITE_LIMIT: '5000' }
+			// Many tests share one client address and a few demo members: lift the budgets that would
+			// otherwise run out (each limit has its own test against the defaults).
+			env: {
+				...process.env,
+				...testEnv,
+				NODE_ENV: 'production',
+				SEED_DEMO: 'true',
+				AUTH_SIGNIN_MAX: '1000',
+				AUTH_SIGNUP_PER_HOUR: '1000',
+				AUTH_RESET_PER_HOUR: '1000',
+				API_WRITE_LIMIT: '5000',
+				COMMENT_RATE_PER_MIN: '1000',
+				COMMENT_RATE_PER_HOUR: '100000'
+			}
 		});
 		await waitFor(`${testEnv.ORIGIN}/`, 240_000);
 		console.log('• Playwright: end-to-end tests in Debian Chromium');
-		const code = await run('npx', ['playwright', 'test', ...filters], testEnv);
+		const faultFilters = filters.filter((f) => f.includes('fault'));
+		const e2eFilters = filters.filter((f) => !f.includes('fault'));
+		let code = 0;
+		if (filters.length === 0 || e2eFilters.length > 0) {
+			code = await run('npx', ['playwright', 'test', '--project=chromium', ...e2eFilters], testEnv);
+		}
+		// The fault suite stops the services everything else uses: it runs last, alone.
+		if (filters.length === 0 || faultFilters.length > 0) {
+			console.log('• Playwright: the fault suite (PostgreSQL, SMTP and S3 stopped under the running app)');
+			const faults = await run('npx', ['playwright', 'test', '--project=faults', ...faultFilters], testEnv);
+			if (faults !== 0) code = faults;
+		}
 		if (code !== 0) {
 			failed++;
 			console.log('--- last lines of the app log ---');

@@ -1,17 +1,25 @@
 import { sequence } from '@sveltejs/kit/hooks';
 import type { Handle, HandleServerError, ServerInit } from '@sveltejs/kit';
 import { building } from '$app/environment';
-import { handleAuth, handleApiEnvelope, handleApiRateLimit, handleHttpCache, handleSecurityHeaders } from '$lib/server/hooks';
+import { handleAuth, handleApiEnvelope, handleApiRateLimit, handleHttpCache, handleControlCharacters, handleRequestGuards, handleSecurityHeaders } from '$lib/server/hooks';
 import { startBackground } from '$lib/server/startup';
+import { handleUnavailable, noteUnavailable } from '$lib/server/hooks/unavailable';
+import { unavailableMessage } from '$lib/server/http/unavailable';
+import { handleIdempotency } from '$lib/server/http/idempotency';
 
 export const init: ServerInit = async () => {
 	if (!building) await startBackground();
 };
 
-export const handle: Handle = sequence(handleSecurityHeaders, handleApiEnvelope, handleAuth, handleApiRateLimit, handleHttpCache);
+export const handle: Handle = sequence(handleUnavailable, handleSecurityHeaders, handleApiEnvelope, handleRequestGuards, handleControlCharacters, handleAuth, handleIdempotency, handleApiRateLimit, handleHttpCache);
 
 export const handleError: HandleServerError = ({ error, event, status, message }) => {
 	if (status === 404) return { message: 'Not found' };
+	const service = noteUnavailable(event, error);
+	if (service) {
+		console.error(`[unavailable] ${event.request.method} ${event.url.pathname}: ${service}`, (error as Error)?.message);
+		return { message: unavailableMessage(service) };
+	}
 	const errorId = crypto.randomUUID();
 	console.error(`[${errorId}] ${event.request.method} ${event.url.pathname}`, error);
 	return { message: status >= 500 ? 'Something went wrong on our side.' : message, errorId };

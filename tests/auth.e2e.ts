@@ -34,7 +34,7 @@ test('sign-up refuses malformed input field by field and creates nothing', async
 	await page.getByLabel('Password').fill('short');
 	await page.getByRole('button', { name: 'Create account' }).click();
 	await expect(page.getByText('Letters, digits and dashes')).toBeVisible();
-	await expect(page.getByText('Use at least 10 characters.')).toBeVisible();
+	await expect(page.getByText('Use at least 12 characters.')).toBeVisible();
 	await expect(page.getByLabel('Password')).toHaveAttribute('aria-invalid', 'true');
 	// Nothing was created: signing in with that address is refused as unknown.
 	const res = await request.post('/api/auth/sign-in/email', {

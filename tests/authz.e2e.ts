@@ -692,8 +692,11 @@ for (const c of cases) {
 test('re-subscribing from the mail link turns the mail back on, and it stays on', async () => {
 	const t = await unsubscribeToken();
 	const replyOn = async () => /name="notifyReply"[^>]*checked/.test(await (await ctx.other.get('/account')).text());
-	// Opening the link turns replies off…
+	// Opening the link changes nothing (mail scanners open links); the confirming POST turns replies off…
 	expect((await ctx.anon.get(`/unsubscribe?token=${encodeURIComponent(t)}`)).status()).toBe(200);
+	expect(await replyOn()).toBe(true);
+	const off = await ctx.anon.post('/unsubscribe?/unsubscribe', { form: { token: t }, headers: formHeaders() });
+	expect(off.status()).toBe(200);
 	expect(await replyOn()).toBe(false);
 	// …and the button turns them on again: the page it lands on must not switch them off a second time.
 	const res = await ctx.anon.post('/unsubscribe?/resubscribe', { form: { token: t }, headers: formHeaders() });

@@ -66,11 +66,12 @@ test('the maker uploads a cover with alt text, sees the progress bar, and the bu
 	const media = await page.request.get(src);
 	expect(media.status()).toBe(200);
 	expect(media.headers()['content-type']).toBe('image/webp');
-	expect(media.headers()['cache-control']).toBe('public, max-age=31536000, immutable');
+	// The build is a draft: its photos are private to those who may see it, never in a shared cache.
+	expect(media.headers()['cache-control']).toBe('private, max-age=300');
 	expect(media.headers()['etag']).toBeTruthy();
 });
 
-test('the upload route refuses bad files with a sentence, and only the maker may add or delete photos', async ({
+test('the upload route refuses bad files with a sentence, and only the maker may add, delete or see photos of a draft', async ({
 	page,
 	browser
 }) => {
@@ -108,9 +109,12 @@ test('the upload route refuses bad files with a sentence, and only the maker may
 	const { photo } = await ok.json();
 	const other = await browser.newPage({ baseURL: base });
 	await signIn(other, AIKO);
-	expect((await post(other, { name: 'ok.jpg', mimeType: 'image/jpeg', buffer: jpeg })).status()).toBe(403);
+	// (The build is a draft: to another maker it does not exist, so 404, never a tell-tale 403.)
+	expect((await post(other, { name: 'ok.jpg', mimeType: 'image/jpeg', buffer: jpeg })).status()).toBe(404);
 	const del = await other.request.delete(`${url}/${photo.id}`, { headers: { origin: base } });
-	expect(del.status()).toBe(403);
+	expect(del.status()).toBe(404);
+	// Nor may they fetch the draft's photo by its address.
+	expect((await other.request.get(`${base}/media/photos/${photo.id}/320.webp`)).status()).toBe(404);
 	await other.close();
 
 	// Signed out: 401.

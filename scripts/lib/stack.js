@@ -14,7 +14,7 @@ async function requireFree(port, what) {
 
 /**
  * @param {{ root: string, pgPort: number, s3Port: number, smtpPort: number, mailViewerPort: number,
- *           appPort: number, database: string, fast?: boolean }} o
+ *           appPort: number, database: string, fast?: boolean, controls?: boolean }} o
  */
 export async function startStack(o) {
 	const stops = [];
@@ -37,8 +37,13 @@ export async function startStack(o) {
 		stops.push(() => s3.stop());
 		await requireFree(o.smtpPort, 'fake SMTP');
 		await requireFree(o.mailViewerPort, 'inbox viewer');
-		const smtp = await startFakeSmtp({ smtpPort: o.smtpPort, httpPort: o.mailViewerPort, directory: path.join(o.root, 'mail') });
+		const smtp = await startFakeSmtp({ smtpPort: o.smtpPort, httpPort: o.mailViewerPort, directory: path.join(o.root, 'mail'), controls: !!o.controls });
 		stops.push(() => smtp.stop());
+		if (o.controls) {
+			// Fault tests stop and start the fakes through the inbox viewer (POST /control/s3/stop …).
+			smtp.control('s3/stop', () => s3.stop());
+			smtp.control('s3/start', () => s3.start());
+		}
 
 		const secretFile = path.join(o.root, 'auth-secret');
 		if (!fs.existsSync(secretFile)) fs.writeFileSync(secretFile, crypto.randomBytes(32).toString('hex'), { mode: 0o600 });

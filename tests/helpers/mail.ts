@@ -6,6 +6,8 @@ export interface InboxMessage {
 	text: string;
 	html: string;
 	headers: Record<string, string>;
+	/** Every header as sent, lower-case names. */
+	rawHeaders: Record<string, string>;
 }
 
 const viewer = () => process.env.MAIL_VIEWER_URL ?? 'http://127.0.0.1:2590';

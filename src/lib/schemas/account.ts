@@ -1,10 +1,19 @@
 import { z } from 'zod';
 
 export const email = z.string().trim().toLowerCase().email('Enter a valid e-mail address.').max(254);
+/** 12 to 128 characters (OWASP ASVS 4.0.3 V2.1.1/V2.1.2); the server also refuses easily guessed ones. */
 export const password = z
 	.string()
-	.min(10, 'Use at least 10 characters.')
+	.min(12, 'Use at least 12 characters.')
 	.max(128, 'Use at most 128 characters.');
+
+/** The name others see; no control characters. */
+export const displayName = z
+	.string()
+	.trim()
+	.min(1, 'Enter the name others will see.')
+	.max(80, 'Use at most 80 characters.')
+	.regex(/^[^\p{Cc}]*$/u, 'Leave out control characters.');
 
 export const handle = z
 	.string()
@@ -15,7 +24,7 @@ export const handle = z
 	.regex(/^[a-z0-9][a-z0-9-]*$/, 'Letters, digits and dashes; start with a letter or digit.');
 
 export const signUpSchema = z.object({
-	name: z.string().trim().min(1, 'Enter the name others will see.').max(80, 'Use at most 80 characters.'),
+	name: displayName,
 	handle,
 	email,
 	password
@@ -27,6 +36,8 @@ export const signInSchema = z.object({
 });
 
 export const forgotSchema = z.object({ email });
+
+export const resendSchema = z.object({ email });
 
 export const resetSchema = z
 	.object({

@@ -1,7 +1,7 @@
 import { betterAuth } from 'better-auth';
 import { drizzleAdapter } from 'better-auth/adapters/drizzle';
 import { sveltekitCookies } from 'better-auth/svelte-kit';
-import { APIError } from 'better-auth/api';
+import { APIError, createAuthMiddleware } from 'better-auth/api';
 import { error, redirect } from '@sveltejs/kit';
 import { getRequestEvent } from '$app/server';
 import { env } from '$env/dynamic/private';
@@ -11,6 +11,9 @@ import { db } from './db';
 import * as schema from './db/schema';
 import { composeMail, enqueueMail } from './mail';
 import { ROLES, roleAtLeast, type Role } from '$lib/roles';
+import { handle as handleSchema, displayName } from '$lib/schemas/account';
+import { consume } from './members/limits';
+import { passwordProblem, PASSWORD_MAX, PASSWORD_MIN } from './members/password';
 
 export { ROLES, roleAtLeast, type Role };
 
@@ -19,10 +22,76 @@ export const CLIENT_ADDRESS_HEADER = 'x-starground-client';
 
 const baseURL = env.BETTER_AUTH_URL ?? env.ORIGIN ?? 'http://127.0.0.1:5173';
 
+/** An account whose e-mail is not confirmed within this many days is removed, freeing its handle and address. */
+export const UNCONFIRMED_RELEASE_DAYS = 7;
+
+/** Shortest secret accepted: 32 characters (256 bits when hex or base64 from a random source). */
+export const SECRET_MIN_LENGTH = 32;
+
+/**
+ * The signing secret, or a refusal to start: without one, better-auth would fall back to a public
+ * default outside production and anyone could forge verification and reset tokens. `npm start` and
+ * `npm test` generate one; everywhere else it must be set.
+ */
+export function authSecret(value: string | undefined, isBuilding = building): string {
+	// `vite build` loads this module to analyse routes; only then is a placeholder used.
+	if (isBuilding) return 'build-time-placeholder-secret-not-for-use';
+	if (!value || value.trim().length < SECRET_MIN_LENGTH) {
+		throw new Error(
+			`BETTER_AUTH_SECRET must be set to a random value of at least ${SECRET_MIN_LENGTH} characters ` +
+				'(for example the output of `openssl rand -hex 32`). Refusing to start without it.'
+		);
+	}
+	return value.trim();
+}
+
+/**
+ * Endpoints of better-auth that we serve over HTTP; every other one answers 404. Sign-up, password
+ * reset requests, resending confirmation and profile changes go through our own forms, which validate
+ * and rate-limit them. (Listed in `disabledPaths` too, so the library refuses them on its own.)
+ */
+export const AUTH_HTTP_PATHS = ['/sign-in/email', '/sign-out', '/get-session', '/verify-email', '/reset-password/', '/ok', '/error'];
+
+const DISABLED_PATHS = [
+	'/account-info', '/change-email', '/change-password', '/delete-user', '/delete-user/callback',
+	'/get-access-token', '/link-social', '/list-accounts', '/list-sessions', '/refresh-token',
+	'/request-password-reset', '/reset-password', '/revoke-other-sessions', '/revoke-session',
+	'/revoke-sessions', '/send-verification-email', '/sign-in/social', '/sign-up/email',
+	'/unlink-account', '/update-session', '/update-user', '/verify-password'
+];
+
+const refuse = (message: string) => new APIError('BAD_REQUEST', { message, code: 'INVALID_INPUT' });
+
+/**
+ * Our rules for the library's endpoints, also when they are called from our own code: a handle on
+ * every new account, names and passwords checked like the forms check them.
+ */
+const validateAuthInput = createAuthMiddleware(async (ctx) => {
+	const body = (ctx.body ?? {}) as Record<string, unknown>;
+	if (ctx.path === '/sign-up/email') {
+		const handle = handleSchema.safeParse(body.handle);
+		if (!handle.success) throw refuse('Choose a handle: ' + handle.error.issues[0].message);
+		const name = displayName.safeParse(body.name);
+		if (!name.success) throw refuse(name.error.issues[0].message);
+		const problem = passwordProblem(String(body.password ?? ''), [String(body.email ?? ''), name.data, handle.data]);
+		if (problem) throw refuse(problem);
+	}
+	if (ctx.path === '/update-user') {
+		for (const key of Object.keys(body)) if (key !== 'name') throw refuse(`${key} cannot be changed here.`);
+		const name = displayName.safeParse(body.name);
+		if (!name.success) throw refuse(name.error.issues[0].message);
+	}
+	if (ctx.path === '/reset-password' || ctx.path === '/change-password') {
+		const problem = passwordProblem(String(body.newPassword ?? ''));
+		if (problem) throw refuse(problem);
+	}
+});
+
 export const auth = betterAuth({
 	baseURL,
-	// `vite build` loads this module to analyse routes; only then is a placeholder secret used.
-	secret: env.BETTER_AUTH_SECRET ?? (building ? 'build-time-placeholder-secret-not-for-use' : undefined),
+	secret: authSecret(env.BETTER_AUTH_SECRET),
+	disabledPaths: DISABLED_PATHS,
+	hooks: { before: validateAuthInput },
 	database: drizzleAdapter(db, {
 		provider: 'pg',
 		schema: {
@@ -37,7 +106,8 @@ export const auth = betterAuth({
 	user: {
 		additionalFields: {
 			role: { type: 'string', required: false, defaultValue: 'maker', input: false },
-			handle: { type: 'string', required: false, input: false },
+			// Set at sign-up only (checked in validateAuthInput); update-user refuses it.
+			handle: { type: 'string', required: false, input: true },
 			bio: { type: 'string', required: false, defaultValue: '', input: false },
 			avatarKey: { type: 'string', required: false, input: false },
 			suspendedAt: { type: 'date', required: false, input: false }
@@ -46,10 +116,12 @@ export const auth = betterAuth({
 	emailAndPassword: {
 		enabled: true,
 		requireEmailVerification: true,
-		minPasswordLength: 10,
-		maxPasswordLength: 128,
+		minPasswordLength: PASSWORD_MIN,
+		maxPasswordLength: PASSWORD_MAX,
 		revokeSessionsOnPasswordReset: true,
 		sendResetPassword: async ({ user, url }) => {
+			// At most AUTH_MAIL_PER_HOUR reset mails an hour reach one inbox, however many are asked for.
+			if (!(await consume('mailByEmail', `reset:${user.email}`)).ok) return;
 			await enqueueMail(
 				composeMail({
 					to: user.email,
@@ -66,16 +138,20 @@ export const auth = betterAuth({
 	},
 	emailVerification: {
 		sendOnSignUp: true,
+		// Signing in to an unconfirmed account sends the link again (within the mail budget below).
+		sendOnSignIn: true,
 		autoSignInAfterVerification: true,
 		expiresIn: 60 * 60 * 24,
 		sendVerificationEmail: async ({ user, url }) => {
+			if (!(await consume('mailByEmail', `confirm:${user.email}`)).ok) return;
 			await enqueueMail(
 				composeMail({
 					to: user.email,
 					subject: 'Confirm your e-mail for Starground',
 					paragraphs: [
 						`Hello ${user.name},`,
-						'Confirm this address to finish creating your Starground account. The link works for 24 hours.'
+						'Confirm this address to finish creating your Starground account. The link works for 24 hours.',
+						`An account that is not confirmed within ${UNCONFIRMED_RELEASE_DAYS} days is removed, and its handle becomes free again.`
 					],
 					action: { label: 'Confirm my e-mail', url }
 				})

@@ -38,8 +38,18 @@ export async function deliver(msg: MailMessage): Promise<void> {
 		subject: msg.subject,
 		text: msg.text,
 		html: msg.html,
-		headers: msg.unsubscribeUrl ? { 'List-Unsubscribe': `<${msg.unsubscribeUrl}>` } : undefined
+		headers: msg.unsubscribeUrl ? listUnsubscribeHeaders(msg.unsubscribeUrl) : undefined
 	});
+}
+
+/**
+ * RFC 2369 List-Unsubscribe with the RFC 8058 one-click POST: the mail client posts
+ * `List-Unsubscribe=One-Click` to /unsubscribe/one-click with the same signed token.
+ */
+export function listUnsubscribeHeaders(unsubscribeUrl: string): Record<string, string> {
+	const oneClick = new URL(unsubscribeUrl);
+	oneClick.pathname = '/unsubscribe/one-click';
+	return { 'List-Unsubscribe': `<${oneClick.toString()}>`, 'List-Unsubscribe-Post': 'List-Unsubscribe=One-Click' };
 }
 
 let bossPromise: Promise<PgBoss> | null = null;

@@ -38,10 +38,10 @@ describe('renderMarkdown: ordinary Markdown', () => {
 		for (const a of links) expect(a.getAttribute('rel')).toBe('nofollow noopener ugc');
 	});
 
-	it('keeps images from our media path and from https, lazily loaded', () => {
+	it('keeps images from our media path only, lazily loaded; images from other hosts are dropped', () => {
 		const body = dom(renderMarkdown('![board](/media/photos/ab/640.webp) ![scope](https://example.org/s.png)'));
 		const imgs = [...body.querySelectorAll('img')];
-		expect(imgs.map((i) => i.getAttribute('src'))).toEqual(['/media/photos/ab/640.webp', 'https://example.org/s.png']);
+		expect(imgs.map((i) => i.getAttribute('src'))).toEqual(['/media/photos/ab/640.webp']);
 		expect(imgs.every((i) => i.getAttribute('loading') === 'lazy')).toBe(true);
 		expect(imgs[0].getAttribute('alt')).toBe('board');
 	});
@@ -122,13 +122,29 @@ describe('renderMarkdown: XSS vectors never survive', () => {
 });
 
 describe('isAllowedImageSrc', () => {
-	it('allows only our media path and https', () => {
+	it('allows only our media path', () => {
 		expect(isAllowedImageSrc('/media/photos/x/320.webp')).toBe(true);
-		expect(isAllowedImageSrc('https://example.org/a.png')).toBe(true);
+		expect(isAllowedImageSrc('https://example.org/a.png')).toBe(false);
 		expect(isAllowedImageSrc('http://example.org/a.png')).toBe(false);
 		expect(isAllowedImageSrc('/media/../api/v1/builds')).toBe(false);
 		expect(isAllowedImageSrc('/api/v1/builds')).toBe(false);
 		expect(isAllowedImageSrc('//evil.example/a.png')).toBe(false);
 		expect(isAllowedImageSrc(' data:image/png;base64,AAAA')).toBe(false);
+	});
+
+	it('decodes before checking: encoded dots, slashes and backslashes never leave /media/', () => {
+		for (const src of [
+			'/media/%2e%2e/api/v1/builds',
+			'/media/%2E%2E/%2E%2E/sign-out',
+			'/media/%252e%252e/api/v1/builds',
+			'/media/.%2e/x',
+			'/media/%2f%2fevil.example/a.png',
+			'/media/%5c..%5capi',
+			'/media/a/%00/../b',
+			'/media/%zz'
+		]) {
+			expect(isAllowedImageSrc(src), src).toBe(false);
+		}
+		expect(isAllowedImageSrc('/media/photos/a%20b/320.webp')).toBe(true);
 	});
 });

@@ -4,7 +4,7 @@
  *
  * What survives: ordinary HTML text markup (paragraphs, lists, tables, code, emphasis, links, images).
  * What never does: scripts, event handlers, styles, iframes, forms, SVG and MathML, `javascript:`,
- * `vbscript:` and `data:` URIs. Images load only from our own media path (`/media/…`) or over https.
+ * `vbscript:` and `data:` URIs. Images load only from our own media path (`/media/…`).
  * Links get rel="nofollow noopener ugc" (readers' content; no SEO credit, no window.opener).
  */
 import { Marked } from 'marked';
@@ -32,12 +32,49 @@ function normaliseUrl(raw: string): string {
 	return raw.replace(/[\u0000-\u0020\u007f-\u009f\u00ad\u200b-\u200f\u2028\u2029\ufeff]/g, '');
 }
 
-/** True for an image source we serve ourselves or one fetched over https. Exported for tests. */
+/** Percent-decode until nothing changes (at most a few rounds); null when the encoding is broken. */
+function fullyDecoded(s: string): string | null {
+	let cur = s;
+	for (let i = 0; i < 5; i++) {
+		let next: string;
+		try {
+			next = decodeURIComponent(cur);
+		} catch {
+			return null;
+		}
+		if (next === cur) return cur;
+		cur = next;
+	}
+	return null;
+}
+
+/**
+ * True only for an image we serve ourselves: a path under `/media/` that stays there once decoded
+ * and resolved (no `..`, `%2e%2e`, backslashes or doubled slashes). Images from other hosts would
+ * tell them who reads the page, so they are dropped (and the page's Content-Security-Policy would
+ * block them as well). Exported for tests.
+ */
 export function isAllowedImageSrc(src: string): boolean {
 	const s = normaliseUrl(src);
 	if (BAD_SCHEME.test(s)) return false;
-	if (s.startsWith('/media/')) return !s.includes('..') && !s.includes('\\');
-	return /^https:\/\/[^/\\]/i.test(s);
+	const decoded = fullyDecoded(s);
+	// eslint-disable-next-line no-control-regex
+	if (decoded === null || /[\u0000-\u001f\u007f]/.test(decoded)) return false;
+	if (!decoded.startsWith('/media/') || decoded.includes('\\') || decoded.includes('//')) return false;
+	let resolved: URL;
+	try {
+		resolved = new URL(decoded, 'http://starground.invalid');
+	} catch {
+		return false;
+	}
+	const path = decoded.split(/[?#]/)[0];
+	let resolvedPath: string;
+	try {
+		resolvedPath = decodeURIComponent(resolved.pathname);
+	} catch {
+		return false;
+	}
+	return resolved.origin === 'http://starground.invalid' && resolvedPath === path && !path.split('/').some((seg) => seg === '..' || seg === '.');
 }
 
 purify.addHook('afterSanitizeAttributes', (node) => {

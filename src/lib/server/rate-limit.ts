@@ -46,6 +46,12 @@ export function createLimiter(opts: LimiterOptions) {
 				throw e;
 			}
 		},
+		/** Seconds until `key` may act again when its budget is used up; 0 when it still has room. Counts nothing. */
+		async blockedFor(key: string): Promise<number> {
+			const res = await store.get(key);
+			if (!res || res.consumedPoints < opts.points) return 0;
+			return Math.max(1, Math.ceil(res.msBeforeNext / 1000));
+		},
 		/** Forget the counter of `key` (tests, and an admin lifting a limit). */
 		reset: (key: string) => store.delete(key)
 	};
@@ -70,6 +76,30 @@ export async function consumeWrite(who: { userId?: string | null; address: strin
 	if (budget === 'off') return { ok: true, remaining: Infinity };
 	writes ??= createLimiter({ points: budget, durationS: WRITE_WINDOW_S, keyPrefix: 'api-write' });
 	return writes.consume(who.userId ? `user:${who.userId}` : `ip:${who.address}`);
+}
+
+let uploads: ReturnType<typeof createLimiter> | null = null;
+
+/** Uploads (photos, avatars) per member per hour from env `UPLOAD_LIMIT` (a positive number, or `off`), else 120. */
+export function uploadBudget(): number | 'off' {
+	const v = env.UPLOAD_LIMIT;
+	if (v === 'off') return 'off';
+	const n = Number(v);
+	return Number.isFinite(n) && n >= 1 ? Math.floor(n) : 120;
+}
+
+/** Count one upload of a member against their hourly budget. */
+export async function consumeUpload(userId: string): Promise<Verdict> {
+	const budget = uploadBudget();
+	if (budget === 'off') return { ok: true, remaining: Infinity };
+	uploads ??= createLimiter({ points: budget, durationS: 60 * 60, keyPrefix: 'upload' });
+	return uploads.consume(`user:${userId}`);
+}
+
+/** "You have uploaded a lot …" sentence for a refused upload. */
+export function uploadLimitSentence(retryAfterS: number): string {
+	const m = Math.max(1, Math.ceil(retryAfterS / 60));
+	return `You have uploaded the most pictures we take in an hour. Try again in ${m} minute${m === 1 ? '' : 's'}.`;
 }
 
 /** 429 `rate_limited` in the API envelope, with `Retry-After` in seconds. */

@@ -69,15 +69,15 @@ describe('saveSpecBlock', () => {
 		expect(await blocks(b.id)).toEqual(before);
 	});
 
-	it('lets only the maker or an admin add, change, move or delete; another maker gets 403 and nothing changes', async () => {
+	it('lets only the maker or an admin add, change, move or delete; to another maker the draft is absent (404) and nothing changes', async () => {
 		const b = await testBuild(maker.id);
 		const r = await saveSpecBlock(maker, b.id, { kind: 'amplifier', data: AMP });
 		if (!r.ok) throw new Error('expected a valid block');
 		const before = await blocks(b.id);
-		expect(await statusOf(saveSpecBlock(other, b.id, { kind: 'amplifier', data: AMP }))).toBe(403);
-		expect(await statusOf(saveSpecBlock(other, b.id, { id: r.id, kind: 'amplifier', data: { ...AMP, railV: 30 } }))).toBe(403);
-		expect(await statusOf(deleteSpecBlock(other, b.id, r.id))).toBe(403);
-		expect(await statusOf(moveSpecBlock(other, b.id, r.id, 1))).toBe(403);
+		expect(await statusOf(saveSpecBlock(other, b.id, { kind: 'amplifier', data: AMP }))).toBe(404);
+		expect(await statusOf(saveSpecBlock(other, b.id, { id: r.id, kind: 'amplifier', data: { ...AMP, railV: 30 } }))).toBe(404);
+		expect(await statusOf(deleteSpecBlock(other, b.id, r.id))).toBe(404);
+		expect(await statusOf(moveSpecBlock(other, b.id, r.id, 1))).toBe(404);
 		expect(await blocks(b.id)).toEqual(before);
 		expect((await saveSpecBlock(admin, b.id, { id: r.id, kind: 'amplifier', data: { ...AMP, railV: 30 } })).ok).toBe(true);
 	});

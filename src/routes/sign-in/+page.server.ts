@@ -3,12 +3,12 @@ import { superValidate, message, setError } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { signInSchema } from '$lib/schemas/account';
 import { signInWithPassword } from '$lib/server/members';
+import { safeNext } from '$lib/server/http/redirect';
 import type { Actions, PageServerLoad } from './$types';
 
-const safeNext = (next: string | null) => (next && next.startsWith('/') && !next.startsWith('//') ? next : '/');
 
 export const load: PageServerLoad = async ({ locals, url }) => {
-	if (locals.user) redirect(303, safeNext(url.searchParams.get('next')));
+	if (locals.user) redirect(303, safeNext(url.searchParams.get('next'), url.origin));
 	return { form: await superValidate(zod4(signInSchema)) };
 };
 
@@ -22,6 +22,6 @@ export const actions: Actions = {
 			if (result.code === 'INVALID_EMAIL_OR_PASSWORD') return setError(form, 'password', result.message);
 			return message(form, result.message, { status: result.status === 429 ? 429 : 400 });
 		}
-		redirect(303, safeNext(url.searchParams.get('next')));
+		redirect(303, safeNext(url.searchParams.get('next'), url.origin));
 	}
 };

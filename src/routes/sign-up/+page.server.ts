@@ -1,8 +1,8 @@
 import { fail, redirect } from '@sveltejs/kit';
-import { superValidate, setError } from 'sveltekit-superforms';
+import { superValidate, setError, message } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { signUpSchema } from '$lib/schemas/account';
-import { emailTaken, handleIsFree, signUp } from '$lib/server/members';
+import { signUp } from '$lib/server/members';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals }) => {
@@ -11,17 +11,18 @@ export const load: PageServerLoad = async ({ locals }) => {
 };
 
 export const actions: Actions = {
-	default: async ({ request }) => {
+	default: async ({ request, getClientAddress }) => {
 		const form = await superValidate(request, zod4(signUpSchema));
 		if (!form.valid) {
 			form.data.password = '';
 			return fail(400, { form });
 		}
-		if (!(await handleIsFree(form.data.handle))) return setError(form, 'handle', 'That handle is taken; pick another.');
-		if (await emailTaken(form.data.email)) {
-			return setError(form, 'email', 'An account with this e-mail exists. Sign in, or reset the password.');
+		const result = await signUp(form.data, getClientAddress());
+		if (!result.ok) {
+			form.data.password = '';
+			if (result.field) return setError(form, result.field, result.message);
+			return message(form, result.message, { status: result.status as 429 });
 		}
-		await signUp(form.data);
 		redirect(303, `/sign-up/check-mail?email=${encodeURIComponent(form.data.email)}`);
 	}
 };

@@ -35,13 +35,15 @@ export function canDerive(viewer: Viewer, build: Pick<Build, 'status'>): boolean
 }
 
 /**
- * Throw unless `viewer` may change `build`: 401 signed out, 403 for another member or for the maker
- * of a locked build (with the moderator's reason). Page loads call assertCanView first, so that a
- * draft still looks absent (404) to others when merely visited.
+ * Throw unless `viewer` may change `build`: 401 signed out, 404 when they may not even see it (another
+ * member's draft), 403 for another member's published build or for the maker of a locked build (with
+ * the moderator's reason).
  */
 export function assertCanEdit(viewer: Viewer, build: BuildAccess): asserts viewer is Actor {
 	if (!viewer) error(401, 'Sign in first.');
 	if (canEdit(viewer, build)) return;
+	// View before edit: a draft someone may not see is absent (404), never "not yours" (403).
+	assertCanView(viewer, build);
 	if (isOwner(viewer, build) && build.locked) {
 		error(
 			403,

@@ -255,7 +255,7 @@ function eqTs(word: string) {
 }
 
 describe('who may change a build', () => {
-	it('answers 403 to another maker on every mutating action, 401 when signed out', async () => {
+	it('answers 404 on a draft to another maker and a moderator (it is absent to them), 403 once published, 401 when signed out', async () => {
 		const d = await createDraft(maker.id, fields());
 		const s = await addStep(maker, d.id, { title: 'Mine', bodyMd: '' });
 		const step = { title: 'Hijacked', bodyMd: '' };
@@ -267,8 +267,9 @@ describe('who may change a build', () => {
 			() => deleteStep(who as never, s.id),
 			() => publish(who as never, d.id)
 		];
-		for (const attempt of attempts(other)) expect(await statusOf(attempt())).toBe(403);
-		for (const attempt of attempts(moderator)) expect(await statusOf(attempt())).toBe(403);
+		// View before edit: the same answer as for a build that does not exist, so a draft's existence never leaks.
+		for (const attempt of attempts(other)) expect(await statusOf(attempt())).toBe(404);
+		for (const attempt of attempts(moderator)) expect(await statusOf(attempt())).toBe(404);
 		for (const attempt of attempts(null)) expect(await statusOf(attempt())).toBe(401);
 
 		await publish(maker, d.id);
@@ -289,11 +290,15 @@ describe('who may change a build', () => {
 		const s = await addStep(maker, d.id, { title: 'Step', bodyMd: '' });
 		expect(await statusOf(setBuildLocked(other, d.id, true, 'no reason'))).toBe(403);
 		expect(await statusOf(setBuildLocked(moderator, d.id, true, ''))).toBe(422);
+		// A moderator cannot see another member's draft, so cannot lock it either.
+		expect(await statusOf(setBuildLocked(moderator, d.id, true, 'Unsafe mains wiring advice under discussion'))).toBe(404);
+		expect((await buildRow(d.id)).locked).toBe(false);
+		await publish(maker, d.id);
 
 		await setBuildLocked(moderator, d.id, true, 'Unsafe mains wiring advice under discussion');
 		expect(await buildRow(d.id)).toMatchObject({ locked: true, lockedReason: 'Unsafe mains wiring advice under discussion' });
 		expect(await statusOf(updateStep(maker, s.id, { title: 'Edited', bodyMd: '' }))).toBe(403);
-		expect(await statusOf(publish(maker, d.id))).toBe(403);
+		expect(await statusOf(updateBuild(maker, d.id, fields()))).toBe(403);
 
 		await setBuildLocked(moderator, d.id, false, 'Resolved with the maker');
 		await updateStep(maker, s.id, { title: 'Edited', bodyMd: '' });
@@ -353,8 +358,8 @@ describe('derive', () => {
 		const childLineage = await loadLineage(c, other);
 		expect(childLineage.derivedFrom?.slug).toBe((await buildRow(o.id)).slug);
 
-		// The deriver may change their draft; the origin's maker may not.
-		expect(await statusOf(addStep(maker, child.id, { title: 'x', bodyMd: '' }))).toBe(403);
+		// The deriver may change their draft; the origin's maker may not (to them the draft is absent).
+		expect(await statusOf(addStep(maker, child.id, { title: 'x', bodyMd: '' }))).toBe(404);
 		await addStep(other, child.id, { title: 'My own step', bodyMd: '' });
 		await publish(other, child.id);
 		expect((await loadLineage({ id: o.id, derivedFromId: null }, null)).derivedBuilds.map((l) => l.slug)).toEqual([child.slug]);

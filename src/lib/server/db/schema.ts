@@ -316,6 +316,24 @@ export const apiRateLimit = pgTable('api_rate_limit', {
 	expire: timestamp('expire', { withTimezone: true })
 });
 
+/**
+ * `Idempotency-Key` of API writes (http/idempotency.ts): per member or client address, the first
+ * answer to a request, replayed when the same request comes again. Rows older than 24 hours are removed.
+ */
+export const idempotencyKey = pgTable(
+	'idempotency_key',
+	{
+		scope: text('scope').notNull(),
+		key: text('key').notNull(),
+		fingerprint: text('fingerprint').notNull(),
+		status: integer('status'),
+		contentType: text('content_type'),
+		body: text('body'),
+		createdAt: timestamp('created_at', { withTimezone: true }).defaultNow().notNull()
+	},
+	(t) => [primaryKey({ columns: [t.scope, t.key] }), index('idempotency_key_created_idx').on(t.createdAt)]
+);
+
 export type Build = typeof build.$inferSelect;
 export type BuildStep = typeof buildStep.$inferSelect;
 export type Photo = typeof photo.$inferSelect;

@@ -5,7 +5,7 @@ import { escapeUTF8 as escapeHtml } from 'entities';
 /** A refusal about one field of an upload, answered as the envelope with one issue at `path`. */
 export class FieldError extends Error {
 	constructor(
-		readonly status: 400 | 404 | 413 | 415 | 422,
+		readonly status: 400 | 404 | 413 | 415 | 422 | 429 | 503,
 		readonly code: ApiErrorCode,
 		message: string,
 		readonly path: string = 'file'

@@ -5,7 +5,7 @@ import { db } from '../db';
 import * as schema from '../db/schema';
 import { profileSchema } from '$lib/schemas/account';
 import type { z } from 'zod';
-import { processPhoto } from '../photos';
+import { PhotoError, processPhoto } from '../photos';
 import { initials } from './makers';
 import { putObject, deleteObjects } from '../photos';
 
@@ -43,14 +43,19 @@ export async function setAvatar(userId: string, bytes: Uint8Array): Promise<stri
 	const processed = await processPhoto(bytes);
 	const rendition = processed.renditions.find((r) => r.width === Math.min(AVATAR_WIDTH, processed.width)) ?? processed.renditions[0];
 	const key = `avatars/${crypto.randomUUID()}/${rendition.width}.webp`;
-	await putObject(key, rendition.data, { contentType: 'image/webp', cacheControl: 'public, max-age=31536000, immutable' });
+	try {
+		await putObject(key, rendition.data, { contentType: 'image/webp', cacheControl: 'public, max-age=31536000, immutable' });
+	} catch (err) {
+		console.error('avatar: storing failed', err);
+		throw new PhotoError(503, 'unavailable', 'Photo storage is not answering right now, so the picture was not saved. Try again in a minute.');
+	}
 	let previous: string | null = null;
 	try {
 		const [u] = await db.select({ avatarKey: schema.user.avatarKey }).from(schema.user).where(eq(schema.user.id, userId));
 		previous = u?.avatarKey ?? null;
 		await db.update(schema.user).set({ avatarKey: key }).where(eq(schema.user.id, userId));
 	} catch (err) {
-		await deleteObjects([key]);
+		await deleteObjects([key]).catch(() => {});
 		throw err;
 	}
 	if (previous) await deleteObjects([previous]).catch(() => {});

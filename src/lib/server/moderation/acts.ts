@@ -15,6 +15,7 @@ import { db, type Tx } from '../db';
 import { recordAudit } from '../audit';
 import type { Actor } from '../actor';
 import { lockBuild } from '../builds/edit';
+import { assertCanView } from '../builds/access';
 import { assignableRoles, roleAtLeast, type Role } from '$lib/roles';
 import { moderationReason, type ReportTargetKind } from '$lib/schemas/review';
 import { isUuid } from '$lib/uuid';
@@ -82,6 +83,8 @@ export async function setBuildLocked(actor: Actor, buildId: string, locked: bool
 	if (!isUuid(buildId)) error(404, 'No such build.');
 	await db.transaction(async (tx) => {
 		const b = await lockBuild(tx, buildId);
+		// View before edit: a moderator cannot see another member's draft, so cannot lock it (404, as if absent).
+		assertCanView(actor, b);
 		if (b.locked !== locked) {
 			await tx.update(schema.build).set({ locked, lockedReason: locked ? why : null }).where(eq(schema.build.id, buildId));
 			await recordAudit(tx, {

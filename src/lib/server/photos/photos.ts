@@ -285,7 +285,9 @@ export async function processAndStorePhoto(input: StorePhotoInput): Promise<sche
 	if (puts.some((p) => p.status === 'rejected')) {
 		await deleteObjects(keys).catch((err) => console.error(`photo ${id}: cleanup after failed upload failed`, err));
 		const reason = puts.find((p): p is PromiseRejectedResult => p.status === 'rejected')!.reason;
-		throw new Error(`photo ${id}: storing renditions failed`, { cause: reason });
+		console.error(`photo ${id}: storing renditions failed`, reason);
+		// Nothing was written to the database: no row without its objects.
+		throw new PhotoError(503, 'unavailable', 'Photo storage is not answering right now, so the photo was not saved. Try again in a minute.', 'file');
 	}
 
 	let previousCover: { keyPrefix: string; widths: number[] } | null = null;

@@ -9,6 +9,7 @@ import {
 	S3ServiceException
 } from '@aws-sdk/client-s3';
 import { env } from '$env/dynamic/private';
+import { StorageUnavailableError, isStorageFailure } from '../http/unavailable';
 
 /**
  * Object storage through the S3 API: hosted S3 (leave `S3_ENDPOINT` unset) or any
@@ -34,7 +35,10 @@ export function s3(): S3Client {
 		// Without these, newer SDKs append a checksum trailer to streamed bodies, which
 		// some S3-compatible stores keep as part of the object (see STACK.md).
 		requestChecksumCalculation: 'WHEN_REQUIRED',
-		responseChecksumValidation: 'WHEN_REQUIRED'
+		responseChecksumValidation: 'WHEN_REQUIRED',
+		// An unreachable store fails within seconds (the request answers 503), not after minutes.
+		maxAttempts: 2,
+		requestHandler: { connectionTimeout: 3_000, requestTimeout: 30_000 }
 	});
 	return client;
 }
@@ -106,7 +110,7 @@ export async function getObject(
 	} catch (err) {
 		if (statusOf(err) === 304) return 'not-modified';
 		if (isMissing(err)) return null;
-		throw err;
+		throw isStorageFailure(err) ? new StorageUnavailableError(err) : err;
 	}
 }
 

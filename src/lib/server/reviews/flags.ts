@@ -15,6 +15,7 @@ import { recordAudit } from '../audit';
 import { notifyFlag } from '../notifications';
 import { inTx } from '../db/tx';
 import type { Actor } from '../actor';
+import { assertCanView } from '../builds/access';
 import { roleAtLeast } from '$lib/roles';
 import { addressFlagSchema, raiseFlagSchema, type RaiseFlagInput } from '$lib/schemas/review';
 import { FLAG_STATES, type FlagState } from '$lib/reviews';
@@ -28,6 +29,7 @@ type BuildForReview = Pick<schema.Build, 'id' | 'ownerId' | 'status' | 'slug' | 
  * build's own maker — a maker can never review their own build — and 409 unless it is published.
  */
 export function assertCanReview(actor: Actor, build: Pick<schema.Build, 'ownerId' | 'status'>): void {
+	assertCanView(actor, build);
 	if (!roleAtLeast(actor.role, 'reviewer')) error(403, 'Only reviewers can review builds.');
 	if (actor.id === build.ownerId) error(403, 'A maker can never review their own build.');
 	if (build.status !== 'published') error(409, 'Only published builds can be reviewed.');
@@ -114,6 +116,7 @@ export async function addressFlag(actor: Actor, flagId: string, note: string, op
 	const data = addressFlagSchema.parse({ note });
 	return inTx(opts.tx, async (tx) => {
 		const { flag, build } = await lockFlag(tx, flagId);
+		assertCanView(actor, build);
 		if (actor.id !== build.ownerId) error(403, 'Only the maker of this build can mark its hazard tags fixed.');
 		if (build.locked) error(403, 'A moderator has locked this build, so its hazard tags cannot be changed for now.');
 		if (flag.state !== 'open') error(409, `This hazard tag is ${FLAG_STATES[flag.state as FlagState]?.toLowerCase() ?? flag.state}, not tagged: only a tag still tagged can be marked fixed.`);
@@ -142,6 +145,7 @@ export async function setFlagState(
 ): Promise<BuildForReview> {
 	return inTx(opts.tx, async (tx) => {
 		const { flag, build } = await lockFlag(tx, flagId);
+		assertCanView(actor, build);
 		if (!roleAtLeast(actor.role, 'reviewer')) error(403, 'Only reviewers can clear or re-tag hazard tags.');
 		if (actor.id === build.ownerId) error(403, 'A maker cannot clear or re-tag hazard tags on their own build.');
 		if (!FROM[change].includes(flag.state as FlagState)) {

@@ -14,6 +14,7 @@ import { inTx } from '../db/tx';
 import { reviewSchema, type ReviewInput } from '$lib/schemas/review';
 import type { Actor } from '../actor';
 import { assertCanReview, reviewerName, type WriteOptions } from './flags';
+import { assertCanView } from '../builds/access';
 
 /**
  * The maker asks for review of their published build: it joins the review desk (oldest request first).
@@ -23,6 +24,7 @@ export async function requestReview(actor: Actor, buildId: string, tx?: Tx): Pro
 	return inTx(tx, async (t) => {
 		const [b] = await t.select().from(schema.build).where(eq(schema.build.id, buildId)).for('update');
 		if (!b) error(404, 'Not found');
+		assertCanView(actor, b);
 		if (actor.id !== b.ownerId) error(403, 'Only the maker of this build can ask for its review.');
 		if (b.status !== 'published') error(409, 'Publish the build first: reviewers review published builds.');
 		if (b.locked) error(403, 'A moderator has locked this build; it cannot go to the review desk for now.');

@@ -11,7 +11,8 @@ import { actorOf } from '$lib/server/actor';
 export const load: PageServerLoad = async ({ url }) => {
 	const actor = actorOf(requireRole('moderator'));
 	const q = url.searchParams.get('q') ?? '';
-	return { q, members: await listMembers(q), assignable: assignableRoles(actor.role), me: actor.id };
+	const showEmail = actor.role === 'admin';
+	return { q, showEmail, members: await listMembers(q, { withEmail: showEmail }), assignable: assignableRoles(actor.role), me: actor.id };
 };
 
 const roleForm = z.object({ userId: z.string().min(1), role: z.enum(ROLES), reason: z.string().max(500).default('') });

@@ -2,6 +2,7 @@ import { json, redirect } from '@sveltejs/kit';
 import type { RequestHandler } from './$types';
 import { requireEditableBuild } from '$lib/server/builds';
 import { uploadCaller, uploadRoute } from '$lib/server/http';
+import { consumeUpload, uploadLimitSentence } from '$lib/server/rate-limit';
 import { PhotoError, addBuildPhoto, checkAlt, photoMaxBytes, toPhotoView } from '$lib/server/photos';
 import { isUuid } from '$lib/uuid';
 
@@ -20,6 +21,8 @@ export const POST: RequestHandler = async (event) => {
 		request,
 		async () => {
 			const { actor, build } = await requireEditableBuild(params.slug);
+			const budget = await consumeUpload(actor.id);
+			if (!budget.ok) throw new PhotoError(429, 'rate_limited', uploadLimitSentence(budget.retryAfterS), 'file');
 
 			const max = photoMaxBytes();
 			const declared = Number(request.headers.get('content-length') ?? 0);
@@ -32,7 +35,13 @@ export const POST: RequestHandler = async (event) => {
 			let form: FormData;
 			try {
 				form = await request.formData();
-			} catch {
+			} catch (err) {
+				// adapter-node stops reading at BODY_SIZE_LIMIT (a body sent without Content-Length): that is "too large".
+				const tooLarge = (e: unknown): boolean =>
+					!!e && ((e as { status?: number }).status === 413 || /exceeds limit/i.test(String((e as Error).message ?? '')) || tooLarge((e as Error).cause));
+				if (tooLarge(err)) {
+					throw new PhotoError(413, 'too_large', `The photo is larger than the ${Math.round(max / (1024 * 1024))} MB limit. Export it smaller and try again.`);
+				}
 				throw new PhotoError(400, 'invalid', 'The upload arrived incomplete. Try again.', '');
 			}
 

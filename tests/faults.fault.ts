@@ -1,0 +1,230 @@
+// The fault suite: real services stopped and restarted under the running app (no mocks). It runs after
+// every other end-to-end test, alone (scripts/test.js runs the "faults" project last), because it
+// stops the PostgreSQL, SMTP and S3 that the whole app uses.
+import { test, expect, request as playwrightRequest, type APIRequestContext } from '@playwright/test';
+import { spawnSync } from 'node:child_process';
+import fs from 'node:fs';
+import path from 'node:path';
+import sharp from 'sharp';
+import { DEMO_PASSWORD } from './helpers/auth';
+import { origin, uniqueTitle } from './helpers/builds';
+
+// One worker runs these in order (scripts/test.js runs this project alone); a failure does not stop the others.
+
+const viewer = () => process.env.MAIL_VIEWER_URL ?? 'http://127.0.0.1:2590';
+const formHeaders = () => ({ origin: origin(), accept: 'text/html' });
+const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
+
+async function control(name: string): Promise<void> {
+	const res = await fetch(`${viewer()}/control/${name}`, { method: 'POST' });
+	expect(res.status, `control ${name}`).toBe(204);
+}
+
+async function signedIn(email: string): Promise<APIRequestContext> {
+	const c = await playwrightRequest.newContext({ baseURL: origin() });
+	const res = await c.post('/sign-in', { form: { email, password: DEMO_PASSWORD }, headers: formHeaders(), maxRedirects: 0 });
+	expect(res.status(), `sign in ${email}`).toBe(303);
+	return c;
+}
+
+// ---- PostgreSQL control (the test cluster that scripts/test.js started) -------------------------------
+
+const pgData = () => process.env.TEST_PG_DATA ?? path.resolve('.data/test/postgres/pgdata');
+const pgBin = () => process.env.TEST_PG_BIN ?? '/usr/lib/postgresql/15/bin';
+
+function pgCtl(args: string[]) {
+	const cmd = [path.join(pgBin(), 'pg_ctl'), '-D', pgData(), ...args];
+	const full = process.getuid?.() === 0 ? ['runuser', ['-u', 'postgres', '--', ...cmd]] : [cmd[0], cmd.slice(1)];
+	const r = spawnSync(full[0] as string, full[1] as string[], { encoding: 'utf8' });
+	if (r.status !== 0) throw new Error(`pg_ctl ${args.join(' ')} failed: ${r.stdout}${r.stderr}`);
+}
+
+/** The server's own options from its last start (postmaster.opts), to start it the same way again. */
+function pgStartOptions(): string {
+	const opts = fs.readFileSync(path.join(pgData(), 'postmaster.opts'), 'utf8').trim();
+	const args = [...opts.matchAll(/"([^"]*)"/g)].map((m) => m[1]);
+	const out: string[] = [];
+	for (let i = 0; i < args.length; i++) {
+		if (args[i] === '-D') {
+			i++;
+			continue;
+		}
+		out.push(args[i]);
+	}
+	return out.join(' ');
+}
+
+test('PostgreSQL restarted mid-load: acknowledged writes kept, failures are 503 unavailable, no hang, recovery without restart', async () => {
+	test.setTimeout(180_000);
+	const member = await signedIn('ravi@starground.test');
+	const builds = (await (await member.get('/api/v1/builds?limit=5')).json()) as { items: { slug: string }[] };
+	const slug = builds.items[0].slug;
+	const draft = await member.post('/builds/new', {
+		form: { title: uniqueTitle('Fault load'), summary: 'Steps added while the database restarts.', category: 'power-amp', topology: 'class-ab-chip', licence: 'CC-BY-SA-4.0' },
+		headers: formHeaders(),
+		maxRedirects: 0
+	});
+	expect(draft.status()).toBe(303);
+	const draftSlug = draft.headers()['location'].split('/')[2];
+	const startOpts = pgStartOptions();
+
+	type Outcome = { kind: 'comment' | 'step'; text: string; key?: string; status: number; ms: number; id?: string; code?: string; retryAfter?: string };
+	const outcomes: Outcome[] = [];
+	let running = true;
+	const run = `${Date.now().toString(36)}`;
+	let n = 0;
+
+	const commentLoop = async () => {
+		while (running) {
+			const text = `Fault load ${run} #${n++}`;
+			const key = `fault-${run}-${n}`;
+			const t0 = Date.now();
+			const res = await member.post(`/api/v1/builds/${slug}/comments`, { data: { body: text }, headers: { 'idempotency-key': key }, timeout: 30_000 });
+			const body = (await res.json().catch(() => ({}))) as { id?: string; error?: { code: string } };
+			outcomes.push({ kind: 'comment', text, key, status: res.status(), ms: Date.now() - t0, id: body.id, code: body.error?.code, retryAfter: res.headers()['retry-after'] });
+			await sleep(50);
+		}
+	};
+	const stepLoop = async () => {
+		while (running) {
+			const text = `Fault step ${run} #${n++}`;
+			const t0 = Date.now();
+			const res = await member.post(`/builds/${draftSlug}/edit?/addStep`, { form: { title: text, bodyMd: 'Added under load.' }, headers: formHeaders(), timeout: 30_000, maxRedirects: 0 });
+			outcomes.push({ kind: 'step', text, status: res.status(), ms: Date.now() - t0, retryAfter: res.headers()['retry-after'] });
+			await sleep(100);
+		}
+	};
+
+	const load = Promise.all([commentLoop(), commentLoop(), stepLoop()]);
+	await sleep(1500);
+	pgCtl(['-m', 'fast', '-w', 'stop']);
+	await sleep(4000);
+	pgCtl(['-w', '-t', '30', '-l', path.join(path.dirname(pgData()), 'postgres.log'), 'start', '-o', startOpts]);
+	await sleep(2000);
+	running = false;
+	await load;
+
+	// Recovered without a restart of the app: the first request after the database is back succeeds.
+	const after = await member.get(`/api/v1/builds/${slug}/comments`);
+	expect(after.status()).toBe(200);
+	const stored = ((await after.json()) as { items: { id: string; body?: string; bodyMd?: string }[] }).items;
+	const storedIds = new Set(stored.map((c) => c.id));
+
+	const failed = outcomes.filter((o) => o.status >= 300 && o.status !== 303);
+	console.log(
+		`fault/pg: ${outcomes.length} writes, ${outcomes.filter((o) => o.status < 300 || o.status === 303).length} acknowledged, ` +
+			`${failed.length} refused (${[...new Set(failed.map((o) => o.status))].join(', ')}), slowest ${Math.max(...outcomes.map((o) => o.ms))} ms`
+	);
+	// The outage was seen, and every refusal during it was a 503 `unavailable` with Retry-After — never a 500.
+	expect(failed.length).toBeGreaterThan(0);
+	for (const o of failed) {
+		expect(o.status, `${o.kind} ${o.text}`).toBe(503);
+		expect(o.retryAfter, `${o.kind} ${o.text}`).toBeTruthy();
+		if (o.kind === 'comment') expect(o.code).toBe('unavailable');
+	}
+	// No hang: every answer came within one connect timeout (5 s) plus one statement timeout (15 s).
+	for (const o of outcomes) expect(o.ms, `${o.kind} ${o.text}`).toBeLessThan(20_000);
+	// Every acknowledged comment is stored.
+	for (const o of outcomes.filter((x) => x.kind === 'comment' && x.status === 201)) expect(storedIds.has(o.id!), o.text).toBe(true);
+	// Every comment sent again with its Idempotency-Key — refused or acknowledged the first time — ends up
+	// stored exactly once (an acknowledged one answers its first answer again).
+	for (const o of outcomes.filter((x) => x.kind === 'comment')) {
+		let res = await member.post(`/api/v1/builds/${slug}/comments`, { data: { body: o.text }, headers: { 'idempotency-key': o.key! } });
+		for (let i = 0; i < 30 && res.status() === 409; i++) {
+			await sleep(1000);
+			res = await member.post(`/api/v1/builds/${slug}/comments`, { data: { body: o.text }, headers: { 'idempotency-key': o.key! } });
+		}
+		expect(res.status(), o.text).toBe(201);
+		if (o.status === 201) {
+			expect(res.headers()['idempotent-replayed']).toBe('true');
+			expect(((await res.json()) as { id: string }).id).toBe(o.id);
+		}
+	}
+	const final = ((await (await member.get(`/api/v1/builds/${slug}/comments`)).json()) as { items: { bodyMd?: string; body?: string; bodyHtml?: string }[] }).items;
+	const texts = final.map((c) => JSON.stringify(c));
+	for (const o of outcomes.filter((x) => x.kind === 'comment')) {
+		expect(texts.filter((t) => t.includes(`${o.text}"`) || t.includes(`${o.text}<`)).length, o.text).toBe(1);
+	}
+	// Every acknowledged step is on the draft.
+	const edit = await (await member.get(`/builds/${draftSlug}/edit`)).text();
+	for (const o of outcomes.filter((x) => x.kind === 'step' && x.status === 200)) expect(edit, o.text).toContain(o.text);
+	await member.dispose();
+});
+
+test('SMTP fake stopped while mail is sent, then started again: every mail arrives once', async () => {
+	test.setTimeout(120_000);
+	const run = Date.now().toString(36);
+	const addresses = Array.from({ length: 4 }, (_, i) => `outage-${run}-${i}@example.test`);
+	await control('smtp/stop');
+	try {
+		const anon = await playwrightRequest.newContext({ baseURL: origin() });
+		for (const [i, email] of addresses.entries()) {
+			const res = await anon.post('/sign-up', {
+				form: { name: `Outage Reader ${i}`, handle: `out${run}${i}`.slice(0, 24), email, password: 'copper-bus-bar-rattle-42' },
+				headers: formHeaders(),
+				maxRedirects: 0
+			});
+			expect(res.status()).toBe(303);
+		}
+		await anon.dispose();
+		await sleep(6000);
+	} finally {
+		await control('smtp/start');
+	}
+	const until = Date.now() + 60_000;
+	const counts = () =>
+		Promise.all(addresses.map(async (a) => ((await (await fetch(`${viewer()}/messages?to=${encodeURIComponent(a)}`)).json()) as unknown[]).length));
+	let got = await counts();
+	while (got.some((c) => c < 1) && Date.now() < until) {
+		await sleep(500);
+		got = await counts();
+	}
+	await sleep(3000);
+	expect(await counts()).toEqual(addresses.map(() => 1));
+});
+
+test('S3 fake stopped: an upload answers 503 with a sentence and leaves nothing; started again, the same upload works', async () => {
+	test.setTimeout(120_000);
+	const member = await signedIn('joss@starground.test');
+	const made = await member.post('/builds/new', {
+		form: { title: uniqueTitle('Storage outage'), summary: 'Photo while storage is down.', category: 'power-amp', topology: 'class-ab-chip', licence: 'CC-BY-SA-4.0' },
+		headers: formHeaders(),
+		maxRedirects: 0
+	});
+	const slug = made.headers()['location'].split('/')[2];
+	const jpeg = await sharp({ create: { width: 800, height: 600, channels: 3, background: '#884422' } }).jpeg().toBuffer();
+	const upload = (accept: string) =>
+		member.post(`/builds/${slug}/photos`, {
+			headers: { accept, origin: origin() },
+			multipart: { file: { name: 'board.jpg', mimeType: 'image/jpeg', buffer: jpeg }, alt: 'Board under test', purpose: 'cover' },
+			maxRedirects: 0,
+			timeout: 60_000
+		});
+	// The build's cover as the API shows it to its maker: no row may appear without its stored objects.
+	const photoCount = async () => {
+		const b = (await (await member.get(`/api/v1/builds/${slug}`)).json()) as { cover?: unknown; build?: { cover?: unknown } };
+		return JSON.stringify(b.cover ?? b.build?.cover ?? null);
+	};
+	const before = await photoCount();
+
+	await control('s3/stop');
+	try {
+		const res = await upload('application/json');
+		expect(res.status()).toBe(503);
+		const body = (await res.json()) as { error: { code: string; message: string } };
+		expect(body.error.code).toBe('unavailable');
+		expect(body.error.message).toMatch(/storage is not answering/);
+		// The no-JavaScript form gets its own page with the sentence, not the framework's error page.
+		const html = await upload('text/html');
+		expect(html.status()).toBe(503);
+		expect(await html.text()).toContain('storage is not answering');
+		expect(await photoCount()).toBe(before);
+	} finally {
+		await control('s3/start');
+	}
+	const ok = await upload('application/json');
+	expect(ok.status()).toBe(201);
+	const { photo } = (await ok.json()) as { photo: { id: string } };
+	expect((await member.get(`/media/photos/${photo.id}/320.webp`)).status()).toBe(200);
+	await member.dispose();
+});

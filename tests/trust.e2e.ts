@@ -1,0 +1,406 @@
+// Account and session holes, probed over real HTTP against the running app as an attacker would.
+import { test, expect, request as playwrightRequest, type APIRequestContext } from '@playwright/test';
+import { spawn } from 'node:child_process';
+import { DEMO_PASSWORD } from './helpers/auth';
+import { waitForMail, linkIn } from './helpers/mail';
+import { origin, uniqueTitle } from './helpers/builds';
+
+const formHeaders = () => ({ origin: origin(), accept: 'text/html' });
+
+async function signedIn(email: string, password = DEMO_PASSWORD): Promise<APIRequestContext> {
+	const c = await playwrightRequest.newContext({ baseURL: origin() });
+	const res = await c.post('/sign-in', { form: { email, password }, headers: formHeaders(), maxRedirects: 0 });
+	expect(res.status(), `sign in ${email}`).toBe(303);
+	return c;
+}
+
+// Raw query-string values (hole 1 and the probe of 12a): each must keep the browser on the site, never 500.
+const HOSTILE_NEXT = [
+	'//evil.example',
+	'/%5Cevil.example',
+	'/%5C%5Cevil.example',
+	'%5C%5Cevil.example',
+	'/%09/evil.example',
+	'/%0A/evil.example',
+	'/%0D/evil.example',
+	'%09//evil.example',
+	'/%0D%0ASet-Cookie:%20x=1',
+	'/%0D%0A%0D%0A%3Cscript%3Ealert(1)%3C/script%3E',
+	'https://evil.example/',
+	'http:evil.example',
+	'https:%2F%2Fevil.example',
+	'javascript:alert(1)',
+	'JaVaScRiPt:alert(1)',
+	'data:text/html,%3Cscript%3Ealert(1)%3C/script%3E',
+	'///evil.example',
+	'/%2F/evil.example%2F..',
+	'//evil%E3%80%82example',
+	'/%E3%80%82evil.example',
+	'//%E3%80%82evil.example',
+	'/%00//evil.example',
+	'http://127.0.0.1@evil.example/',
+	'//127.0.0.1.evil.example/'
+];
+
+test.describe('open redirect after sign-in (hole 1)', () => {
+	test('a signed-in member sent to /sign-in?next=… stays on the site for 24 hostile values', async () => {
+		const c = await signedIn('aiko@starground.test');
+		expect(HOSTILE_NEXT).toHaveLength(24);
+		for (const raw of HOSTILE_NEXT) {
+			const res = await c.get(`/sign-in?next=${raw}`, { maxRedirects: 0 });
+			expect(res.status(), raw).toBe(303);
+			const location = res.headers()['location'];
+			expect(new URL(location, origin()).origin, raw).toBe(origin());
+			expect(location, raw).toMatch(/^\/[\x21-\x7e]*$/);
+		}
+		await c.dispose();
+	});
+
+	test('signing in with a hostile next stays on the site; an ordinary one is kept', async () => {
+		const c = await playwrightRequest.newContext({ baseURL: origin() });
+		for (const raw of ['/%5Cevil.example', '/%09/evil.example', '/%0D%0ASet-Cookie:%20x=1', '/%E3%80%82evil.example']) {
+			const res = await c.post(`/sign-in?next=${raw}`, {
+				form: { email: 'aiko@starground.test', password: DEMO_PASSWORD },
+				headers: formHeaders(),
+				maxRedirects: 0
+			});
+			expect(res.status(), raw).toBe(303);
+			expect(new URL(res.headers()['location'], origin()).origin).toBe(origin());
+			await c.post('/sign-out', { form: {}, headers: formHeaders(), maxRedirects: 0 });
+		}
+		const ok = await c.post(`/sign-in?next=${encodeURIComponent('/builds?sort=new')}`, {
+			form: { email: 'aiko@starground.test', password: DEMO_PASSWORD },
+			headers: formHeaders(),
+			maxRedirects: 0
+		});
+		expect(ok.headers()['location']).toBe('/builds?sort=new');
+		await c.dispose();
+	});
+});
+
+test.describe('the auth library\'s own endpoints (hole 5)', () => {
+	test('update-user and sign-up over HTTP are gone; nothing is created', async ({ request }) => {
+		const c = await signedIn('ravi@starground.test');
+		const big = await c.post('/api/auth/update-user', {
+			data: { name: 'x'.repeat(60_000) },
+			headers: { origin: origin() }
+		});
+		expect(big.status()).toBe(404);
+		const email = `nohandle-${Date.now().toString(36)}@example.test`;
+		const up = await request.post('/api/auth/sign-up/email', {
+			data: { name: 'No Handle', email, password: 'copper-bus-bar-rattle-42' },
+			headers: { origin: origin() }
+		});
+		expect(up.status()).toBe(404);
+		const signIn = await request.post('/api/auth/sign-in/email', {
+			data: { email, password: 'copper-bus-bar-rattle-42' },
+			headers: { origin: origin() }
+		});
+		expect(signIn.status()).toBe(401);
+		await c.dispose();
+	});
+});
+
+test.describe('JSON API writes and body caps (hole 6)', () => {
+	test('a write that is not application/json gets 415; one over 64 KB gets 413, in the envelope', async ({ request }) => {
+		const c = await signedIn('ravi@starground.test');
+		const plain = await c.post('/api/v1/reports', {
+			data: '{"targetKind":"build","targetId":"x","reason":"spam"}',
+			headers: { origin: origin(), 'content-type': 'text/plain' }
+		});
+		expect(plain.status()).toBe(415);
+		expect(await plain.json()).toMatchObject({ error: { code: 'invalid', message: expect.stringMatching(/application\/json/) } });
+		const huge = await c.post('/api/v1/reports', {
+			data: JSON.stringify({ reason: 'x'.repeat(70 * 1024) }),
+			headers: { origin: origin(), 'content-type': 'application/json' }
+		});
+		expect(huge.status()).toBe(413);
+		expect(await huge.json()).toMatchObject({ error: { code: 'too_large', message: expect.stringMatching(/too large/) } });
+		// A cross-site form post (no-cors) is refused before any route sees it.
+		const cross = await request.post('/api/v1/reports', {
+			form: { reason: 'spam' },
+			headers: { origin: 'https://evil.example' }
+		});
+		expect(cross.status()).toBe(403);
+		await c.dispose();
+	});
+});
+
+test.describe('Content-Security-Policy (hole 7)', () => {
+	test('pages carry a policy that loads images from this site and data: only', async ({ page }) => {
+		const violations: string[] = [];
+		page.on('console', (m) => {
+			if (/Content Security Policy/i.test(m.text())) violations.push(m.text());
+		});
+		const res = await page.goto('/');
+		const csp = res?.headers()['content-security-policy'] ?? '';
+		expect(csp).toContain("img-src 'self' data:");
+		expect(csp).toContain("script-src 'self'");
+		expect(csp).toContain("frame-ancestors 'none'");
+		await page.goto('/builds');
+		await page.goto('/tools');
+		expect(violations).toEqual([]);
+	});
+});
+
+test.describe('members page (hole 8)', () => {
+	test('moderators do not see members\' e-mail addresses; admins do', async () => {
+		const mod = await signedIn('tomas@starground.test');
+		const modHtml = await (await mod.get('/admin/members')).text();
+		expect(modHtml).toContain('data-member=');
+		expect(modHtml).not.toMatch(/[a-z]+@starground\.test/);
+		// Nor can a moderator find members by e-mail.
+		const found = await (await mod.get('/admin/members?q=ilse%40starground')).text();
+		expect(found).not.toContain('data-member=');
+		const admin = await signedIn('ilse@starground.test');
+		expect(await (await admin.get('/admin/members')).text()).toContain('joss@starground.test');
+		await mod.dispose();
+		await admin.dispose();
+	});
+});
+
+test.describe('drafts stay absent (hole 9)', () => {
+	test('another member and a moderator get 404 for actions on a draft, as for a build that does not exist', async () => {
+		const owner = await signedIn('joss@starground.test');
+		const made = await owner.post('/builds/new', {
+			form: {
+				title: uniqueTitle('Absent draft'),
+				summary: 'A draft nobody else may know about.',
+				category: 'power-amp',
+				topology: 'class-ab-chip',
+				licence: 'CC-BY-SA-4.0'
+			},
+			headers: formHeaders(),
+			maxRedirects: 0
+		});
+		expect(made.status()).toBe(303);
+		const slug = made.headers()['location'].split('/')[2];
+		const other = await signedIn('aiko@starground.test');
+		const mod = await signedIn('tomas@starground.test');
+		const probe = async (c: APIRequestContext, s: string, path: string, form: Record<string, string>) =>
+			(await c.post(`/builds/${s}${path}`, { form, headers: formHeaders(), maxRedirects: 0 })).status();
+		for (const [path, form] of [
+			['/edit?/addStep', { title: 'Sneaky', bodyMd: 'x' }],
+			['/edit?/publish', {}],
+			['/edit/specs?/save', { kind: 'supply' }],
+			['?/lock', { locked: 'true', reason: 'Probing a draft' }]
+		] as const) {
+			const missing = await probe(other, 'no-such-build-anywhere', path, form);
+			expect(await probe(other, slug, path, form), `${path} (other maker)`).toBe(missing);
+			expect(await probe(mod, slug, path, form), `${path} (moderator)`).toBe(404);
+		}
+		for (const c of [owner, other, mod]) await c.dispose();
+	});
+});
+
+test.describe('unsubscribe (hole 10)', () => {
+	test('opening the link changes nothing; RFC 8058 one-click POST turns the mail off', async () => {
+		// A reply notification to aiko: she comments on joss's published build, joss replies.
+		const aiko = await signedIn('aiko@starground.test');
+		const joss = await signedIn('joss@starground.test');
+		const list = (await (await aiko.get('/api/v1/builds?maker=joss')).json()) as { items: { slug: string; maker: { handle: string } }[] };
+		const target = list.items.find((b) => b.maker.handle === 'joss');
+		expect(target).toBeTruthy();
+		const posted = await aiko.post(`/api/v1/builds/${target!.slug}/comments`, {
+			data: { body: `Which fuse rating did you settle on? ${Date.now()}` },
+			headers: { origin: origin() }
+		});
+		expect(posted.status()).toBe(201);
+		const comment = (await posted.json()) as { id: string };
+		const reply = await joss.post(`/api/v1/builds/${target!.slug}/comments`, {
+			data: { body: 'T2A slow-blow for this transformer.', parentId: comment.id },
+			headers: { origin: origin() }
+		});
+		expect(reply.status()).toBe(201);
+		const mail = await waitForMail('aiko@starground.test', /replied to your comment/);
+		expect(mail.rawHeaders['list-unsubscribe-post']).toBe('List-Unsubscribe=One-Click');
+		const oneClick = mail.rawHeaders['list-unsubscribe'].replace(/^<|>$/g, '');
+		expect(new URL(oneClick).pathname).toBe('/unsubscribe/one-click');
+		const replyOn = async () => /name="notifyReply"[^>]*checked/.test(await (await aiko.get('/account')).text());
+		// A scanner opening the links changes nothing.
+		const anon = await playwrightRequest.newContext({ baseURL: origin() });
+		expect((await anon.get(linkIn(mail, '/unsubscribe?token='))).status()).toBe(200);
+		expect((await anon.get(oneClick)).status()).toBe(200);
+		expect(await replyOn()).toBe(true);
+		// The mail client's one-click POST (from no page: no Origin) does.
+		const post = await anon.post(oneClick, { data: 'List-Unsubscribe=One-Click', headers: { 'content-type': 'application/x-www-form-urlencoded' } });
+		expect(post.status()).toBe(200);
+		expect(await replyOn()).toBe(false);
+		// Switched back on for the other tests (the account form holds every switch).
+		const again = await anon.post(linkIn(mail, '/unsubscribe?token=').replace('/unsubscribe?', '/unsubscribe?/resubscribe&'), {
+			form: { token: new URL(oneClick).searchParams.get('token')! },
+			headers: formHeaders()
+		});
+		expect(again.status()).toBe(200);
+		expect(await replyOn()).toBe(true);
+		for (const c of [aiko, joss, anon]) await c.dispose();
+	});
+});
+
+test.describe('account forms (holes 2, 3, 11)', () => {
+	test('sign-up with an address that has an account answers like a new one', async ({ page }) => {
+		await page.goto('/sign-up');
+		await page.getByLabel('Display name').fill('Copycat');
+		await page.getByLabel('Handle').fill(`cc${Date.now().toString(36)}`);
+		await page.getByLabel('E-mail').fill('maren@starground.test');
+		await page.getByLabel('Password').fill('copper-bus-bar-rattle-42');
+		await page.getByRole('button', { name: 'Create account' }).click();
+		await expect(page.getByRole('heading', { name: 'Check your mail' })).toBeVisible();
+		const mail = await waitForMail('maren@starground.test', /Someone tried to create/);
+		expect(mail.text).toContain('nothing was created');
+	});
+
+	test('a lost confirmation mail can be sent again from the resend page', async ({ page }) => {
+		const email = `lost-${Date.now().toString(36)}@example.test`;
+		await page.goto('/sign-up');
+		await page.getByLabel('Display name').fill('Lost Lena');
+		await page.getByLabel('Handle').fill(`ll${Date.now().toString(36)}`);
+		await page.getByLabel('E-mail').fill(email);
+		await page.getByLabel('Password').fill('copper-bus-bar-rattle-42');
+		await page.getByRole('button', { name: 'Create account' }).click();
+		await waitForMail(email, /Confirm your e-mail/);
+		await page.getByRole('link', { name: 'send the link again' }).click();
+		await expect(page.getByLabel('E-mail')).toHaveValue(email);
+		await page.getByRole('button', { name: 'Send the link again' }).click();
+		await expect(page.getByText('a new link is on its way')).toBeVisible();
+		const until = Date.now() + 15_000;
+		let count = 0;
+		while (Date.now() < until && count < 2) {
+			const res = await fetch(`${process.env.MAIL_VIEWER_URL ?? 'http://127.0.0.1:2590'}/messages?to=${encodeURIComponent(email)}`);
+			count = ((await res.json()) as unknown[]).length;
+			await new Promise((r) => setTimeout(r, 250));
+		}
+		expect(count).toBe(2);
+	});
+
+	test('a common password is refused with a sentence', async ({ page }) => {
+		await page.goto('/sign-up');
+		await page.getByLabel('Display name').fill('Weak Wanda');
+		await page.getByLabel('Handle').fill(`ww${Date.now().toString(36)}`);
+		await page.getByLabel('E-mail').fill(`weak-${Date.now().toString(36)}@example.test`);
+		await page.getByLabel('Password').fill('password1234');
+		await page.getByRole('button', { name: 'Create account' }).click();
+		await expect(page.getByText('This password is too easy to guess')).toBeVisible();
+	});
+});
+
+test('the server refuses to start without a BETTER_AUTH_SECRET of 32 characters (hole 4)', async () => {
+	for (const secret of ['', 'short-secret']) {
+		const child = spawn(process.execPath, ['build'], {
+			env: { ...process.env, BETTER_AUTH_SECRET: secret, PORT: '0', SEED_DEMO: 'false', MAIL_WORKER: 'off', NODE_ENV: 'production' },
+			stdio: ['ignore', 'pipe', 'pipe']
+		});
+		let out = '';
+		child.stdout.on('data', (d) => (out += d));
+		child.stderr.on('data', (d) => (out += d));
+		const code = await new Promise<number | null>((resolve) => {
+			const t = setTimeout(() => {
+				child.kill('SIGKILL');
+				resolve(null);
+			}, 20_000);
+			child.once('exit', (c) => {
+				clearTimeout(t);
+				resolve(c);
+			});
+		});
+		expect(code, out).not.toBe(0);
+		expect(code, out).not.toBeNull();
+		expect(out).toMatch(/BETTER_AUTH_SECRET must be set/);
+	}
+});
+
+test.describe('photos of drafts (12b)', () => {
+	test('are served to those who may see the draft, privately; once published, to everyone and cacheable', async () => {
+		const sharp = (await import('sharp')).default;
+		const owner = await signedIn('joss@starground.test');
+		const made = await owner.post('/builds/new', {
+			form: { title: uniqueTitle('Photo draft'), summary: 'Draft with a photo.', category: 'power-amp', topology: 'class-ab-chip', licence: 'CC-BY-SA-4.0' },
+			headers: formHeaders(),
+			maxRedirects: 0
+		});
+		const slug = made.headers()['location'].split('/')[2];
+		const jpeg = await sharp({ create: { width: 640, height: 480, channels: 3, background: '#336699' } }).jpeg().toBuffer();
+		const up = await owner.post(`/builds/${slug}/photos`, {
+			headers: { accept: 'application/json', origin: origin() },
+			multipart: { file: { name: 'board.jpg', mimeType: 'image/jpeg', buffer: jpeg }, alt: 'The board', purpose: 'cover' }
+		});
+		expect(up.status()).toBe(201);
+		const { photo } = (await up.json()) as { photo: { id: string } };
+		const media = `/media/photos/${photo.id}/320.webp`;
+
+		const anon = await playwrightRequest.newContext({ baseURL: origin() });
+		const other = await signedIn('aiko@starground.test');
+		const mod = await signedIn('tomas@starground.test');
+		for (const c of [anon, other, mod]) expect((await c.get(media)).status()).toBe(404);
+		const mine = await owner.get(media);
+		expect(mine.status()).toBe(200);
+		expect(mine.headers()['cache-control']).toMatch(/^private/);
+		expect(mine.headers()['cache-control']).not.toContain('immutable');
+
+		const step = await owner.post(`/builds/${slug}/edit?/addStep`, { form: { title: 'Heatsink', bodyMd: 'Tab at V−.' }, headers: formHeaders() });
+		expect(step.status()).toBe(200);
+		const pub = await owner.post(`/builds/${slug}/edit?/publish`, { form: {}, headers: formHeaders(), maxRedirects: 0 });
+		expect([200, 303]).toContain(pub.status());
+		const open = await anon.get(media);
+		expect(open.status()).toBe(200);
+		expect(open.headers()['cache-control']).toBe('public, max-age=31536000, immutable');
+		for (const c of [owner, anon, other, mod]) await c.dispose();
+	});
+});
+
+test.describe('control characters at every entry point (12a)', () => {
+	test('a NUL byte never gives a 500: anonymous reads', async ({ request }) => {
+		for (const path of [
+			'/search?q=%00',
+			'/search?q=amp%00lifier',
+			'/api/v1/builds?q=%00',
+			'/api/v1/builds?category=%00&maker=%00',
+			'/api/v1/search/suggest?q=%00',
+			'/builds?q=%00&sort=%00',
+			'/builds/%00',
+			'/makers/%00',
+			'/api/v1/builds/%00',
+			'/api/v1/builds/%00/parts.csv',
+			'/feed.xml?x=%00',
+			'/categories/%00/feed.xml',
+			'/media/photos/%00/320.webp',
+			'/sign-in?next=%00'
+		]) {
+			const res = await request.get(path, { maxRedirects: 0 });
+			expect(res.status(), path).toBeLessThan(500);
+			expect(await res.text(), path).not.toMatch(/at .*\.js:\d+/);
+		}
+	});
+
+	test('a NUL byte never gives a 500: forms and API writes store the text without it', async ({ request }) => {
+		const c = await signedIn('ravi@starground.test');
+		const statuses: Record<string, number> = {};
+		statuses['sign-in'] = (await request.post('/sign-in', { form: { email: 'a\u0000@example.test', password: 'x\u0000' }, headers: formHeaders(), maxRedirects: 0 })).status();
+		statuses['sign-up'] = (
+			await request.post('/sign-up', {
+				form: { name: 'Nul\u0000 Person', handle: 'nul\u0000x', email: 'nul\u0000@example.test', password: 'copper\u0000-bus-bar-rattle' },
+				headers: formHeaders(),
+				maxRedirects: 0
+			})
+		).status();
+		statuses['forgot'] = (await request.post('/forgot-password', { form: { email: 'x\u0000@example.test' }, headers: formHeaders() })).status();
+		statuses['resend'] = (await request.post('/sign-up/resend', { form: { email: 'x\u0000@example.test' }, headers: formHeaders() })).status();
+		statuses['spec-check'] = (await request.post('/api/v1/spec-check', { data: { kind: 'supply\u0000', data: { x: '\u0000' } } })).status();
+		statuses['tools'] = (await request.post('/api/v1/tools/eseries', { data: { valueOhm: '\u0000', series: 'E12\u0000' } })).status();
+		statuses['report'] = (await c.post('/api/v1/reports', { data: { targetKind: 'build\u0000', targetId: '\u0000', reason: 'spam\u0000' } })).status();
+		const made = await c.post('/builds/new', {
+			form: { title: uniqueTitle('Nul\u0000 title'), summary: 'Sum\u0000mary', category: 'power-amp', topology: 'class-ab-chip', licence: 'CC-BY-SA-4.0' },
+			headers: formHeaders(),
+			maxRedirects: 0
+		});
+		statuses['new build'] = made.status();
+		const slug = made.headers()['location']?.split('/')[2];
+		statuses['step'] = (await c.post(`/builds/${slug}/edit?/addStep`, { form: { title: 'Ste\u0000p', bodyMd: 'Bo\u0000dy' }, headers: formHeaders() })).status();
+		for (const [what, s] of Object.entries(statuses)) expect(s, what).toBeLessThan(500);
+		expect(made.status()).toBe(303);
+		const page = await (await c.get(`/builds/${slug}/edit`)).text();
+		expect(page).toContain('Nul title');
+		expect(page).not.toContain('\u0000');
+		await c.dispose();
+	});
+});
