@@ -123,8 +123,12 @@ export async function listOwnBuilds(ownerId: string, dbx: DbLike = db) {
 		.select({
 			slug: schema.build.slug,
 			title: schema.build.title,
+			id: schema.build.id,
 			status: schema.build.status,
 			revision: schema.build.revision,
+			locked: schema.build.locked,
+			pendingChangesAt: schema.build.pendingChangesAt,
+			derivedFromId: schema.build.derivedFromId,
 			updatedAt: schema.build.updatedAt
 		})
 		.from(schema.build)
