@@ -7,7 +7,7 @@ import { buildSchema, type BuildInput } from '$lib/schemas/build';
 import type { Actor } from '../actor';
 import { assertCanEdit } from './access';
 import { nextFreeSlug, slugify } from './slug';
-import { recordRevision } from './revisions';
+import { createRevision, markPendingChanges, REVISION_NOTE_MAX } from './revisions';
 import { refreshSearchText } from './search';
 import { inTx, pgCode } from '../db/tx';
 
@@ -72,8 +72,8 @@ export async function createDraft(
 
 /**
  * Change a build's fields (owner or admin; not while locked). While a build has never been
- * published its slug follows its title; after that the URL stays put. A published build gets a
- * new revision. → { slug, revision } (revision null when none was recorded)
+ * published its slug follows its title; after that the URL stays put. On a published build the
+ * change joins its pending changes (markPendingChanges). → { slug, revision } (revision always null now)
  */
 export async function updateBuild(
 	actor: Actor,
@@ -98,17 +98,18 @@ export async function updateBuild(
 		} else {
 			await write(t, b.slug);
 		}
-		const rev = await recordRevision(t, buildId, actor.id);
-		return { slug, revision: rev?.number ?? null };
+		await markPendingChanges(t, buildId);
+		return { slug, revision: null };
 	});
 }
 
 /**
  * Publish a draft, or publish again an archived build (owner or admin). Needs at least one step.
- * The first publication is r1; publishing again after archiving records a revision only if the
- * content changed meanwhile. → the revision number now current.
+ * The first publication is Rev A; publishing again after archiving records a revision only if the
+ * content changed meanwhile. `note` is the optional change note of that revision. → the revision number now current.
  */
-export async function publish(actor: Actor, buildId: string, tx?: Tx): Promise<number> {
+export async function publish(actor: Actor, buildId: string, tx?: Tx, note = ''): Promise<number> {
+	if (note.length > REVISION_NOTE_MAX) error(422, `Keep the note under ${REVISION_NOTE_MAX} characters.`);
 	return inTx(tx, async (t) => {
 		const b = await lockBuild(t, buildId);
 		assertCanEdit(actor, b);
@@ -121,7 +122,7 @@ export async function publish(actor: Actor, buildId: string, tx?: Tx): Promise<n
 			.set({ status: 'published', publishedAt: b.publishedAt ?? now, updatedAt: now })
 			.where(eq(schema.build.id, buildId));
 		await refreshSearchText(t, buildId);
-		const rev = await recordRevision(t, buildId, actor.id);
+		const rev = await createRevision(t, buildId, actor.id, note);
 		return rev?.number ?? b.revision;
 	});
 }

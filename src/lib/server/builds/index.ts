@@ -13,3 +13,4 @@ export * from './derive';
 export * from './queries';
 export * from './api';
 export * from './editable';
+export * from './revision-diff';

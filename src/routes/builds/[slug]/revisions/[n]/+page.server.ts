@@ -20,7 +20,7 @@ export const load: PageServerLoad = async ({ params, locals }) => {
 	const photos = new Map(rows.map((p) => [p.id, toPhotoView(p)]));
 	return {
 		build: { slug: b.slug, title: b.title, revision: b.revision },
-		revision: { number: rev.number, summary: rev.summary, createdAt: rev.createdAt, authorName: rev.authorName },
+		revision: { number: rev.number, summary: rev.summary, note: rev.note, createdAt: rev.createdAt, authorName: rev.authorName },
 		snapshot: {
 			build: snap.build,
 			steps: snap.steps.map((s) => ({
