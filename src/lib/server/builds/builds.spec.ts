@@ -403,6 +403,27 @@ describe('derive', () => {
 		expect(await buildRow(d.id)).toMatchObject({ title, derivedFromId: o.id });
 		expect((await buildRow(o.id)).derivedCount).toBe(1);
 	});
+
+	it('a build based on a share-alike build keeps its licence; one based on a permissive build may change it', async () => {
+		const sa = await createDraft(maker.id, fields());
+		await addStep(maker, sa.id, { title: 'S', bodyMd: '' });
+		await publish(maker, sa.id);
+		const d = await derive(other, sa.id);
+		const row = await buildRow(d.id);
+		expect(row.licence).toBe('CC-BY-SA-4.0');
+		const input = { title: row.title, summary: '', category: 'power-amp' as const, topology: 'class-ab-chip' as const, mainsPowered: true };
+		expect(await statusOf(updateBuild(other, d.id, { ...input, licence: 'CC-BY-4.0' }))).toBe(422);
+		expect(await statusOf(updateBuild(other, d.id, { ...input, licence: 'CC0-1.0' }))).toBe(422);
+		expect((await buildRow(d.id)).licence).toBe('CC-BY-SA-4.0');
+		await updateBuild(other, d.id, { ...input, licence: 'CC-BY-SA-4.0' });
+
+		const by = await createDraft(maker.id, { ...fields(), licence: 'CC-BY-4.0' });
+		await addStep(maker, by.id, { title: 'S', bodyMd: '' });
+		await publish(maker, by.id);
+		const d2 = await derive(other, by.id);
+		await updateBuild(other, d2.id, { ...input, title: (await buildRow(d2.id)).title, licence: 'CC0-1.0' });
+		expect((await buildRow(d2.id)).licence).toBe('CC0-1.0');
+	});
 });
 
 describe('published list and detail', () => {

@@ -4,6 +4,8 @@ import { count, eq, like, or } from 'drizzle-orm';
 import * as schema from '../db/schema';
 import type { Tx } from '../db';
 import { buildSchema, type BuildInput } from '$lib/schemas/build';
+import { allowedLicencesFor } from '$lib/licences';
+import { LICENCE_LABELS, labelOf } from '$lib/labels';
 import type { Actor } from '../actor';
 import { assertCanEdit } from './access';
 import { nextFreeSlug, slugify } from './slug';
@@ -85,6 +87,7 @@ export async function updateBuild(
 	return inTx(tx, async (t) => {
 		const b = await lockBuild(t, buildId);
 		assertCanEdit(actor, b);
+		await assertLicenceAllowed(t, b, data.licence);
 		let slug = b.slug;
 		const write = async (w: Tx, newSlug: string) => {
 			await w
@@ -101,6 +104,23 @@ export async function updateBuild(
 		await markPendingChanges(t, buildId);
 		return { slug, revision: null };
 	});
+}
+
+/**
+ * A build based on another follows the origin's licence terms: under a share-alike licence it keeps that
+ * licence (see $lib/licences). 422 with a sentence otherwise; a build without an origin may take any.
+ */
+async function assertLicenceAllowed(t: Tx, b: schema.Build, licence: string): Promise<void> {
+	if (!b.derivedFromId || licence === b.licence) return;
+	const [origin] = await t.select({ licence: schema.build.licence, title: schema.build.title }).from(schema.build).where(eq(schema.build.id, b.derivedFromId));
+	if (!origin) return;
+	const allowed = allowedLicencesFor(origin.licence);
+	if (!allowed.includes(licence as (typeof allowed)[number])) {
+		error(
+			422,
+			`This build is based on “${origin.title}”, shared under ${labelOf(LICENCE_LABELS, origin.licence)}: a build based on it keeps that licence (share alike).`
+		);
+	}
 }
 
 /**

@@ -119,7 +119,7 @@ export async function createRevision(
 	await tx.update(schema.build).set({ pendingChangesAt: null }).where(eq(schema.build.id, buildId));
 	if (prev && diffSnapshots(prev, snapshot).length === 0) return null;
 	const number = Math.max(b.revision, last?.number ?? 0) + 1;
-	const summary = note?.trim() || summarize(prev, snapshot);
+	const summary = summarize(prev, snapshot);
 	await tx.insert(schema.buildRevision).values({
 		buildId,
 		number,

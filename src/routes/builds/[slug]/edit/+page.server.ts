@@ -7,6 +7,7 @@ import {
 	archive,
 	deleteStep,
 	loadBuildContent,
+	loadLineage,
 	moveStep,
 	pendingChanges,
 	publish,
@@ -21,15 +22,21 @@ import {
 import { attempt } from '$lib/server/http';
 import { buildSchema, stepSchema, type BuildInput } from '$lib/schemas/build';
 import { revisionLabel } from '$lib/revision-label';
+import { allowedLicencesFor, isShareAlike, needsAttribution } from '$lib/licences';
+import { LICENCE_LABELS, labelOf } from '$lib/labels';
+import { actorOf } from '$lib/server/actor';
 import type { Actions, PageServerLoad } from './$types';
 
-export const load: PageServerLoad = async ({ params, url }) => {
+export const load: PageServerLoad = async ({ params, url, locals }) => {
 	const { build: b } = await requireEditableBuild(params.slug, { forView: true });
-	const [content, pending, signedOff] = await Promise.all([
+	const [content, pending, signedOff, lineage] = await Promise.all([
 		loadBuildContent(b),
 		b.revision > 0 ? pendingChanges(b.id) : null,
-		b.revision > 0 ? wasSignedOff(b.id) : false
+		b.revision > 0 ? wasSignedOff(b.id) : false,
+		b.derivedFromId ? loadLineage(b, actorOf(locals.user)) : null
 	]);
+	const origin = lineage?.derivedFrom ?? null;
+	const licences = allowedLicencesFor(origin?.licence);
 	const fields: BuildInput = {
 		title: b.title,
 		summary: b.summary,
@@ -58,6 +65,12 @@ export const load: PageServerLoad = async ({ params, url }) => {
 		/** A reviewer signed it off once: a change note is then required. */
 		noteRequired: signedOff,
 		noteMax: REVISION_NOTE_MAX,
+		licences,
+		licenceNote: origin
+			? isShareAlike(origin.licence)
+				? `Based on “${origin.title}” by ${origin.makerName}, shared under ${labelOf(LICENCE_LABELS, origin.licence)}: a build based on it keeps that licence (share alike), and credits it.`
+				: `Based on “${origin.title}” by ${origin.makerName} (${labelOf(LICENCE_LABELS, origin.licence)}): choose any licence${needsAttribution(origin.licence) ? '; the build page credits the original' : ''}.`
+			: null,
 		notice: url.searchParams.has('started')
 			? 'Your draft is ready, based on the original: it starts with its parts list and spec blocks. Write your own steps, then publish.'
 			: url.searchParams.has('created')
