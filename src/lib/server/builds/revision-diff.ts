@@ -159,7 +159,8 @@ export function diffRevisions(prev: BuildSnapshot, next: BuildSnapshot): Revisio
 	});
 
 	const parts: ListItemDiff[] = pairUp(prev.parts, next.parts, partContent, (p) => `${p.designators}|${p.kind}`).map(({ before, after }) => {
-		const changes = PART_FIELDS.filter(([k]) => stableJson(before?.[k] ?? null) !== stableJson(after?.[k] ?? null)).map(([k, name]) => ({
+		// Compared as shown: an empty text and no value are the same to a reader.
+		const changes = PART_FIELDS.filter(([k]) => show(before?.[k]) !== show(after?.[k])).map(([k, name]) => ({
 			name,
 			before: show(before?.[k]),
 			after: show(after?.[k])
