@@ -96,8 +96,12 @@ test.describe.serial('build journal', () => {
 		expect(res?.status()).toBe(404);
 		await anon.close();
 
-		await page.getByRole('button', { name: 'Publish build' }).click();
-		await expect(page).toHaveURL(new RegExp(`/builds/${slug}$`), { timeout: 30_000 });
+		// Publishing asks first, with room for a note on Rev A.
+		await page.locator('[data-publish-confirm] summary').click();
+		await page.getByLabel('Note for the revision (optional)').fill('First build, both channels working.');
+		await page.getByRole('button', { name: 'Yes, publish now' }).click();
+		await expect(page).toHaveURL(new RegExp(`/builds/${slug}\\?published=1$`), { timeout: 30_000 });
+		await expect(page.getByText('Published as Rev A: everyone can read it now.')).toBeVisible();
 		await expect(page.locator('[data-status="published"]')).toBeVisible();
 		await expect(page.getByRole('link', { name: 'Rev A', exact: true })).toBeVisible();
 		expect(dialogs).toEqual([]);

@@ -114,6 +114,11 @@ test('ask for review → hazard tags and send-back → mail → fixed and edited
 	await addStep.getByLabel('Text (Markdown)').fill('Mica with grease on both faces; measured open circuit tab to chassis.');
 	await addStep.getByRole('button', { name: 'Add step' }).click();
 	await expect(joss.getByRole('heading', { name: /Step 3\s*Tab insulation/ })).toBeVisible();
+	// The edit is a pending change until the maker publishes it as a revision with a note.
+	await expect(joss.locator('[data-pending-changes]')).toContainText('1 step added');
+	await joss.locator('#revision-note').fill('Tab insulation step added.');
+	await joss.getByRole('button', { name: /Publish changes as Rev B/ }).click();
+	await expect(joss.getByText(/Published as Rev B/)).toBeVisible();
 	await joss.goto(buildUrl, { waitUntil: 'networkidle' });
 	await expect(joss.locator('#review-state [data-review-label]')).toHaveText(/Edited since send-back at Rev A/);
 	await joss.locator('#review-state').getByRole('button', { name: 'Ask for review again' }).click();

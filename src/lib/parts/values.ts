@@ -12,6 +12,7 @@
  * - a resistor position bridged by a wire: kind "jumper", or value `0R`, `0`, `link`, `jumper`.
  */
 import { formatValue, networkValue, parseValue, type NetworkPart, type ValueKind, type ValueUnit } from '$lib/engineering';
+import { decodeCapacitorCode, decodeVoltageCodedMarking, expandCount } from '$lib/engineering/trade-notation';
 
 const NETWORK_PART: Record<ValueKind, NetworkPart> = { resistance: 'resistor', capacitance: 'capacitor', inductance: 'inductor' };
 const UNIT_OF: Record<ValueKind, ValueUnit> = { resistance: 'ohm', capacitance: 'F', inductance: 'H' };
@@ -34,6 +35,29 @@ export interface ParsedPartValue {
 const JUMPER_WORDS = /^(jumper|link|wire|wire link|bridge|0r|0r0|0|0 ?[ωΩ]|0 ?ohms?)$/i;
 const RATING_TAIL = /(?:\s*\/\s*|\s+)(\d+(?:\.\d+)?)\s*(k?)V(?:DC)?$/i;
 const TOLERANCE_TAIL = /(?:\s+|\s*(?:±|\+\/-|\+-)\s*)(\d+(?:\.\d+)?)\s*%$/;
+
+/**
+ * A capacitor marking (decoded) or a count rewritten as a network ("2×1u series" → "1u+1u"); null when the
+ * text is neither. Throws RangeError with the reason when it looks like one but cannot be read.
+ */
+function readTradeNotation(
+	core: string,
+	kind: ValueKind,
+	text: string
+): { value: number; ratingV?: number; tolerancePct?: number } | { core: string } | null {
+	if (kind === 'capacitance') {
+		const coded = decodeVoltageCodedMarking(core);
+		if (coded) return { value: coded.value, ratingV: coded.ratingV, tolerancePct: coded.tolerancePct };
+		const code = decodeCapacitorCode(core);
+		if (code) return code;
+	}
+	try {
+		const counted = expandCount(core);
+		return counted ? { core: counted.text } : null;
+	} catch (e) {
+		throw new RangeError(`"${text}": ${(e as Error).message.replace(/^"[^"]*": /, '')}`);
+	}
+}
 
 /** Split "100u/63V 10%" into the value text and its rating and tolerance tails. */
 function splitTails(text: string): { core: string; ratingV?: number; tolerancePct?: number } {
@@ -64,7 +88,16 @@ function splitTails(text: string): { core: string; ratingV?: number; tolerancePc
  * sentence a maker can act on.
  */
 export function parsePartValue(text: string, kind: ValueKind): ParsedPartValue {
-	const { core, ratingV, tolerancePct } = splitTails(text);
+	const tails = splitTails(text);
+	const { ratingV, tolerancePct } = tails;
+	// More of the trade's notation ($lib/engineering/trade-notation): "2A104J", "472J 100V", "2×10000u".
+	const trade = readTradeNotation(tails.core, kind, text);
+	if (trade && 'value' in trade) {
+		const rV = ratingV ?? trade.ratingV;
+		const tol = tolerancePct ?? trade.tolerancePct;
+		return { value: trade.value, unit: 'F', parts: 1, ...(rV !== undefined ? { ratingV: rV } : {}), ...(tol !== undefined ? { tolerancePct: tol } : {}) };
+	}
+	const core = trade?.core ?? tails.core;
 	if (tolerancePct !== undefined && !(tolerancePct > 0 && tolerancePct <= 100))
 		throw new RangeError(`"${text}": a tolerance must be above 0 % and at most 100 %`);
 	if (ratingV !== undefined && !(ratingV > 0 && ratingV <= 100_000))

@@ -7,6 +7,7 @@ import * as schema from './db/schema';
 import { createTestUser, removeTestUsers } from './testing/builds';
 import { AMP, SUPPLY, statusOf, testBuild } from './testing/parts';
 import { buildCrossChecks, deleteSpecBlock, moveSpecBlock, saveSpecBlock, validateSpec } from './specs';
+import { pendingChanges, publishRevision } from './builds';
 
 type TestUser = Awaited<ReturnType<typeof createTestUser>>;
 let maker: TestUser, other: TestUser, admin: TestUser;
@@ -124,10 +125,12 @@ describe('cross checks', () => {
 		expect(await buildCrossChecks(b.id)).toEqual([]);
 	});
 
-	it('records a revision when a published build’s block changes', async () => {
+	it('a published build’s block change joins the pending changes; published, it is one revision', async () => {
 		const b = await testBuild(maker.id, { published: true });
 		const r = await saveSpecBlock(maker, b.id, { kind: 'thermal', data: { powerW: 20, ambientC: 40, junctionMaxC: 150, rthJcKPerW: 1, rthCsKPerW: 0.4, rthSaKPerW: 2, tabAtRail: true, tabInsulated: true, heatsinkBondedToChassis: true } });
-		expect(r.ok && r.revision).toBe(2);
+		expect(r.ok && r.revision).toBe(null);
+		expect((await pendingChanges(b.id)).changes).toEqual(['spec blocks: 1 added']);
+		await publishRevision(maker, b.id, 'Thermal block');
 		const revs = await db.select().from(schema.buildRevision).where(eq(schema.buildRevision.buildId, b.id)).orderBy(asc(schema.buildRevision.number));
 		expect(revs.map((x) => x.number)).toEqual([1, 2]);
 		expect(revs[1].summary).toContain('spec blocks: 1 added');

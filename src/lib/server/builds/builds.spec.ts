@@ -19,8 +19,11 @@ import {
 	getRevision,
 	loadLineage,
 	moveStep,
+	pendingChanges,
 	publish,
-	recordRevision,
+	publishRevision,
+	markPendingChanges,
+	stepVersion,
 	requireVisibleBuild,
 	updateBuild,
 	updateStep
@@ -132,61 +135,91 @@ describe('visibility', () => {
 });
 
 describe('publish, archive and revision numbering', () => {
-	it('needs a step, then numbers r1, r2, … with a summary of each change', async () => {
+	it('needs a step; edits collect as pending changes and the maker publishes them as ONE revision with a note', async () => {
 		const d = await createDraft(maker.id, fields());
 		expect(await statusOf(publish(maker, d.id))).toBe(422);
 
-		// Draft saves make no revisions.
+		// Draft saves make no revisions and no pending changes.
 		const s1 = await addStep(maker, d.id, { title: 'Board', bodyMd: 'Fit the **ICs**.' });
 		const s2 = await addStep(maker, d.id, { title: 'Chassis', bodyMd: 'Drill.' });
-		expect(await db.transaction((tx) => recordRevision(tx, d.id, maker.id))).toBeNull();
-		expect((await buildRow(d.id)).revision).toBe(0);
+		await db.transaction((tx) => markPendingChanges(tx, d.id));
+		expect(await buildRow(d.id)).toMatchObject({ revision: 0, pendingChangesAt: null });
 
 		expect(await publish(maker, d.id)).toBe(1);
 		let b = await buildRow(d.id);
-		expect(b).toMatchObject({ status: 'published', revision: 1 });
+		expect(b).toMatchObject({ status: 'published', revision: 1, pendingChangesAt: null });
 		expect(b.publishedAt).toBeInstanceOf(Date);
 		expect(await statusOf(publish(maker, d.id))).toBe(409);
+		// Nothing to publish yet.
+		expect(await statusOf(publishRevision(maker, d.id, 'nothing'))).toBe(409);
 
+		// Five edits in a row: no revision each time, one set of pending changes.
 		const r2 = await updateBuild(maker, d.id, { ...fields(), title: uniqueTitle('Chip amp rev B') });
-		expect(r2.revision).toBe(2);
-
+		expect(r2.revision).toBeNull();
 		await updateStep(maker, s1.id, { title: 'Board', bodyMd: 'Fit the ICs and the Zobel network.' });
 		await updateStep(maker, s2.id, { title: 'Chassis and wiring', bodyMd: 'Drill.' });
 		await addStep(maker, d.id, { title: 'Bring-up', bodyMd: 'Current-limited first start.' });
 		await moveStep(maker, s2.id, 'up');
+		b = await buildRow(d.id);
+		expect(b.revision).toBe(1);
+		expect(b.pendingChangesAt).toBeInstanceOf(Date);
+		expect((await listRevisions(d.id)).map((r) => r.number)).toEqual([1]);
+		const pending = await pendingChanges(d.id);
+		expect(pending.changes).toEqual(['1 step added', '2 steps changed', 'steps reordered', 'title changed']);
 
+		// Others cannot publish the maker's changes; an overlong note is refused.
+		expect(await statusOf(publishRevision(other, d.id, 'mine now'))).toBe(403);
+		expect(await statusOf(publishRevision(maker, d.id, 'x'.repeat(501)))).toBe(422);
+
+		const rev = await publishRevision(maker, d.id, '  Zobel network added;\n bring-up step  ');
+		expect(rev).toEqual({ number: 2, summary: '1 step added, 2 steps changed, steps reordered, title changed' });
 		const revs = await listRevisions(d.id);
-		expect(revs.map((r) => r.number)).toEqual([6, 5, 4, 3, 2, 1]);
-		expect(revs.map((r) => r.summary)).toEqual([
-			'steps reordered',
-			'1 step added',
-			'1 step changed',
-			'1 step changed',
-			'title changed',
-			'first published'
+		expect(revs.map((r) => [r.number, r.note])).toEqual([
+			[2, 'Zobel network added; bring-up step'],
+			[1, '']
 		]);
 		b = await buildRow(d.id);
-		expect(b.revision).toBe(6);
+		expect(b).toMatchObject({ revision: 2, pendingChangesAt: null });
 
-		// A save that changes nothing makes no revision.
+		// A save that changes nothing leaves nothing pending to publish.
 		await updateStep(maker, s1.id, { title: 'Board', bodyMd: 'Fit the ICs and the Zobel network.' });
-		await updateBuild(maker, d.id, {
-			title: b.title,
-			summary: b.summary,
-			category: 'power-amp',
-			topology: 'class-ab-chip',
-			mainsPowered: true,
-			licence: 'CC-BY-SA-4.0'
-		});
-		expect((await buildRow(d.id)).revision).toBe(6);
+		expect((await pendingChanges(d.id)).changes).toEqual([]);
+		expect(await statusOf(publishRevision(maker, d.id, ''))).toBe(409);
 
-		// The snapshot of r1 still has the old order and text.
+		// The snapshot of Rev A still has the old order and text; Rev B the new.
 		const r1 = await getRevision(d.id, 1);
 		expect(r1?.snapshot.steps.map((s) => s.title)).toEqual(['Board', 'Chassis']);
 		expect(r1?.snapshot.steps[0].bodyHtml).toContain('<strong>ICs</strong>');
-		const r6 = await getRevision(d.id, 6);
-		expect(r6?.snapshot.steps.map((s) => s.title)).toEqual(['Chassis and wiring', 'Board', 'Bring-up']);
+		const rB = await getRevision(d.id, 2);
+		expect(rB?.snapshot.steps.map((s) => s.title)).toEqual(['Chassis and wiring', 'Board', 'Bring-up']);
+	});
+
+	it('asks for a change note once a reviewer signed the build off', async () => {
+		const d = await createDraft(maker.id, fields());
+		const s = await addStep(maker, d.id, { title: 'Only step', bodyMd: 'Text.' });
+		await publish(maker, d.id);
+		await db.insert(schema.review).values({ buildId: d.id, reviewerId: admin.id, revision: 1, verdict: 'safe', summaryMd: 'ok', summaryHtml: '<p>ok</p>' });
+		await updateStep(maker, s.id, { title: 'Only step', bodyMd: 'Text, and a fuse.' });
+		expect(await statusOf(publishRevision(maker, d.id, '   '))).toBe(422);
+		expect((await buildRow(d.id)).revision).toBe(1);
+		expect(await publishRevision(maker, d.id, 'Fuse added')).toMatchObject({ number: 2 });
+	});
+
+	it('refuses a step save against a step that changed since the editor loaded it (two tabs), keeping both texts', async () => {
+		const d = await createDraft(maker.id, fields());
+		const s = await addStep(maker, d.id, { title: 'Wiring', bodyMd: 'Start.' });
+		const [loaded] = await db.select().from(schema.buildStep).where(eq(schema.buildStep.id, s.id));
+		const v0 = stepVersion(loaded);
+		const tabB = await updateStep(maker, s.id, { title: 'Wiring', bodyMd: 'Start. Twist the mains pair.' }, undefined, d.id, v0);
+		expect(tabB.conflict).toBeUndefined();
+		const tabA = await updateStep(admin, s.id, { title: 'Wiring', bodyMd: 'Start. Sleeve the fuse holder.' }, undefined, d.id, v0);
+		expect(tabA.conflict).toMatchObject({ title: 'Wiring', bodyMd: 'Start. Twist the mains pair.' });
+		const [now] = await db.select().from(schema.buildStep).where(eq(schema.buildStep.id, s.id));
+		expect(now.bodyMd).toBe('Start. Twist the mains pair.');
+		// Saving again from the stored version is a deliberate overwrite.
+		const again = await updateStep(admin, s.id, { title: 'Wiring', bodyMd: 'Both: twist and sleeve.' }, undefined, d.id, tabA.conflict!.version);
+		expect(again.conflict).toBeUndefined();
+		expect('version' in again && again.version).not.toBe(tabA.conflict!.version);
 	});
 
 	it('archives without a revision and re-publishes with one only when something changed', async () => {
@@ -201,9 +234,10 @@ describe('publish, archive and revision numbering', () => {
 		await archive(maker, d.id);
 		await updateStep(maker, s.id, { title: 'Only step', bodyMd: 'Now with text.' });
 		expect((await buildRow(d.id)).revision).toBe(1);
-		expect(await publish(maker, d.id)).toBe(2);
+		expect(await publish(maker, d.id, undefined, 'Text for the step')).toBe(2);
 		const [rev] = await listRevisions(d.id);
-		expect(rev).toMatchObject({ number: 2, summary: '1 step changed' });
+		expect(rev).toMatchObject({ number: 2, summary: '1 step changed', note: 'Text for the step' });
+		expect((await buildRow(d.id)).pendingChangesAt).toBeNull();
 	});
 });
 
@@ -373,6 +407,27 @@ describe('derive', () => {
 		expect(d.slug).toMatch(/^bookshelf-version-/);
 		expect(await buildRow(d.id)).toMatchObject({ title, derivedFromId: o.id });
 		expect((await buildRow(o.id)).derivedCount).toBe(1);
+	});
+
+	it('a build based on a share-alike build keeps its licence; one based on a permissive build may change it', async () => {
+		const sa = await createDraft(maker.id, fields());
+		await addStep(maker, sa.id, { title: 'S', bodyMd: '' });
+		await publish(maker, sa.id);
+		const d = await derive(other, sa.id);
+		const row = await buildRow(d.id);
+		expect(row.licence).toBe('CC-BY-SA-4.0');
+		const input = { title: row.title, summary: '', category: 'power-amp' as const, topology: 'class-ab-chip' as const, mainsPowered: true };
+		expect(await statusOf(updateBuild(other, d.id, { ...input, licence: 'CC-BY-4.0' }))).toBe(422);
+		expect(await statusOf(updateBuild(other, d.id, { ...input, licence: 'CC0-1.0' }))).toBe(422);
+		expect((await buildRow(d.id)).licence).toBe('CC-BY-SA-4.0');
+		await updateBuild(other, d.id, { ...input, licence: 'CC-BY-SA-4.0' });
+
+		const by = await createDraft(maker.id, { ...fields(), licence: 'CC-BY-4.0' });
+		await addStep(maker, by.id, { title: 'S', bodyMd: '' });
+		await publish(maker, by.id);
+		const d2 = await derive(other, by.id);
+		await updateBuild(other, d2.id, { ...input, title: (await buildRow(d2.id)).title, licence: 'CC0-1.0' });
+		expect((await buildRow(d2.id)).licence).toBe('CC0-1.0');
 	});
 });
 

@@ -4,10 +4,12 @@ import { count, eq, like, or } from 'drizzle-orm';
 import * as schema from '../db/schema';
 import type { Tx } from '../db';
 import { buildSchema, type BuildInput } from '$lib/schemas/build';
+import { allowedLicencesFor } from '$lib/licences';
+import { LICENCE_LABELS, labelOf } from '$lib/labels';
 import type { Actor } from '../actor';
 import { assertCanEdit } from './access';
 import { nextFreeSlug, slugify } from './slug';
-import { recordRevision } from './revisions';
+import { createRevision, markPendingChanges, REVISION_NOTE_MAX } from './revisions';
 import { refreshSearchText } from '../search';
 import { inTx, pgCode } from '../db/tx';
 
@@ -72,8 +74,8 @@ export async function createDraft(
 
 /**
  * Change a build's fields (owner or admin; not while locked). While a build has never been
- * published its slug follows its title; after that the URL stays put. A published build gets a
- * new revision. → { slug, revision } (revision null when none was recorded)
+ * published its slug follows its title; after that the URL stays put. On a published build the
+ * change joins its pending changes (markPendingChanges). → { slug, revision } (revision always null now)
  */
 export async function updateBuild(
 	actor: Actor,
@@ -85,6 +87,7 @@ export async function updateBuild(
 	return inTx(tx, async (t) => {
 		const b = await lockBuild(t, buildId);
 		assertCanEdit(actor, b);
+		await assertLicenceAllowed(t, b, data.licence);
 		let slug = b.slug;
 		const write = async (w: Tx, newSlug: string) => {
 			await w
@@ -98,17 +101,35 @@ export async function updateBuild(
 		} else {
 			await write(t, b.slug);
 		}
-		const rev = await recordRevision(t, buildId, actor.id);
-		return { slug, revision: rev?.number ?? null };
+		await markPendingChanges(t, buildId);
+		return { slug, revision: null };
 	});
 }
 
 /**
- * Publish a draft, or publish again an archived build (owner or admin). Needs at least one step.
- * The first publication is r1; publishing again after archiving records a revision only if the
- * content changed meanwhile. → the revision number now current.
+ * A build based on another follows the origin's licence terms: under a share-alike licence it keeps that
+ * licence (see $lib/licences). 422 with a sentence otherwise; a build without an origin may take any.
  */
-export async function publish(actor: Actor, buildId: string, tx?: Tx): Promise<number> {
+async function assertLicenceAllowed(t: Tx, b: schema.Build, licence: string): Promise<void> {
+	if (!b.derivedFromId || licence === b.licence) return;
+	const [origin] = await t.select({ licence: schema.build.licence, title: schema.build.title }).from(schema.build).where(eq(schema.build.id, b.derivedFromId));
+	if (!origin) return;
+	const allowed = allowedLicencesFor(origin.licence);
+	if (!allowed.includes(licence as (typeof allowed)[number])) {
+		error(
+			422,
+			`This build is based on “${origin.title}”, shared under ${labelOf(LICENCE_LABELS, origin.licence)}: a build based on it keeps that licence (share alike).`
+		);
+	}
+}
+
+/**
+ * Publish a draft, or publish again an archived build (owner or admin). Needs at least one step.
+ * The first publication is Rev A; publishing again after archiving records a revision only if the
+ * content changed meanwhile. `note` is the optional change note of that revision. → the revision number now current.
+ */
+export async function publish(actor: Actor, buildId: string, tx?: Tx, note = ''): Promise<number> {
+	if (note.length > REVISION_NOTE_MAX) error(422, `Keep the note under ${REVISION_NOTE_MAX} characters.`);
 	return inTx(tx, async (t) => {
 		const b = await lockBuild(t, buildId);
 		assertCanEdit(actor, b);
@@ -121,7 +142,7 @@ export async function publish(actor: Actor, buildId: string, tx?: Tx): Promise<n
 			.set({ status: 'published', publishedAt: b.publishedAt ?? now, updatedAt: now })
 			.where(eq(schema.build.id, buildId));
 		await refreshSearchText(t, buildId);
-		const rev = await recordRevision(t, buildId, actor.id);
+		const rev = await createRevision(t, buildId, actor.id, note);
 		return rev?.number ?? b.revision;
 	});
 }

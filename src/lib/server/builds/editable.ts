@@ -10,7 +10,7 @@ import { requireUser } from '../auth';
 import { actorOf, type Actor, type Viewer } from '../actor';
 import { assertCanEdit } from './access';
 import { getBuildBySlug, requireVisibleBuild } from './queries';
-import { recordRevision } from './revisions';
+import { markPendingChanges } from './revisions';
 import { refreshSearchText } from '../search';
 
 /**
@@ -32,13 +32,13 @@ export async function requireEditableBuild(
 
 /**
  * After any change to a build's content (steps, spec blocks, parts, photos), in the change's transaction:
- * refresh the search text, bump `updatedAt`, and record a revision when the build is published.
- * `summary`, when given, is the revision's change note instead of the computed one.
- * → the revision's number, or null when none was recorded.
+ * refresh the search text, bump `updatedAt`, and — on a published or archived build — join the change to
+ * its pending changes, which the maker later publishes as one revision with a note (publishRevision).
+ * Edits never number revisions themselves: → always null (kept so editors can report "no new revision").
  */
-export async function afterContentChange(tx: Tx, buildId: string, actor: Pick<Actor, 'id'>, summary?: string): Promise<number | null> {
+export async function afterContentChange(tx: Tx, buildId: string, _actor: Pick<Actor, 'id'>): Promise<number | null> {
 	await refreshSearchText(tx, buildId);
 	await tx.update(schema.build).set({ updatedAt: new Date() }).where(eq(schema.build.id, buildId));
-	const rev = await recordRevision(tx, buildId, actor.id, summary);
-	return rev?.number ?? null;
+	await markPendingChanges(tx, buildId);
+	return null;
 }

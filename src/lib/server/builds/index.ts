@@ -14,3 +14,4 @@ export * from './queries';
 export * from './list';
 export * from './serialize';
 export * from './editable';
+export * from './revision-diff';

@@ -65,6 +65,8 @@ export interface LineageLink {
 	slug: string;
 	title: string;
 	status: string;
+	/** Its licence (SPDX id): the terms a build based on it follows and credits. */
+	licence: string;
 	makerName: string;
 	makerHandle: string | null;
 }
@@ -89,6 +91,7 @@ export async function loadLineage(
 		slug: schema.build.slug,
 		title: schema.build.title,
 		status: schema.build.status,
+		licence: schema.build.licence,
 		ownerId: schema.build.ownerId,
 		makerName: maker.name,
 		makerHandle: maker.handle
@@ -118,7 +121,7 @@ export async function loadLineage(
 }
 
 function strip(r: LineageLink & { ownerId: string }): LineageLink {
-	return { slug: r.slug, title: r.title, status: r.status, makerName: r.makerName, makerHandle: r.makerHandle };
+	return { slug: r.slug, title: r.title, status: r.status, licence: r.licence, makerName: r.makerName, makerHandle: r.makerHandle };
 }
 
 /** Everything the public build page shows, or 404 when `viewer` may not see the build. */
@@ -149,8 +152,12 @@ export async function listOwnBuilds(ownerId: string, dbx: DbLike = db) {
 		.select({
 			slug: schema.build.slug,
 			title: schema.build.title,
+			id: schema.build.id,
 			status: schema.build.status,
 			revision: schema.build.revision,
+			locked: schema.build.locked,
+			pendingChangesAt: schema.build.pendingChangesAt,
+			derivedFromId: schema.build.derivedFromId,
 			updatedAt: schema.build.updatedAt
 		})
 		.from(schema.build)

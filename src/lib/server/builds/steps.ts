@@ -42,18 +42,44 @@ export async function addStep(actor: Actor, buildId: string, input: StepInput, t
 	});
 }
 
-/** Change a step's title and text (owner or admin). `buildId`, when given, must be the step's build. */
-export async function updateStep(actor: Actor, stepId: string, input: StepInput, tx?: Tx, buildId?: string): Promise<void> {
+/** The version of a step an editor loaded: its updatedAt as ISO text (millisecond precision, as read back). */
+export const stepVersion = (step: Pick<schema.BuildStep, 'updatedAt'>): string => step.updatedAt.toISOString();
+
+/** A refused step save: the step as stored now, for the editor to show beside the maker's text. */
+export interface StepConflict {
+	title: string;
+	bodyMd: string;
+	version: string;
+}
+
+/**
+ * Change a step's title and text (owner or admin). `buildId`, when given, must be the step's build.
+ * `expectedVersion` is the stepVersion the editor loaded: when the step was saved since (another tab, an
+ * admin), nothing is written and the stored step comes back as `{ conflict }`. → `{ version }` after a save.
+ */
+export async function updateStep(
+	actor: Actor,
+	stepId: string,
+	input: StepInput,
+	tx?: Tx,
+	buildId?: string,
+	expectedVersion?: string | null
+): Promise<{ version: string; conflict?: undefined } | { conflict: StepConflict }> {
 	const data = stepSchema.parse(input);
 	const bodyHtml = renderMarkdown(data.bodyMd);
-	await inTx(tx, async (t) => {
+	return inTx(tx, async (t) => {
 		const { step } = await stepForEdit(t, actor, stepId, buildId);
-		if (step.title === data.title && step.bodyMd === data.bodyMd && step.bodyHtml === bodyHtml) return;
+		if (expectedVersion && stepVersion(step) !== expectedVersion) {
+			return { conflict: { title: step.title, bodyMd: step.bodyMd, version: stepVersion(step) } };
+		}
+		if (step.title === data.title && step.bodyMd === data.bodyMd && step.bodyHtml === bodyHtml) return { version: stepVersion(step) };
+		const updatedAt = new Date();
 		await t
 			.update(schema.buildStep)
-			.set({ title: data.title, bodyMd: data.bodyMd, bodyHtml, updatedAt: new Date() })
+			.set({ title: data.title, bodyMd: data.bodyMd, bodyHtml, updatedAt })
 			.where(eq(schema.buildStep.id, stepId));
 		await afterContentChange(t, step.buildId, actor);
+		return { version: updatedAt.toISOString() };
 	});
 }
 

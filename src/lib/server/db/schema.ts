@@ -41,8 +41,10 @@ export const build = pgTable(
 		locked: boolean('locked').default(false).notNull(),
 		lockedReason: text('locked_reason'),
 		derivedFromId: uuid('derived_from_id').references((): AnyPgColumn => build.id, { onDelete: 'set null' }),
-		/** Current revision number; 0 until first published. */
+		/** Number of the latest published revision (Rev A = 1); 0 until first published. */
 		revision: integer('revision').default(0).notNull(),
+		/** Set when a published build is edited after its latest revision; cleared when the maker publishes the changes as one. */
+		pendingChangesAt: timestamp('pending_changes_at'),
 		reviewRequestedAt: timestamp('review_requested_at'),
 		lastReviewedAt: timestamp('last_reviewed_at'),
 		derivedCount: integer('derived_count').default(0).notNull(),
@@ -166,7 +168,7 @@ export const partLine = pgTable(
 	(t) => [index('part_line_build_idx').on(t.buildId, t.position)]
 );
 
-/** Snapshot of a published build at each save: r1, r2, … */
+/** Snapshot of a published build at each revision the maker publishes: Rev A, Rev B, … with the maker's change note. */
 export const buildRevision = pgTable(
 	'build_revision',
 	{
@@ -177,6 +179,8 @@ export const buildRevision = pgTable(
 		number: integer('number').notNull(),
 		authorId: text('author_id').references(() => user.id, { onDelete: 'set null' }),
 		summary: text('summary').notNull(),
+		/** The maker's short "what changed" note ('' when none was given). */
+		note: text('note').default('').notNull(),
 		snapshot: jsonb('snapshot').$type<Record<string, unknown>>().notNull(),
 		createdAt: timestamp('created_at').defaultNow().notNull()
 	},

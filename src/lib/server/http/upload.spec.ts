@@ -101,11 +101,11 @@ describe('uploadRoute', () => {
 });
 
 describe('photos on a published build', () => {
-	it('record a revision when one is added or removed', async () => {
+	it('join the pending changes when one is added or removed, published as one revision', async () => {
 		const { db } = await import('../db');
 		const schema = await import('../db/schema');
 		const { eq } = await import('drizzle-orm');
-		const { publish } = await import('../builds');
+		const { publish, pendingChanges, publishRevision } = await import('../builds');
 		const { addBuildPhoto, removeBuildPhoto } = await import('../photos');
 		const { jpegWithGpsAndOrientation } = await import('../testing/photos');
 		const m = await createMakerWithBuild();
@@ -115,13 +115,16 @@ describe('photos on a published build', () => {
 			const current = async () => (await db.select().from(schema.build).where(eq(schema.build.id, m.build.id)))[0];
 			const before = (await current()).updatedAt;
 			const photo = await addBuildPhoto(actor, m.build, { stepId: m.step.id, bytes: await jpegWithGpsAndOrientation(400, 300), alt: 'A heatsink', asCover: false });
-			expect((await current()).revision).toBe(2);
+			expect((await current()).revision).toBe(1);
 			expect((await current()).updatedAt.getTime()).toBeGreaterThan(before.getTime());
+			expect((await pendingChanges(m.build.id)).changes).toEqual(['photos: 1 added']);
+			expect(await publishRevision(actor, m.build.id, 'Heatsink photo')).toMatchObject({ number: 2 });
 			await removeBuildPhoto(actor, m.build, photo.id);
-			expect((await current()).revision).toBe(3);
-			// Not a photo of this build (any more): refused, and no new revision.
+			expect((await pendingChanges(m.build.id)).changes).toEqual(['photos: 1 removed']);
+			expect((await current()).revision).toBe(2);
+			// Not a photo of this build (any more): refused, and nothing new pending.
 			await expect(removeBuildPhoto(actor, m.build, photo.id)).rejects.toMatchObject({ status: 404 });
-			expect((await current()).revision).toBe(3);
+			expect((await current()).revision).toBe(2);
 		} finally {
 			await removeMaker(m.userId);
 		}

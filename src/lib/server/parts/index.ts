@@ -3,6 +3,7 @@
  * every line), CSV import with a preview and CSV export. Values are parsed and normalised by $lib/parts;
  * checks that need the spec blocks are placed by ./checks.
  */
+import { createHash } from 'node:crypto';
 import { asc, eq } from 'drizzle-orm';
 import * as schema from '../db/schema';
 import { db, type Tx } from '../db';
@@ -44,10 +45,42 @@ export function isBlankDraft(d: PartLineDraft): boolean {
 	);
 }
 
-/** Result of saving a list: either saved (with the revision it made, if any) or the per-line errors, nothing stored. */
+/**
+ * The version of a stored parts list: a hash of its lines (ids, order and every field a maker types), so an
+ * editor can tell whether the list changed since it loaded it. Checks are left out: they follow from the
+ * fields and the spec blocks. → 16 hex digits.
+ */
+export function partsListVersion(lines: readonly schema.PartLine[]): string {
+	const h = createHash('sha256');
+	for (const l of lines) {
+		h.update(
+			JSON.stringify([l.id, l.designators, l.quantity, l.kind, l.valueText, l.tolerancePct, l.ratingV, l.ratingW, l.package, l.notes, l.designValueText, l.substitutionReason])
+		);
+		h.update('\n');
+	}
+	return h.digest('hex').slice(0, 16);
+}
+
+/** A stored list as editor rows: each line's draft with its id (posted back so the line keeps it). */
+export function editorRowsOf(lines: readonly schema.PartLine[]): { rows: PartLineDraft[]; ids: string[]; version: string } {
+	return { rows: lines.map(lineToDraft), ids: lines.map((l) => l.id), version: partsListVersion(lines) };
+}
+
+/** The list as stored now, in editor form: what a conflicting save shows beside the maker's own rows. */
+export interface PartsConflict {
+	rows: PartLineDraft[];
+	ids: string[];
+	version: string;
+}
+
+/**
+ * Result of saving a list: saved (with the revision it made, if any); the per-line errors, nothing stored;
+ * or a conflict: the list changed since the editor loaded it (another tab, or an admin), nothing stored.
+ */
 export type SaveResult =
-	| { ok: true; count: number; revision: number | null }
-	| { ok: false; errors: LineError[] };
+	| { ok: true; count: number; revision: number | null; version: string }
+	| { ok: false; errors: LineError[]; conflict?: undefined }
+	| { ok: false; errors: []; conflict: PartsConflict };
 
 /**
  * Replace a build's whole parts list with `drafts`, in one transaction (owner or admin; not while locked).
@@ -55,17 +88,29 @@ export type SaveResult =
  * (`lineNumbers[i]` for draft i, default i + 1). Blank drafts are skipped. After the write: the lines'
  * checks (with the build's rail), the cross checks on the blocks, the search text, and a revision when
  * the build is published.
+ *
+ * `ids[i]` is the stored id draft i was loaded with (posted back by the editor): the line keeps that id, so
+ * hazard tags on it keep their target whatever its designators. Lines without one (CSV imports) keep the
+ * id of a line with the same designators, when exactly one had them. `expectedVersion` is the
+ * partsListVersion the editor loaded: when the stored list moved since, nothing is written and the
+ * stored list comes back as a conflict — a save never drops lines its editor did not show.
  */
 export async function savePartsList(
 	actor: Actor,
 	buildId: string,
 	drafts: readonly PartLineDraft[],
-	opts: { lineNumbers?: readonly number[]; tx?: Tx } = {}
+	opts: { lineNumbers?: readonly number[]; tx?: Tx; ids?: readonly (string | null | undefined)[]; expectedVersion?: string | null } = {}
 ): Promise<SaveResult> {
-	const keep = drafts.map((d, i) => ({ d, n: opts.lineNumbers?.[i] ?? i + 1 })).filter(({ d }) => !isBlankDraft(d));
+	const keep = drafts
+		.map((d, i) => ({ d, n: opts.lineNumbers?.[i] ?? i + 1, id: opts.ids?.[i] || null }))
+		.filter(({ d }) => !isBlankDraft(d));
 	return inTx(opts.tx, async (t) => {
 		const b = await lockBuild(t, buildId);
 		assertCanEdit(actor, b);
+		if (opts.expectedVersion) {
+			const now = await listPartLines(buildId, t);
+			if (partsListVersion(now) !== opts.expectedVersion) return { ok: false as const, errors: [] as [], conflict: editorRowsOf(now) };
+		}
 		const blocks = await blocksFor(t, buildId);
 		const result = normaliseLines(
 			keep.map((k) => k.d),
@@ -73,9 +118,10 @@ export async function savePartsList(
 			keep.map((k) => k.n)
 		);
 		if (!result.ok) return { ok: false as const, errors: result.errors };
-		await writeLines(t, buildId, blocks, result.lines);
+		await writeLines(t, buildId, blocks, result.lines, keep.map((k) => k.id));
 		const revision = await afterContentChange(t, buildId, actor);
-		return { ok: true as const, count: result.lines.length, revision };
+		const version = partsListVersion(await listPartLines(buildId, t));
+		return { ok: true as const, count: result.lines.length, revision, version };
 	});
 }
 
@@ -84,25 +130,38 @@ async function writeLines(
 	t: Tx,
 	buildId: string,
 	blocks: Awaited<ReturnType<typeof blocksFor>>,
-	lines: NormalisedPartLine[]
+	lines: NormalisedPartLine[],
+	postedIds: readonly (string | null)[] = []
 ): Promise<void> {
-	// A line keeps its id while its designators stay the same, so safety flags on it keep their target.
+	// A line keeps the id it was loaded with (posted by the editor), so hazard tags on it keep their target;
+	// a line without one keeps the id of the only earlier line with the same designators.
 	const previous = await t
 		.select({ id: schema.partLine.id, designators: schema.partLine.designators })
 		.from(schema.partLine)
 		.where(eq(schema.partLine.buildId, buildId));
+	const unused = new Set(previous.map((p) => p.id));
+	const ids: (string | null)[] = lines.map((_, i) => {
+		const id = postedIds[i];
+		if (id && unused.has(id)) {
+			unused.delete(id);
+			return id;
+		}
+		return null;
+	});
 	const idByDesignators = new Map<string, string>();
 	for (const p of previous) {
 		const key = p.designators.trim().toLowerCase();
-		if (key) idByDesignators.set(key, idByDesignators.has(key) ? '' : p.id);
+		if (key && unused.has(p.id)) idByDesignators.set(key, idByDesignators.has(key) ? '' : p.id);
 	}
-	const keptId = (designators: string) => {
-		const key = designators.trim().toLowerCase();
+	lines.forEach((l, i) => {
+		if (ids[i] || postedIds[i]) return;
+		const key = l.designators.trim().toLowerCase();
 		const id = idByDesignators.get(key);
-		if (!id) return {};
+		if (!id) return;
 		idByDesignators.set(key, '');
-		return { id };
-	};
+		ids[i] = id;
+	});
+	const keptId = (i: number) => (ids[i] ? { id: ids[i] } : {});
 	await t.delete(schema.partLine).where(eq(schema.partLine.buildId, buildId));
 	if (lines.length) {
 		// Insert in slices: a thousand lines × 19 columns stays far below PostgreSQL's parameter limit per statement.
@@ -110,7 +169,7 @@ async function writeLines(
 			await t.insert(schema.partLine).values(
 				lines.slice(i, i + 200).map((l, j) => ({
 					...l,
-					...keptId(l.designators),
+					...keptId(i + j),
 					buildId,
 					position: i + j,
 					checks: l.checks
@@ -132,19 +191,22 @@ export async function importPartsCsv(
 	buildId: string,
 	text: string,
 	mode: 'replace' | 'append' = 'replace'
-): Promise<{ ok: true; count: number; revision: number | null } | { ok: false; preview: ImportPreview }> {
+): Promise<{ ok: true; count: number; total: number; revision: number | null; version: string } | { ok: false; preview: ImportPreview }> {
 	return db.transaction(async (t) => {
 		const b = await lockBuild(t, buildId);
 		assertCanEdit(actor, b);
 		const preview = previewPartsCsv(text, await buildRailV(buildId, t));
 		if (!preview.ok) return { ok: false as const, preview };
-		const existing = mode === 'append' ? (await listPartLines(buildId, t)).map(lineToDraft) : [];
+		const existingLines = mode === 'append' ? await listPartLines(buildId, t) : [];
+		const existing = existingLines.map(lineToDraft);
 		const imported = preview.rows.map((r) => r.draft);
 		const saved = await savePartsList(actor, buildId, [...existing, ...imported], {
 			tx: t,
-			lineNumbers: [...existing.map((_, i) => -(i + 1)), ...preview.rows.map((r) => r.line)]
+			lineNumbers: [...existing.map((_, i) => -(i + 1)), ...preview.rows.map((r) => r.line)],
+			ids: [...existingLines.map((l) => l.id), ...imported.map(() => null)]
 		});
 		if (!saved.ok) return { ok: false as const, preview: { ...preview, ok: false, fileErrors: saved.errors.map((e) => ({ line: e.line, message: e.message })) } };
-		return saved;
+		// `count` is the lines the CSV brought; `total` the lines of the list now.
+		return { ...saved, count: imported.filter((d) => !isBlankDraft(d)).length, total: saved.count };
 	});
 }

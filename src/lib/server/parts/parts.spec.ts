@@ -8,7 +8,8 @@ import { createTestUser, removeTestUsers } from '../testing/builds';
 import { AMP, SUPPLY, statusOf, testBuild } from '../testing/parts';
 import { setBuildLocked } from '../moderation';
 import { deleteSpecBlock, saveSpecBlock } from '../specs';
-import { importPartsCsv, listPartLines, partsToCsv, savePartsList } from './index';
+import { editorRowsOf, importPartsCsv, listPartLines, partsToCsv, savePartsList } from './index';
+import { pendingChanges } from '../builds';
 import { emptyDraft, type PartLineDraft } from '$lib/parts';
 import { GET as getPartsCsv } from '../../../routes/api/v1/builds/[slug]/parts.csv/+server';
 
@@ -40,7 +41,7 @@ describe('savePartsList', () => {
 	it('stores normalised lines in order, with the substitution deviation', async () => {
 		const b = await testBuild(maker.id);
 		const r = await savePartsList(maker, b.id, LIST);
-		expect(r).toEqual({ ok: true, count: 3, revision: null });
+		expect(r).toMatchObject({ ok: true, count: 3, revision: null });
 		const rows = await stored(b.id);
 		expect(rows.map((x) => [x.position, x.designators, x.kind])).toEqual([
 			[0, 'R1, R2', 'resistor'],
@@ -87,14 +88,98 @@ describe('savePartsList', () => {
 		expect(await stored(b.id)).toHaveLength(1);
 	});
 
-	it('records a revision when a published build’s list changes, and none when nothing changed', async () => {
+	it('on a published build, a changed list joins the pending changes instead of making a revision', async () => {
 		const b = await testBuild(maker.id, { published: true });
 		const r1 = await savePartsList(maker, b.id, LIST);
-		expect(r1.ok && r1.revision).toBe(2);
-		const [rev] = await db.select().from(schema.buildRevision).where(eq(schema.buildRevision.buildId, b.id)).orderBy(asc(schema.buildRevision.number)).offset(1);
-		expect(rev.summary).toContain('parts: 3 added');
-		const again = await savePartsList(maker, b.id, LIST);
-		expect(again).toEqual({ ok: true, count: 3, revision: null });
+		expect(r1.ok && r1.revision).toBe(null);
+		const revs = await db.select().from(schema.buildRevision).where(eq(schema.buildRevision.buildId, b.id));
+		expect(revs.map((r) => r.number)).toEqual([1]);
+		const [row] = await db.select().from(schema.build).where(eq(schema.build.id, b.id));
+		expect(row.revision).toBe(1);
+		expect(row.pendingChangesAt).toBeInstanceOf(Date);
+		expect((await pendingChanges(b.id)).changes).toEqual(['parts: 3 added']);
+	});
+});
+
+describe('no lost lines', () => {
+	it('refuses a save against a list that changed since the editor loaded it (another tab), and stores nothing', async () => {
+		const b = await testBuild(maker.id);
+		await savePartsList(maker, b.id, LIST);
+		const tabA = editorRowsOf(await listPartLines(b.id));
+		const tabB = editorRowsOf(await listPartLines(b.id));
+		// Tab B adds a line and saves first.
+		const r6 = draft({ designators: 'R6', kind: 'resistor', value: '0R22', ratingW: '5' });
+		const savedB = await savePartsList(maker, b.id, [...tabB.rows, r6], { ids: tabB.ids, expectedVersion: tabB.version });
+		expect(savedB.ok).toBe(true);
+		// Tab A changes one quantity from its older list: refused, with the stored list (4 lines) to show.
+		const rowsA = tabA.rows.map((r, i) => (i === 0 ? { ...r, quantity: '3' } : r));
+		const savedA = await savePartsList(maker, b.id, rowsA, { ids: tabA.ids, expectedVersion: tabA.version });
+		expect(savedA.ok).toBe(false);
+		expect(!savedA.ok && savedA.conflict?.rows.map((r) => r.designators)).toEqual(['R1, R2', 'C3', 'U1', 'R6']);
+		expect((await stored(b.id)).map((r) => [r.designators, r.quantity])).toEqual([
+			['R1, R2', 2],
+			['C3', 1],
+			['U1', 1],
+			['R6', 1]
+		]);
+		// Saving again from the stored version replaces the list on purpose.
+		if (!savedA.ok && savedA.conflict) {
+			const again = await savePartsList(maker, b.id, rowsA, { ids: tabA.ids, expectedVersion: savedA.conflict.version });
+			expect(again.ok).toBe(true);
+		}
+	});
+
+	it('after a CSV import (add to the end), an edit from the refreshed editor keeps every line; from the old editor it is refused', async () => {
+		const b = await testBuild(maker.id);
+		await savePartsList(maker, b.id, LIST);
+		const before = editorRowsOf(await listPartLines(b.id));
+		const imported = await importPartsCsv(maker, b.id, ['designators,quantity,kind,value', 'C20,4,capacitor,10000u'].join('\n'), 'append');
+		expect(imported).toMatchObject({ ok: true, count: 1, total: 4 });
+		// The editor as it was before the import: its save would drop C20, so it is refused.
+		const stale = await savePartsList(
+			maker,
+			b.id,
+			before.rows.map((r, i) => (i === 2 ? { ...r, quantity: '2' } : r)),
+			{ ids: before.ids, expectedVersion: before.version }
+		);
+		expect(stale.ok === false && !!stale.conflict).toBe(true);
+		expect((await stored(b.id)).map((r) => r.designators)).toEqual(['R1, R2', 'C3', 'U1', 'C20']);
+		// The editor after the import (what the page now shows): the edit keeps all four lines.
+		const after = imported.ok ? editorRowsOf(await listPartLines(b.id)) : before;
+		expect(imported.ok && imported.version).toBe(after.version);
+		const ok = await savePartsList(maker, b.id, after.rows.map((r, i) => (i === 2 ? { ...r, quantity: '2' } : r)), { ids: after.ids, expectedVersion: after.version });
+		expect(ok).toMatchObject({ ok: true, count: 4 });
+		expect((await stored(b.id)).map((r) => [r.designators, r.quantity])).toEqual([
+			['R1, R2', 2],
+			['C3', 1],
+			['U1', 2],
+			['C20', 4]
+		]);
+	});
+
+	it('keeps the ids of lines posted with their id, also without designators or with repeated ones (hazard tags keep their targets)', async () => {
+		const b = await testBuild(maker.id);
+		const noDes = [
+			draft({ designators: '', kind: 'hardware', value: '', notes: 'M3 screws' }),
+			draft({ designators: '', kind: 'hardware', value: '', notes: 'mica insulators' }),
+			draft({ designators: 'C1', kind: 'capacitor', value: '100n' }),
+			draft({ designators: 'C1', kind: 'capacitor', value: '220n' })
+		];
+		await savePartsList(maker, b.id, noDes);
+		const first = editorRowsOf(await listPartLines(b.id));
+		// Swap the two unnamed lines, edit one, drop the second C1, and add a new line.
+		const rows = [{ ...first.rows[1], notes: 'mica insulators, 2 spare' }, first.rows[0], first.rows[2], draft({ designators: 'R9', kind: 'resistor', value: '4k7' })];
+		const ids = [first.ids[1], first.ids[0], first.ids[2], ''];
+		const r = await savePartsList(maker, b.id, rows, { ids, expectedVersion: first.version });
+		expect(r.ok).toBe(true);
+		const now = await stored(b.id);
+		expect(now.map((l) => l.id).slice(0, 3)).toEqual([first.ids[1], first.ids[0], first.ids[2]]);
+		expect(first.ids).not.toContain(now[3].id);
+		expect(now[0].notes).toBe('mica insulators, 2 spare');
+		// An id of another build's line is not taken over.
+		const other = await testBuild(maker.id);
+		await savePartsList(maker, other.id, [draft({ designators: 'Q1', kind: 'transistor', value: '' })], { ids: [now[0].id] });
+		expect((await stored(other.id))[0].id).not.toBe(now[0].id);
 	});
 });
 
@@ -144,7 +229,7 @@ describe('importPartsCsv', () => {
 		const b = await testBuild(maker.id);
 		await savePartsList(maker, b.id, [LIST[2]]);
 		const r = await importPartsCsv(maker, b.id, good.join('\n'), 'append');
-		expect(r).toMatchObject({ ok: true, count: 3 });
+		expect(r).toMatchObject({ ok: true, count: 2, total: 3 });
 		expect((await stored(b.id)).map((x) => x.designators)).toEqual(['U1', 'R1, R2', 'C3']);
 		// The build is a draft: to another maker it is absent.
 		expect(await statusOf(importPartsCsv(other, b.id, good.join('\n')))).toBe(404);

@@ -5,7 +5,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
 import { db } from '../db';
 import * as schema from '../db/schema';
-import { addStep } from '../builds';
+import { addStep, publishRevision } from '../builds';
 import { saveSpecBlock } from '../specs';
 import { stopMail } from '../mail';
 import { createTestUser, removeTestUsers } from '../testing/builds';
@@ -154,9 +154,12 @@ describe('sign-offs and send-backs pinned to revisions', () => {
 		expect(row.lastReviewedAt).not.toBeNull();
 		expect((await listWaiting()).some((w) => w.id === build.id)).toBe(false);
 
-		// The maker changes the build: a new revision; the send-back stays with Rev A.
+		// The maker changes the build and publishes the change as Rev B; the send-back stays with Rev A.
 		await addressFlag(owner, flag, 'Insulator fitted, see the new step.');
 		await addStep(owner, build.id, { title: 'Tab insulation', bodyMd: 'Mica, grease, shoulder washer.' });
+		// An edit alone is a pending change: the verdict still belongs to the current revision.
+		expect((await getReviewState(build.id)).label).toBe('rework');
+		await publishRevision(owner, build.id, 'Tab insulation step added');
 		s = await getReviewState(build.id);
 		expect(s.currentRevision).toBe(rev1 + 1);
 		expect(s).toMatchObject({ label: 'rework-changed', verdictRevision: rev1 });
@@ -176,8 +179,10 @@ describe('sign-offs and send-backs pinned to revisions', () => {
 		expect(s.reviewer?.name).toContain('Reviewer');
 		expect(reviewLabelText(s)).toBe(`Signed off as safe at ${revisionLabel(rev1 + 1)}`);
 
-		// A further change makes it "edited since sign-off".
+		// A further change, once published as a revision, makes it "edited since sign-off".
 		await addStep(owner, build.id, { title: 'Listening notes', bodyMd: 'Quiet at idle.' });
+		expect((await getReviewState(build.id)).label).toBe('safe');
+		await publishRevision(owner, build.id, 'Listening notes');
 		s = await getReviewState(build.id);
 		expect(s.label).toBe('safe-changed');
 		expect(reviewLabelText(s)).toBe(`Edited since sign-off at ${revisionLabel(rev1 + 1)}`);

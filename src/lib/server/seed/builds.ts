@@ -1,7 +1,7 @@
 import { and, eq } from 'drizzle-orm';
 import type { Tx } from '../db';
 import * as schema from '../db/schema';
-import { createDraft, addStep, publish, derive } from '../builds';
+import { createDraft, addStep, publish, publishRevision, derive } from '../builds';
 import { savePartsList } from '../parts';
 import { saveSpecBlock } from '../specs';
 import { processAndStorePhoto, renderIllustration } from '../photos';
@@ -148,11 +148,14 @@ async function seedReviews(tx: Tx, ids: Ids, seeded: Seeded[]) {
 			}
 		}
 		if (kind === 'safe-changed') {
-			// The maker edited the build after the sign-off: Rev B, so the stamp reads "Edited since sign-off at Rev A".
-			await addStep({ id: s.ownerId, role: 'maker' }, s.id, {
+			// The maker edited the build after the sign-off and published it as Rev B, so the stamp reads
+			// "Edited since sign-off at Rev A".
+			const maker = { id: s.ownerId, role: 'maker' as const };
+			await addStep(maker, s.id, {
 				title: 'Later: a soft-start for the toroid',
 				bodyMd: 'I added an inrush limiter (a thermistor shorted by a relay after two seconds). The fuse no longer flickers at switch-on.'
 			}, tx);
+			await publishRevision(maker, s.id, 'Soft-start for the toroid added.', tx);
 		}
 	}
 }

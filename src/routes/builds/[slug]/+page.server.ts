@@ -51,6 +51,7 @@ export const load: PageServerLoad = async ({ params, locals, url }) => {
 			locked: b.locked,
 			lockedReason: b.lockedReason,
 			revision: b.revision,
+			pendingChangesAt: b.pendingChangesAt,
 			derivedCount: b.derivedCount,
 			derivedFromId: b.derivedFromId,
 			publishedAt: b.publishedAt,
@@ -68,7 +69,9 @@ export const load: PageServerLoad = async ({ params, locals, url }) => {
 			derive: canDerive(viewer, b),
 			lock: canLock(viewer)
 		},
-		origin: url.origin
+		origin: url.origin,
+		/** Set by the editor's redirect after publishing: the revision number it became. */
+		justPublished: /^[1-9]\d{0,5}$/.test(url.searchParams.get('published') ?? '') ? Number(url.searchParams.get('published')) : null
 	};
 };
 
@@ -80,12 +83,13 @@ async function found(slug: string) {
 }
 
 export const actions: Actions = {
-	publish: async ({ params }) => {
+	publish: async ({ params, request }) => {
 		const actor = actorOf(requireUser());
 		const b = await found(params.slug);
-		const r = await attempt(() => publish(actor, b.id));
+		const note = String((await request.formData()).get('note') ?? '');
+		const r = await attempt(() => publish(actor, b.id, undefined, note));
 		if (!r.ok) return r.failure;
-		return { ok: `Published as ${revisionLabel(r.value)}.` };
+		return { ok: `Published as ${revisionLabel(r.value)}: everyone can read it now.` };
 	},
 	archive: async ({ params }) => {
 		const actor = actorOf(requireUser());

@@ -7,20 +7,36 @@ import {
 	archive,
 	deleteStep,
 	loadBuildContent,
+	loadLineage,
 	moveStep,
+	pendingChanges,
 	publish,
+	publishRevision,
+	REVISION_NOTE_MAX,
+	wasSignedOff,
 	requireEditableBuild,
+	stepVersion,
 	updateBuild,
 	updateStep
 } from '$lib/server/builds';
 import { attempt } from '$lib/server/http';
 import { buildSchema, stepSchema, type BuildInput } from '$lib/schemas/build';
 import { revisionLabel } from '$lib/revision-label';
+import { allowedLicencesFor, isShareAlike, needsAttribution } from '$lib/licences';
+import { LICENCE_LABELS, labelOf } from '$lib/labels';
+import { actorOf } from '$lib/server/actor';
 import type { Actions, PageServerLoad } from './$types';
 
-export const load: PageServerLoad = async ({ params, url }) => {
+export const load: PageServerLoad = async ({ params, url, locals }) => {
 	const { build: b } = await requireEditableBuild(params.slug, { forView: true });
-	const content = await loadBuildContent(b);
+	const [content, pending, signedOff, lineage] = await Promise.all([
+		loadBuildContent(b),
+		b.revision > 0 ? pendingChanges(b.id) : null,
+		b.revision > 0 ? wasSignedOff(b.id) : false,
+		b.derivedFromId ? loadLineage(b, actorOf(locals.user)) : null
+	]);
+	const origin = lineage?.derivedFrom ?? null;
+	const licences = allowedLicencesFor(origin?.licence);
 	const fields: BuildInput = {
 		title: b.title,
 		summary: b.summary,
@@ -38,11 +54,23 @@ export const load: PageServerLoad = async ({ params, url }) => {
 			status: b.status,
 			revision: b.revision,
 			locked: b.locked,
-			derivedFromId: b.derivedFromId
+			derivedFromId: b.derivedFromId,
+			mainsPowered: b.mainsPowered
 		},
 		cover: content.cover,
-		steps: content.steps.map((s) => ({ id: s.id, title: s.title, bodyMd: s.bodyMd, photos: s.photos })),
+		steps: content.steps.map((s) => ({ id: s.id, title: s.title, bodyMd: s.bodyMd, version: stepVersion(s), photos: s.photos })),
 		counts: { specBlocks: content.specBlocks.length, parts: content.parts.length },
+		/** Changes since the latest revision, not yet published as one (published and archived builds). */
+		pending: pending ? { changes: pending.changes, since: pending.since } : null,
+		/** A reviewer signed it off once: a change note is then required. */
+		noteRequired: signedOff,
+		noteMax: REVISION_NOTE_MAX,
+		licences,
+		licenceNote: origin
+			? isShareAlike(origin.licence)
+				? `Based on “${origin.title}” by ${origin.makerName}, shared under ${labelOf(LICENCE_LABELS, origin.licence)}: a build based on it keeps that licence (share alike), and credits it.`
+				: `Based on “${origin.title}” by ${origin.makerName} (${labelOf(LICENCE_LABELS, origin.licence)}): choose any licence${needsAttribution(origin.licence) ? '; the build page credits the original' : ''}.`
+			: null,
 		notice: url.searchParams.has('started')
 			? 'Your draft is ready, based on the original: it starts with its parts list and spec blocks. Write your own steps, then publish.'
 			: url.searchParams.has('created')
@@ -59,8 +87,15 @@ function stepForm(data: FormData) {
 	return { title: String(data.get('title') ?? ''), bodyMd: String(data.get('bodyMd') ?? '') };
 }
 
-function stepFailure(status: number, stepId: string, values: { title: string; bodyMd: string }, errors: Record<string, string[] | undefined>, error?: string) {
-	return fail(status, { step: { id: stepId, values, errors, error: error ?? null } });
+function stepFailure(
+	status: number,
+	stepId: string,
+	values: { title: string; bodyMd: string },
+	errors: Record<string, string[] | undefined>,
+	error?: string,
+	extra: { version?: string | null; theirs?: { title: string; bodyMd: string } | null } = {}
+) {
+	return fail(status, { step: { id: stepId, values, errors, error: error ?? null, version: extra.version ?? null, theirs: extra.theirs ?? null } });
 }
 
 export const actions: Actions = {
@@ -71,7 +106,7 @@ export const actions: Actions = {
 		const r = await attempt(() => updateBuild(actor, b.id, form.data));
 		if (!r.ok) return message(form, r.error, { status: r.status as 403 });
 		if (r.value.slug !== b.slug) redirect(303, `/builds/${r.value.slug}/edit`);
-		return message(form, r.value.revision ? `Saved as ${revisionLabel(r.value.revision)}.` : 'Saved.');
+		return message(form, b.status === 'draft' ? 'Saved.' : 'Saved. It joins the pending changes: publish them as a revision when you are ready.');
 	},
 
 	addStep: async ({ request, params }) => {
@@ -90,10 +125,17 @@ export const actions: Actions = {
 		const id = stepIdSchema.safeParse({ stepId: data.get('stepId') });
 		if (!id.success) return fail(400, { error: 'That step does not exist.' });
 		const values = stepForm(data);
+		const posted = data.get('version');
+		const version = typeof posted === 'string' && posted !== '' ? posted : null;
 		const parsed = stepSchema.safeParse(values);
-		if (!parsed.success) return stepFailure(400, id.data.stepId, values, z.flattenError(parsed.error).fieldErrors);
-		const r = await attempt(() => updateStep(actor, id.data.stepId, parsed.data, undefined, b.id));
-		if (!r.ok) return stepFailure(r.status, id.data.stepId, values, {}, r.error);
+		if (!parsed.success) return stepFailure(400, id.data.stepId, values, z.flattenError(parsed.error).fieldErrors, undefined, { version });
+		const r = await attempt(() => updateStep(actor, id.data.stepId, parsed.data, undefined, b.id, version));
+		if (!r.ok) return stepFailure(r.status, id.data.stepId, values, {}, r.error, { version });
+		if (r.value.conflict) {
+			// Keep the maker's text in the form; show the stored step beside it. Saving again replaces it on purpose.
+			const { version: theirVersion, ...theirs } = r.value.conflict;
+			return stepFailure(409, id.data.stepId, values, {}, 'Not saved: this step was changed elsewhere (another tab or an admin) since you opened it. Your text is below; the stored text is shown beside it. Save again to replace the stored text with yours.', { version: theirVersion, theirs });
+		}
 		return { stepSaved: id.data.stepId, ok: 'Step saved.' };
 	},
 
@@ -116,11 +158,21 @@ export const actions: Actions = {
 		return { moved: { id: parsed.data.stepId, direction: parsed.data.direction, position: r.value } };
 	},
 
-	publish: async ({ params }) => {
+	publish: async ({ request, params }) => {
 		const { actor, build: b } = await requireEditableBuild(params.slug);
-		const r = await attempt(() => publish(actor, b.id));
+		const note = String((await request.formData()).get('note') ?? '');
+		const r = await attempt(() => publish(actor, b.id, undefined, note));
 		if (!r.ok) return r.failure;
-		redirect(303, `/builds/${b.slug}`);
+		redirect(303, `/builds/${b.slug}?published=${r.value}`);
+	},
+
+	/** Publish the pending changes of a published build as one revision with the maker's change note. */
+	publishChanges: async ({ request, params }) => {
+		const { actor, build: b } = await requireEditableBuild(params.slug);
+		const note = String((await request.formData()).get('note') ?? '');
+		const r = await attempt(() => publishRevision(actor, b.id, note));
+		if (!r.ok) return fail(r.status, { error: r.error, note });
+		return { ok: `Published as ${revisionLabel(r.value.number)}: ${r.value.summary}.`, published: r.value.number };
 	},
 
 	archive: async ({ params }) => {
