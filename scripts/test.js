@@ -130,7 +130,10 @@ try {
 				AUTH_RESET_PER_HOUR: '1000',
 				API_WRITE_LIMIT: '5000',
 				COMMENT_RATE_PER_MIN: '1000',
-				COMMENT_RATE_PER_HOUR: '100000'
+				COMMENT_RATE_PER_HOUR: '100000',
+				// Keep idle connections open longer than the test clients do, so a client never reuses a
+				// socket the server is just closing (ECONNRESET under load); adapter-node's default is 5 s.
+				KEEP_ALIVE_TIMEOUT: '65'
 			}
 		});
 		await waitFor(`${testEnv.ORIGIN}/`, 240_000);
