@@ -7,7 +7,7 @@ describe('engineering public surface', () => {
 			'parseValue', 'decodeMarking', 'formatValue', 'eSeriesMantissas', 'nearestESeries', 'bandsFromValue', 'valueFromBands',
 			'networkValue', 'seriesValue', 'parallelValue', 'amplifierOutput', 'worstCaseDissipationW', 'nonInvertingGain',
 			'rcCornerHz', 'cascadeHighPassHz', 'zobel', 'heatsink', 'junctionTempC', 'supplyRails', 'reservoirForRippleF',
-			'capMarginRatio', 'highMainsRailV', 'transformerVaNeeded', 'bleederTimeS', 'bleederPowerW', 'storedEnergyJ',
+			'capMarginRatio', 'supplyWorstCase', 'stageWorstCase', 'parseQuantity', 'transformerVaNeeded', 'bleederTimeS', 'bleederPowerW', 'storedEnergyJ',
 			'primaryCurrentA', 'parallelLoadOhm', 'dampingFactor', 'dbV', 'dbu', 'dbW', 'vFromDbV', 'vFromDbu', 'thdPct', 'snrDb'
 		] as const;
 		for (const name of fns) expect(typeof (engineering as Record<string, unknown>)[name], name).toBe('function');

@@ -73,7 +73,6 @@ export {
 	unloadedRailV,
 	supplyRails,
 	reservoirForRippleF,
-	highMainsRailV,
 	capMarginRatio,
 	transformerVaNeeded,
 	bleederTimeS,
@@ -90,7 +89,6 @@ export {
 	type SupplyRailsInput,
 	type SupplyRailsOutput,
 	type ReservoirInput,
-	type HighMainsInput,
 	type BleederInput
 } from './supply';
 export {

@@ -4,7 +4,7 @@ import {
 	bleederPowerW,
 	bleederTimeS,
 	capMarginRatio,
-	highMainsRailV,
+	supplyWorstCase,
 	primaryCurrentA,
 	primaryFuseRangeA,
 	reservoirForRippleF,
@@ -62,7 +62,7 @@ describe('supply helpers', () => {
 		near(reservoirForRippleF({ loadCurrentA: 2, mainsHz: 50, rippleVpp: 2 }), 0.01);
 	});
 	it('worst case 25 V, reg 7 %, +10 % mains, 0.8 V → 40.81 V; 50 V caps give 1.225× (REFERENCE.md §4.2, §4.6)', () => {
-		const v = highMainsRailV({ secondaryVac: 25, rectifier: 'bridge-split', diodeDropV: 0.8, regulationPct: 7, mainsHighPct: 10 });
+		const v = supplyWorstCase({ secondaryVac: 25, rectifier: 'bridge-split', diodeDropV: 0.8, mainsHz: 50, loadCurrentA: 3, capacitanceF: 0.01, regulationPct: 7, mainsHighPct: 10 }).highMainsPeakDcV;
 		near(v, 40.81);
 		near(capMarginRatio(50, v), 1.225);
 		expect(capMarginRatio(35, v)).toBeLessThan(1); // 35 V caps would be over-voltage

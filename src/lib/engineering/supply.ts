@@ -177,29 +177,6 @@ export function reservoirForRippleF(input: ReservoirInput): number {
 	return loadCurrentA / (rippleHz(rectifier, mainsHz) * rippleVpp);
 }
 
-/** Inputs of highMainsRailV(). */
-export interface HighMainsInput {
-	secondaryVac: number;
-	rectifier: RectifierKind;
-	diodeDropV?: number;
-	/** Transformer regulation (off-load rise over the full-load rating). % — read the transformer's data. */
-	regulationPct?: number;
-	/** Mains above nominal to design for. % (±10 % is the usual design figure, from memory for national limits). */
-	mainsHighPct?: number;
-}
-
-/**
- * Worst-case unloaded rail for component ratings: Vac·(1 + reg)·(1 + mains high)·√2 − n·Vf, V.
- * highMainsRailV({ secondaryVac: 25, rectifier: 'bridge-split', diodeDropV: 0.8, regulationPct: 7, mainsHighPct: 10 }) → 40.81 V.
- */
-export function highMainsRailV(input: HighMainsInput): number {
-	const { secondaryVac, rectifier, diodeDropV = 0.7, regulationPct = 0, mainsHighPct = 10 } = input;
-	nonNeg('regulationPct', regulationPct, '%');
-	nonNeg('mainsHighPct', mainsHighPct, '%');
-	pos('secondaryVac', secondaryVac, 'V');
-	return unloadedRailV(secondaryVac * (1 + regulationPct / 100) * (1 + mainsHighPct / 100), rectifier, diodeDropV);
-}
-
 /**
  * Capacitor voltage margin = rating / rail (common practice: ≥ 1.2 against the high-mains rail; < 1 is over-voltage).
  * capMarginRatio(50, 40.81) → 1.225.

@@ -79,7 +79,7 @@ export const SPEC_FORMS: Record<SpecKind, SpecSection[]> = {
 				{ path: 'mainsHighPct', label: 'High-mains allowance', type: n('%'), optional: true, hint: 'Blank: 10 %.', placeholder: '10' },
 				{ path: 'bridged', label: 'Two stages drive the load in bridge', type: yesNo },
 				{ path: 'biasA', label: 'Class A bias current', type: n('A'), optional: true, hint: 'Class A only: the output stage’s standing current.', placeholder: '0.1' },
-				{ path: 'classA', label: 'Class A stage', type: sel(['push-pull', 'single-ended']), initial: 'push-pull' },
+				{ path: 'classA', label: 'Class A stage', type: sel(['', 'push-pull', 'single-ended'], { '': '— (not class A)' }), optional: true, hint: 'Class A only. Blank: push-pull.' },
 				{ path: 'efficiencyPct', label: 'Class D efficiency', type: n('%'), optional: true, hint: 'Class D only. Blank: 85 %.', placeholder: '85' },
 				{ path: 'regulatedRails', label: 'Runs from regulated rails after the supply block', type: yesNo },
 				{ path: 'speakerProtection', label: 'Speaker DC protection fitted', type: yesNo }

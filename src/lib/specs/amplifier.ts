@@ -68,9 +68,10 @@ export const amplifierSpec = z
 		bridged: flag().default(false),
 		/** Class A: the output stage's standing current, A (required for class-a). */
 		biasA: pos(20, 'A').nullish(),
-		classA: oneOf(['push-pull', 'single-ended'] as const).default('push-pull'),
-		/** Class D efficiency, %. */
-		efficiencyPct: num(1, 100, '%').default(CLASS_D_EFFICIENCY_PCT),
+		/** Class A only (push-pull when absent). */
+		classA: oneOf(['push-pull', 'single-ended'] as const).optional(),
+		/** Class D efficiency, % (85 when absent). */
+		efficiencyPct: num(1, 100, '%').optional(),
 		/** A speaker DC-protection circuit is fitted. */
 		speakerProtection: flag().optional(),
 		/**
@@ -177,8 +178,8 @@ export function deriveAmplifier(data: AmplifierSpec, rails?: AmplifierRailContex
 		quiescentA: data.quiescentA,
 		bridged: data.bridged,
 		biasA: data.biasA ?? null,
-		classA: data.classA,
-		efficiencyPct: data.efficiencyPct,
+		classA: data.classA ?? 'push-pull',
+		efficiencyPct: data.efficiencyPct ?? CLASS_D_EFFICIENCY_PCT,
 		highMainsRailV: rails?.highMainsRailV ?? null
 	});
 	const modelled = data.topology !== 'valve';
@@ -253,7 +254,7 @@ export function deriveAmplifier(data: AmplifierSpec, rails?: AmplifierRailContex
 		checks.push({
 			id: 'amp.power-beyond-bias',
 			level: 'caution',
-			message: `The claimed ${fmt(claimed.powerW)} W is more than the ${fmt(w.biasLimitPowerW)} W a ${data.classA} class A stage biased at ${fmt(data.biasA! * 1000)} mA can give into ${fmt(data.loadOhm)} Ω; above that it leaves class A (or clips, single-ended).`,
+			message: `The claimed ${fmt(claimed.powerW)} W is more than the ${fmt(w.biasLimitPowerW)} W a ${data.classA ?? 'push-pull'} class A stage biased at ${fmt(data.biasA! * 1000)} mA can give into ${fmt(data.loadOhm)} Ω; above that it leaves class A (or clips, single-ended).`,
 			values: { claimedPowerW: claimed.powerW, biasLimitPowerW: w.biasLimitPowerW, biasA: data.biasA ?? null, allowance: CLAIMED_POWER_ALLOWANCE }
 		});
 	if (claimed && loadedRailPowerW !== null && lowMainsPowerW !== null && w.railLimitPowerW !== null && claimed.powerW <= CLAIMED_POWER_ALLOWANCE * w.railLimitPowerW) {
