@@ -22,6 +22,8 @@ const o = {
 };
 
 let stack;
+/** What startStack has started so far (stopped on a signal that arrives before it returns). */
+const startingStops = [];
 let app;
 let stopping = false;
 async function shutdown(code = 0) {
@@ -40,7 +42,8 @@ async function shutdown(code = 0) {
 			});
 		});
 	}
-	await stack?.stop();
+	if (stack) await stack.stop();
+	else for (const stop of startingStops.reverse()) await Promise.resolve(stop()).catch(() => undefined);
 	process.exit(code);
 }
 for (const sig of ['SIGINT', 'SIGTERM']) process.on(sig, () => shutdown(0));
@@ -53,7 +56,7 @@ setInterval(() => {
 
 try {
 	console.log('• starting PostgreSQL, fakes and migrations…');
-	stack = await startStack(o);
+	stack = await startStack({ ...o, stops: startingStops });
 	if (process.env.SKIP_BUILD !== '1') {
 		console.log('• building the app…');
 		const b = spawnSync('npx', ['vite', 'build'], { cwd: root, stdio: 'inherit', env: { ...process.env, ...stack.env } });

@@ -31,6 +31,8 @@ const o = {
 const only = process.argv[2] === '--' ? undefined : process.argv[2];
 const filters = process.argv.includes('--') ? process.argv.slice(process.argv.indexOf('--') + 1) : [];
 let stack;
+/** What startStack has started so far (stopped on a signal that arrives before it returns). */
+const startingStops = [];
 let app;
 const children = new Set();
 
@@ -43,7 +45,8 @@ async function cleanup() {
 			app.once('exit', () => (clearTimeout(t), r()));
 		});
 	}
-	await stack?.stop();
+	if (stack) await stack.stop();
+	else for (const stop of startingStops.reverse()) await Promise.resolve(stop()).catch(() => undefined);
 }
 let cleaning = false;
 for (const sig of ['SIGINT', 'SIGTERM']) {
@@ -94,7 +97,7 @@ try {
 	fs.rmSync(dataRoot, { recursive: true, force: true });
 	if (only !== 'unit') ensureChromium();
 	console.log('• starting test PostgreSQL and fakes…');
-	stack = await startStack(o);
+	stack = await startStack({ ...o, stops: startingStops });
 	const testEnv = {
 		...stack.env,
 		NODE_ENV: 'test',

@@ -183,7 +183,7 @@ test('SMTP fake stopped while mail is sent, then started again: every mail arriv
 	expect(await counts()).toEqual(addresses.map(() => 1));
 });
 
-test('S3 fake stopped: an upload answers 503 with a sentence and leaves nothing; started again, the same upload works', async () => {
+test('S3 fake stopped: an upload answers 503 with a sentence and leaves nothing; started again, the same upload works; a deletion meanwhile completes from the queue', async () => {
 	test.setTimeout(120_000);
 	const member = await signedIn('joss@starground.test');
 	const made = await member.post('/builds/new', {
@@ -225,6 +225,78 @@ test('S3 fake stopped: an upload answers 503 with a sentence and leaves nothing;
 	const ok = await upload('application/json');
 	expect(ok.status()).toBe(201);
 	const { photo } = (await ok.json()) as { photo: { id: string } };
-	expect((await member.get(`/media/photos/${photo.id}/320.webp`)).status()).toBe(200);
+	const media = `/media/photos/${photo.id}/320.webp`;
+	expect((await member.get(media)).status()).toBe(200);
+
+	// Deleting while the store is down: the row goes (and the change is recorded), the image is no
+	// longer served, and the objects are deleted by the durable queue once the store is back.
+	const stored = path.resolve('.data/test/s3/starground/photos', photo.id);
+	const objects = () => (fs.existsSync(stored) ? fs.readdirSync(stored).filter((f) => f.endsWith('._S3rver_object')) : []);
+	expect(objects().length).toBeGreaterThan(0);
+	await control('s3/stop');
+	try {
+		const del = await member.delete(`/builds/${slug}/photos/${photo.id}`, { headers: { origin: origin() } });
+		expect(del.status()).toBe(200);
+		expect((await member.get(media)).status()).toBe(404);
+	} finally {
+		await control('s3/start');
+	}
+	const until = Date.now() + 60_000;
+	while (objects().length > 0 && Date.now() < until) await sleep(500);
+	expect(objects()).toEqual([]);
 	await member.dispose();
+});
+
+test('npm start stops everything it started when its PID gets SIGTERM (as under nohup)', async () => {
+	test.setTimeout(240_000);
+	const { spawn } = await import('node:child_process');
+	const net = await import('node:net');
+	// Ports of its own, next to the test ones; a data folder of its own; the build `npm test` just made.
+	const pgPort = Number(process.env.TEST_PG_PORT ?? 54339) + 10;
+	const smtpPort = Number(process.env.TEST_SMTP_PORT ?? 2535) + 10;
+	const s3Port = Number(new URL(process.env.S3_ENDPOINT ?? 'http://127.0.0.1:4579').port) + 10;
+	const viewerPort = Number(new URL(viewer()).port) + 10;
+	const appPort = Number(new URL(origin()).port) + 10;
+	const ports = [pgPort, smtpPort, s3Port, viewerPort, appPort];
+	const open = (port: number) =>
+		new Promise<boolean>((resolve) => {
+			const sock = net.connect({ host: '127.0.0.1', port });
+			sock.once('connect', () => (sock.destroy(), resolve(true)));
+			sock.once('error', () => resolve(false));
+		});
+	for (const p of ports) expect(await open(p), `port ${p} free before`).toBe(false);
+	const dataDir = path.resolve('.data/test/npm-start');
+	fs.rmSync(dataDir, { recursive: true, force: true });
+	// As `nohup npm start &` then `kill <its PID>`: the signal goes to npm, whose script shell dies
+	// without passing it on to scripts/start.js.
+	const parent = spawn('npm', ['start'], {
+		env: {
+			...process.env,
+			SKIP_BUILD: '1',
+			STARGROUND_DATA_DIR: dataDir,
+			STARGROUND_PG_PORT: String(pgPort),
+			STARGROUND_S3_PORT: String(s3Port),
+			STARGROUND_SMTP_PORT: String(smtpPort),
+			STARGROUND_MAIL_VIEWER_PORT: String(viewerPort),
+			PORT: String(appPort)
+		},
+		stdio: ['ignore', 'pipe', 'pipe']
+	});
+	let out = '';
+	parent.stdout.on('data', (d) => (out += d));
+	parent.stderr.on('data', (d) => (out += d));
+	const until = Date.now() + 180_000;
+	while (!out.includes('Starground is running') && Date.now() < until && parent.exitCode === null) await sleep(500);
+	expect(out, out.slice(-2000)).toContain('Starground is running');
+	for (const p of ports) expect(await open(p), `port ${p} in use while running`).toBe(true);
+
+	parent.kill('SIGTERM');
+	const deadline = Date.now() + 45_000;
+	let stillOpen = ports;
+	while (stillOpen.length && Date.now() < deadline) {
+		await sleep(500);
+		stillOpen = (await Promise.all(ports.map(async (p) => ((await open(p)) ? p : null)))).filter((p): p is number => p !== null);
+	}
+	expect(stillOpen, out.slice(-2000)).toEqual([]);
+	fs.rmSync(dataDir, { recursive: true, force: true });
 });

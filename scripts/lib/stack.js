@@ -14,10 +14,13 @@ async function requireFree(port, what) {
 
 /**
  * @param {{ root: string, pgPort: number, s3Port: number, smtpPort: number, mailViewerPort: number,
- *           appPort: number, database: string, fast?: boolean, controls?: boolean }} o
+ *           appPort: number, database: string, fast?: boolean, controls?: boolean,
+ *           stops?: Array<() => unknown> }} o
  */
 export async function startStack(o) {
-	const stops = [];
+	// The caller may pass its own array, so a signal that arrives while we are still starting can stop
+	// what has been started so far.
+	const stops = o.stops ?? [];
 	const stop = async () => {
 		for (const s of stops.reverse()) {
 			try {

@@ -59,6 +59,8 @@ export function isStorageFailure(err: unknown): boolean {
 export function unavailableService(err: unknown, depth = 0): Unavailable | null {
 	if (!err || typeof err !== 'object' || depth > 8) return null;
 	if (err instanceof StorageUnavailableError) return 'storage';
+	// An error of the S3 client (it carries $metadata) is about the store, whatever its code says.
+	if ('$metadata' in err) return isStorageFailure(err) ? 'storage' : null;
 	const e = err as { code?: unknown; errno?: unknown; message?: unknown; cause?: unknown; errors?: unknown };
 	if (typeof e.code === 'string' && DB_CODES.has(e.code)) return 'database';
 	if (typeof e.message === 'string' && /write CONNECTION_CLOSED|connect ECONNREFUSED .*:\d+|Connection terminated|the database system is (starting up|shutting down|in recovery mode)/.test(e.message)) {

@@ -8,6 +8,7 @@ import type { z } from 'zod';
 import { PhotoError, processPhoto } from '../photos';
 import { initials } from './makers';
 import { putObject, deleteObjects } from '../photos';
+import { deleteObjectsDurably } from '../photos/object-deletion';
 
 export type ProfileSettings = z.infer<typeof profileSchema>;
 
@@ -58,7 +59,7 @@ export async function setAvatar(userId: string, bytes: Uint8Array): Promise<stri
 		await deleteObjects([key]).catch(() => {});
 		throw err;
 	}
-	if (previous) await deleteObjects([previous]).catch(() => {});
+	if (previous) await deleteObjectsDurably([previous]);
 	return key;
 }
 
@@ -67,5 +68,5 @@ export async function removeAvatar(userId: string): Promise<void> {
 	const [u] = await db.select({ avatarKey: schema.user.avatarKey }).from(schema.user).where(eq(schema.user.id, userId));
 	if (!u?.avatarKey) return;
 	await db.update(schema.user).set({ avatarKey: null }).where(eq(schema.user.id, userId));
-	await deleteObjects([u.avatarKey]).catch(() => {});
+	await deleteObjectsDurably([u.avatarKey]);
 }

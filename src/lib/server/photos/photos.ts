@@ -5,6 +5,7 @@ import { db, type Tx } from '../db';
 import type { DbLike } from '../db/tx';
 import * as schema from '../db/schema';
 import { deleteObjects, putObject } from './storage';
+import { deleteObjectsDurably } from './object-deletion';
 import { FieldError } from '../http/upload';
 import type { Actor } from '../actor';
 import { afterContentChange } from '../builds/editable';
@@ -283,7 +284,8 @@ export async function processAndStorePhoto(input: StorePhotoInput): Promise<sche
 		)
 	);
 	if (puts.some((p) => p.status === 'rejected')) {
-		await deleteObjects(keys).catch((err) => console.error(`photo ${id}: cleanup after failed upload failed`, err));
+		// Some renditions may have been written: remove them now or from the durable queue (no orphans).
+		await deleteObjectsDurably(keys).catch((err) => console.error(`photo ${id}: cleanup after failed upload failed`, err));
 		const reason = puts.find((p): p is PromiseRejectedResult => p.status === 'rejected')!.reason;
 		console.error(`photo ${id}: storing renditions failed`, reason);
 		// Nothing was written to the database: no row without its objects.
@@ -342,8 +344,8 @@ export async function processAndStorePhoto(input: StorePhotoInput): Promise<sche
 			return inserted;
 		});
 		if (previousCover) {
-			await deleteObjects(photoObjectKeys(previousCover)).catch((err) =>
-				console.error(`photo ${id}: could not delete the previous cover's objects`, err)
+			await deleteObjectsDurably(photoObjectKeys(previousCover)).catch((err) =>
+				console.error(`photo ${id}: could not delete or queue the previous cover's objects`, err)
 			);
 		}
 		return row;
@@ -366,7 +368,8 @@ export async function deletePhoto(photoId: string, changedBy?: Actor): Promise<s
 		}
 		return deleted ?? null;
 	});
-	if (row) await deleteObjects(photoObjectKeys(row));
+	// The row is gone and the change recorded: the objects follow now, or from the durable queue.
+	if (row) await deleteObjectsDurably(photoObjectKeys(row));
 	return row;
 }
 
@@ -385,7 +388,7 @@ async function deletePhotosWhere(where: ReturnType<typeof eq>, clearCoverOf?: st
 		}
 		return deleted;
 	});
-	await deleteObjects(rows.flatMap(photoObjectKeys));
+	await deleteObjectsDurably(rows.flatMap(photoObjectKeys));
 	return rows.length;
 }
 
