@@ -20,6 +20,9 @@ const WRITE = new Set(['POST', 'PUT', 'PATCH', 'DELETE']);
 const STALE_MS = 20_000;
 const KEEP_HOURS = 24;
 
+/** How long to keep trying to record the answer of a committed write while the database is away. */
+const RECORD_RETRY_MS = 10_000;
+
 export const handleIdempotency: Handle = async ({ event, resolve }) => {
 	const key = event.request.headers.get('idempotency-key');
 	if (key === null || !WRITE.has(event.request.method) || !event.url.pathname.startsWith('/api/v1/')) return resolve(event);
@@ -81,14 +84,25 @@ export const handleIdempotency: Handle = async ({ event, resolve }) => {
 		return response;
 	}
 	const text = await response.clone().text();
-	try {
-		await db
-			.update(idempotencyKey)
-			.set({ status: response.status, body: text, contentType: response.headers.get('content-type') })
-			.where(and(eq(idempotencyKey.scope, scope), eq(idempotencyKey.key, key)));
-	} catch (err) {
-		// The write itself succeeded; only its record did not. The answer still goes out.
-		console.error('[idempotency] could not keep the answer', (err as Error).message);
+	// The write is committed: its answer must be kept, or a retry with this key would repeat it. When the
+	// database drops out just after the write (a restart takes a few seconds), try again for a while before
+	// giving up (RECORD_RETRY_MS in all, within the request's time budget).
+	const started = Date.now();
+	for (let delay = 250; ; delay *= 2) {
+		try {
+			await db
+				.update(idempotencyKey)
+				.set({ status: response.status, body: text, contentType: response.headers.get('content-type') })
+				.where(and(eq(idempotencyKey.scope, scope), eq(idempotencyKey.key, key)));
+			break;
+		} catch (err) {
+			if (Date.now() - started + delay > RECORD_RETRY_MS) {
+				// The write itself succeeded; only its record did not. The answer still goes out.
+				console.error('[idempotency] could not keep the answer', (err as Error).message);
+				break;
+			}
+			await new Promise((r) => setTimeout(r, delay));
+		}
 	}
 	return response;
 };
