@@ -267,19 +267,12 @@ export function normaliseLines(
 }
 
 /** A stored line back as editable text (the editor's rows, the CSV export). */
-export function lineToDraft(row: {
-	designators: string;
-	quantity: number;
-	kind: string;
-	valueText: string;
-	tolerancePct: number | null;
-	ratingV: number | null;
-	ratingW: number | null;
-	package: string;
-	notes: string;
-	designValueText: string | null;
-	substitutionReason: string | null;
-}): PartLineDraft {
+export function lineToDraft(
+	row: Pick<
+		PartLineFields,
+		'designators' | 'quantity' | 'kind' | 'valueText' | 'tolerancePct' | 'ratingV' | 'ratingW' | 'package' | 'notes' | 'designValueText' | 'substitutionReason'
+	>
+): PartLineDraft {
 	const num = (x: number | null) => (x === null || x === undefined ? '' : String(x));
 	return {
 		designators: row.designators,
