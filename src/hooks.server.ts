@@ -6,12 +6,13 @@ import { startBackground } from '$lib/server/startup';
 import { handleUnavailable, noteUnavailable } from '$lib/server/hooks/unavailable';
 import { unavailableMessage } from '$lib/server/http/unavailable';
 import { handleIdempotency } from '$lib/server/http/idempotency';
+import { handleReaderCache } from '$lib/server/builds/reader-cache';
 
 export const init: ServerInit = async () => {
 	if (!building) await startBackground();
 };
 
-export const handle: Handle = sequence(handleUnavailable, handleSecurityHeaders, handleApiEnvelope, handleRequestGuards, handleControlCharacters, handleAuth, handleIdempotency, handleApiRateLimit, handleHttpCache);
+export const handle: Handle = sequence(handleUnavailable, handleSecurityHeaders, handleApiEnvelope, handleRequestGuards, handleControlCharacters, handleAuth, handleReaderCache, handleIdempotency, handleApiRateLimit, handleHttpCache);
 
 export const handleError: HandleServerError = ({ error, event, status, message }) => {
 	if (status === 404) return { message: 'Not found' };

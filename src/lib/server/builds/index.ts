@@ -15,3 +15,4 @@ export * from './list';
 export * from './serialize';
 export * from './editable';
 export * from './revision-diff';
+export * from './published';

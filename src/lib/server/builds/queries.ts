@@ -11,6 +11,7 @@ import { isSlugShaped } from './slug';
 import { serializeBuildDetail } from './serialize';
 import { getReviewState } from '../reviews/state';
 import type { DbLike } from '../db/tx';
+import { loadPublishedContent, seesLiveContent } from './published';
 
 /** The build row with this slug, or null (no visibility check: callers decide). */
 export async function getBuildBySlug(slug: string, dbx: DbLike = db): Promise<schema.Build | null> {
@@ -125,10 +126,23 @@ function strip(r: LineageLink & { ownerId: string }): LineageLink {
 }
 
 /** Everything the public build page shows, or 404 when `viewer` may not see the build. */
-export async function getBuildPage(slug: string, viewer: Viewer) {
-	const b = await requireVisibleBuild(slug, viewer);
-	const [maker, content, lineage] = await Promise.all([getMaker(b.ownerId), loadBuildContent(b), loadLineage(b, viewer)]);
+export async function getBuildPage(slug: string, viewer: Viewer, row?: schema.Build) {
+	const live = row ?? (await requireVisibleBuild(slug, viewer));
+	if (row) assertCanView(viewer, row);
+	const [maker, { build: b, content }, lineage] = await Promise.all([getMaker(live.ownerId), contentFor(live, viewer), loadLineage(live, viewer)]);
 	return { build: b, maker, ...content, lineage };
+}
+
+/**
+ * The build and content `viewer` may see: live for its maker and whoever may edit it, the latest
+ * published revision for everyone else (./published).
+ */
+export async function contentFor(b: schema.Build, viewer: Viewer, dbx: DbLike = db): Promise<{ build: schema.Build; content: BuildContent }> {
+	if (!seesLiveContent(viewer, b)) {
+		const published = await loadPublishedContent(b, dbx);
+		if (published) return published;
+	}
+	return { build: b, content: await loadBuildContent(b, dbx) };
 }
 
 /**
@@ -136,12 +150,12 @@ export async function getBuildPage(slug: string, viewer: Viewer) {
  * maker and admins; 404 otherwise), read and serialized (./serialize).
  */
 export async function getBuildDetail(slug: string, viewer: Viewer, dbx: DbLike = db) {
-	const build = await requireVisibleBuild(slug, viewer, dbx);
-	const [maker, content, lineage, review] = await Promise.all([
-		getMaker(build.ownerId, dbx),
-		loadBuildContent(build, dbx),
-		loadLineage(build, viewer, dbx),
-		getReviewState(build.id)
+	const live = await requireVisibleBuild(slug, viewer, dbx);
+	const [maker, { build, content }, lineage, review] = await Promise.all([
+		getMaker(live.ownerId, dbx),
+		contentFor(live, viewer, dbx),
+		loadLineage(live, viewer, dbx),
+		getReviewState(live.id)
 	]);
 	return serializeBuildDetail({ build, maker, content, lineage, review });
 }

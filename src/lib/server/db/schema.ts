@@ -56,7 +56,15 @@ export const build = pgTable(
 		),
 		publishedAt: timestamp('published_at'),
 		createdAt: timestamp('created_at').defaultNow().notNull(),
-		updatedAt: timestamp('updated_at').defaultNow().notNull()
+		updatedAt: timestamp('updated_at').defaultNow().notNull(),
+		/**
+		 * What a reader of the build page sees, versioned: database triggers (migration 0004) bump it on
+		 * every write to the build row or to a row the page shows (steps, photos, spec blocks, parts,
+		 * revisions, reviews, hazard tags, comments, lineage, names). The reader cache keys on it.
+		 */
+		viewVersion: integer('view_version').default(0).notNull(),
+		/** When viewVersion last moved (Last-Modified of the reader's page). */
+		viewChangedAt: timestamp('view_changed_at', { precision: 3 }).defaultNow().notNull()
 	},
 	(t) => [
 		index('build_owner_idx').on(t.ownerId),

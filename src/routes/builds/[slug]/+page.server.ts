@@ -20,11 +20,28 @@ import { setBuildLocked } from '$lib/server/moderation';
 import type { Actions, PageServerLoad } from './$types';
 import { actorOf } from '$lib/server/actor';
 import { attempt } from '$lib/server/http';
+import { cachedReaderData, readerCacheable } from '$lib/server/builds/reader-cache';
+import type { Build } from '$lib/server/db/schema';
 
 export const load: PageServerLoad = async ({ params, locals, url }) => {
+	const extra = {
+		origin: url.origin,
+		/** Set by the editor's redirect after publishing: the revision number it became. */
+		justPublished: /^[1-9]\d{0,5}$/.test(url.searchParams.get('published') ?? '') ? Number(url.searchParams.get('published')) : null
+	};
+	if (!locals.user) {
+		// Not signed in: the same for everyone, cached per build version ($lib/server/builds/reader-cache).
+		const row = locals.readerBuild ?? (await getBuildBySlug(params.slug));
+		if (readerCacheable(row)) return { ...(await cachedReaderData(row, () => pageData(params.slug, locals, row))), ...extra };
+	}
+	return { ...(await pageData(params.slug, locals)), ...extra };
+};
+
+/** What the page shows `locals.user` (null: an anonymous reader) of the build; `row` when already read. */
+async function pageData(slug: string, locals: App.Locals, row?: Build) {
 	const viewer = actorOf(locals.user);
 	const user = locals.user;
-	const page = await getBuildPage(params.slug, viewer);
+	const page = await getBuildPage(slug, viewer, row);
 	const b = page.build;
 	const [review, flagMarkers, comments, saved] = await Promise.all([
 		getReviewPanel(b.id, viewer),
@@ -68,12 +85,9 @@ export const load: PageServerLoad = async ({ params, locals, url }) => {
 			own: isOwner(viewer, b),
 			derive: canDerive(viewer, b),
 			lock: canLock(viewer)
-		},
-		origin: url.origin,
-		/** Set by the editor's redirect after publishing: the revision number it became. */
-		justPublished: /^[1-9]\d{0,5}$/.test(url.searchParams.get('published') ?? '') ? Number(url.searchParams.get('published')) : null
+		}
 	};
-};
+}
 
 /** The build for an action; the domain call then decides (403 for someone who may not change it). */
 async function found(slug: string) {

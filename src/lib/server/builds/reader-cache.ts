@@ -1,0 +1,117 @@
+/**
+ * The anonymous reader cache of build pages. What a visitor who is not signed in gets for a published (or
+ * archived) build is the same for everyone, so its page data is computed once per version and kept in a
+ * bounded in-process LRU (lru-cache), and the page answers conditional requests (ETag, Last-Modified → 304).
+ *
+ * Correct across app instances: the key is the build id plus `build.view_version`, which database
+ * triggers (migration 0004) bump in the same transaction as every write that changes the reader's view
+ * (the build row, steps, photos, spec blocks, parts, revisions, reviews, hazard tags, comments, lineage,
+ * members' names). Each request reads that version with the build row (one indexed query it makes
+ * anyway), so an instance never serves a version another instance has already replaced. Signed-in
+ * members, drafts and URLs with a query string are never cached.
+ */
+import type { Handle } from '@sveltejs/kit';
+import { createHash } from 'node:crypto';
+import { LRUCache } from 'lru-cache';
+import { env } from '$env/dynamic/private';
+import { version } from '$app/environment';
+import type { Build } from '../db/schema';
+import { getBuildBySlug } from './queries';
+import { etagMatches } from '../http-cache';
+
+function positive(v: string | undefined, fallback: number): number {
+	const n = Number(v);
+	return Number.isFinite(n) && n > 0 ? Math.floor(n) : fallback;
+}
+
+type PageData = Record<string, unknown>;
+type Compute = () => Promise<PageData>;
+
+let cache: LRUCache<string, PageData, Compute> | null = null;
+
+/** The cache (made on first use, so `READER_CACHE_MAX` / `READER_CACHE_MB` are read from the environment). */
+function readerCache(): LRUCache<string, PageData, Compute> {
+	cache ??= new LRUCache<string, PageData, Compute>({
+		max: positive(env.READER_CACHE_MAX, 2000),
+		maxSize: positive(env.READER_CACHE_MB, 64) * 1024 * 1024,
+		// Approximate bytes held: the JSON length (strings dominate), counted once when stored.
+		sizeCalculation: (v) => Math.max(1, JSON.stringify(v).length),
+		fetchMethod: async (_key, _stale, { context }) => context()
+	});
+	return cache;
+}
+
+/** The cache key of what an anonymous reader sees of `b`. */
+export function readerKey(b: Pick<Build, 'id' | 'viewVersion'>): string {
+	return `${b.id}:${b.viewVersion}`;
+}
+
+/** True when an anonymous reader's view of `b` may be cached (published or archived). */
+export function readerCacheable(b: Pick<Build, 'status'> | null): b is Build {
+	return !!b && b.status !== 'draft';
+}
+
+/**
+ * The anonymous page data of `b` at its current view version: from the cache, or computed once (two
+ * requests that miss at the same time share one computation). The key is read before the data, so
+ * what is stored under a version is never older than that version.
+ */
+export async function cachedReaderData<T extends PageData>(b: Pick<Build, 'id' | 'viewVersion'>, compute: () => Promise<T>): Promise<T> {
+	const v = await readerCache().fetch(readerKey(b), { context: compute });
+	return v as T;
+}
+
+/** Drop everything (tests; never needed for correctness). */
+export function clearReaderCache(): void {
+	cache?.clear();
+}
+
+/** How many entries and bytes the cache holds (for the bench script and tests). */
+export function readerCacheStats(): { entries: number; bytes: number } {
+	return { entries: cache?.size ?? 0, bytes: cache?.calculatedSize ?? 0 };
+}
+
+/** Weak ETag of the anonymous page of `b`: app version, origin, build id and view version. */
+export function readerEtag(b: Pick<Build, 'id' | 'viewVersion'>, origin: string): string {
+	return `W/"r${createHash('sha1').update(`${version}\n${origin}\n${b.id}\n${b.viewVersion}`).digest('base64url').slice(0, 22)}"`;
+}
+
+const BUILD_PAGE = /^\/builds\/([^/]+)\/?$/;
+/** Readers' browsers keep the page but ask every time (a new comment shows at once). */
+export const READER_CACHE_CONTROL = 'no-cache';
+
+/**
+ * For an anonymous GET of a build page: read the build row (with its view version) once, answer 304 when
+ * the browser holds this version (If-None-Match, or If-Modified-Since when no ETag was sent), otherwise
+ * let the page render (its load takes the row from `locals.readerBuild`) and label the answer.
+ */
+export const handleReaderCache: Handle = async ({ event, resolve }) => {
+	const m = event.request.method === 'GET' && !event.isDataRequest && !event.locals.user && !event.url.search ? BUILD_PAGE.exec(event.url.pathname) : null;
+	if (!m) return resolve(event);
+	let slug: string;
+	try {
+		slug = decodeURIComponent(m[1]);
+	} catch {
+		return resolve(event);
+	}
+	const b = await getBuildBySlug(slug);
+	if (!readerCacheable(b)) return resolve(event);
+	event.locals.readerBuild = b;
+	const etag = readerEtag(b, event.url.origin);
+	const changed = Math.floor(b.viewChangedAt.getTime() / 1000) * 1000;
+	const labels = {
+		etag,
+		'last-modified': new Date(changed).toUTCString(),
+		'cache-control': READER_CACHE_CONTROL,
+		vary: 'Cookie'
+	};
+	const inm = event.request.headers.get('if-none-match');
+	const ims = Date.parse(event.request.headers.get('if-modified-since') ?? '');
+	if (inm ? etagMatches(inm, etag) : Number.isFinite(ims) && ims >= changed) {
+		return new Response(null, { status: 304, headers: labels });
+	}
+	const response = await resolve(event);
+	if (response.status !== 200 || response.headers.has('set-cookie')) return response;
+	for (const [k, v] of Object.entries(labels)) response.headers.set(k, v);
+	return response;
+};
