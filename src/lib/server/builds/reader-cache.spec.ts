@@ -10,6 +10,7 @@ import { db } from '../db';
 import { createTestUser, removeTestUsers, uniqueTitle } from '../testing/builds';
 import { addStep, archive, createDraft, getBuildDetail, publish, publishRevision, updateBuild, updateStep } from './index';
 import { postComment } from '../comments';
+import type { BuildInput } from '$lib/schemas/build';
 import { setBuildLocked, setCommentHidden } from '../moderation';
 import { clearReaderCache, handleReaderCache, readerCacheStats } from './reader-cache';
 import { load } from '../../../routes/builds/[slug]/+page.server';
@@ -29,7 +30,7 @@ afterAll(async () => {
 beforeEach(() => clearReaderCache());
 
 const ORIGIN = 'http://127.0.0.1:3999';
-const fields = (title: string) => ({
+const fields = (title: string): BuildInput => ({
 	title,
 	summary: 'Two monolithic power amplifier ICs on ±28 V rails.',
 	category: 'power-amp',
