@@ -251,3 +251,164 @@ export function primaryFuseRangeA(transformerVA: number, mainsVac: number): { mi
 	const ip = primaryCurrentA(transformerVA, mainsVac);
 	return { minA: 1.5 * ip, maxA: 3 * ip };
 }
+
+/**
+ * RMS-to-DC current ratio of the charging pulses of a full-wave capacitor-input rectifier: 1.8. Transformer makers'
+ * rectifier design tables give the secondary AC current of a full-wave bridge with capacitor input as about 1.8 ×
+ * the DC load current (a transformer maker's rectifier design guide; figure from memory — check the guide of the
+ * transformer you buy). The real ratio depends on the winding resistance and the reservoir (Schade's curves);
+ * 1.8 is the design-table figure for a well-sized supply.
+ */
+export const CAPACITOR_INPUT_FORM_FACTOR = 1.8;
+
+/** Inputs of rectifierCurrents(). */
+export interface RectifierCurrentsInput {
+	rectifier: RectifierKind;
+	/** DC load current per rail, A (both rails equally loaded for bridge-split). */
+	loadCurrentA: number;
+	/** RMS/DC ratio of the charging pulses (default CAPACITOR_INPUT_FORM_FACTOR). */
+	formFactor?: number;
+}
+
+/** Currents of a capacitor-input rectifier at one DC load current per rail. */
+export interface RectifierCurrents {
+	/** RMS current in the winding that feeds one rail (each half of a centre-tapped winding), A. */
+	secondaryRmsA: number;
+	/** Peak current of one charging pulse through a diode, A. */
+	peakDiodeCurrentA: number;
+	/** Average current through one diode, A. */
+	diodeAverageA: number;
+	/** RMS ripple current in the reservoir of one rail, A. */
+	rippleCurrentA: number;
+	/** How long each charging pulse lasts, in degrees of the mains cycle. */
+	conductionDeg: number;
+}
+
+/**
+ * Secondary, diode and reservoir currents of a capacitor-input rectifier. Method: the charging current of one rail is
+ * a train of pulses, one per ripple period (half a mains cycle, full wave), whose RMS is formFactor × the DC load
+ * current (transformer makers' design tables, 1.8 for full wave); each pulse is taken as a triangle (the usual
+ * conduction-angle approximation: charging starts where the rising sine meets the reservoir's valley and stops near
+ * the crest). A triangle train of duty D (pulse width / period) has RMS/DC = 2/√(3D) and peak/DC = 2/D, so
+ * D = 4/(3·k²) and the peak is 1.5·k²·I. Then, per winding: a bridge's winding and each half of a bridge-split
+ * winding carry every pulse (RMS k·I); each half of a two-diode centre-tap winding carries every other one
+ * (k·I/√2); a half-wave winding carries one pulse per mains cycle of the same width and twice the charge (√2·k·I,
+ * peak 3·k²·I). The reservoir carries the pulses less the DC it delivers: √(RMS² − I²).
+ * 3 A, bridge-split → secondaryRmsA 5.4, peakDiodeCurrentA 14.58, rippleCurrentA 4.49, conductionDeg 74.1.
+ */
+export function rectifierCurrents(input: RectifierCurrentsInput): RectifierCurrents {
+	const { rectifier, loadCurrentA, formFactor = CAPACITOR_INPUT_FORM_FACTOR } = input;
+	if (!(rectifier in DIODE_DROPS)) throw new InputRangeError('rectifier', `unknown rectifier "${String(rectifier)}"`);
+	nonNeg('loadCurrentA', loadCurrentA, 'A');
+	if (!(Number.isFinite(formFactor) && formFactor > 1 && formFactor <= 5))
+		throw new InputRangeError('formFactor', 'formFactor must be above 1 and at most 5');
+	const k = formFactor;
+	const I = loadCurrentA;
+	const duty = 4 / (3 * k * k);
+	const conductionDeg = 180 * duty;
+	if (rectifier === 'half-wave') {
+		const rms = Math.SQRT2 * k * I;
+		return { secondaryRmsA: rms, peakDiodeCurrentA: 3 * k * k * I, diodeAverageA: I, rippleCurrentA: Math.sqrt(Math.max(0, rms * rms - I * I)), conductionDeg };
+	}
+	const train = k * I;
+	return {
+		secondaryRmsA: rectifier === 'center-tap' ? train / Math.SQRT2 : train,
+		peakDiodeCurrentA: 1.5 * k * k * I,
+		diodeAverageA: I / 2,
+		rippleCurrentA: Math.sqrt(Math.max(0, train * train - I * I)),
+		conductionDeg
+	};
+}
+
+/**
+ * Rated RMS current of the winding that feeds one rail, from the transformer's VA when the winding's own rating is
+ * not known: the VA spread over the whole secondary (two halves of secondaryVac for bridge-split and centre-tap,
+ * one winding otherwise), assuming the transformer has no other secondary. windingRatingFromVaA(300, 25, 'bridge-split') → 6 A.
+ */
+export function windingRatingFromVaA(transformerVA: number, secondaryVac: number, rectifier: RectifierKind): number {
+	pos('transformerVA', transformerVA, 'VA');
+	pos('secondaryVac', secondaryVac, 'V');
+	const halves = rectifier === 'bridge-split' || rectifier === 'center-tap' ? 2 : 1;
+	return transformerVA / (halves * secondaryVac);
+}
+
+/** Inputs of railSag(): the supply, how the transformer sags, and the class AB amplifier it feeds. */
+export interface RailSagInput {
+	secondaryVac: number;
+	rectifier: RectifierKind;
+	diodeDropV?: number;
+	mainsHz: number;
+	/** Reservoir per rail, F. */
+	capacitanceF: number;
+	/** Off-load rise over the rated secondary, % (default 10). */
+	regulationPct?: number;
+	/** Rated RMS current of the winding that feeds one rail, A (the rail is at the rated secondary there). */
+	windingRatedA: number;
+	/** Mains relative to nominal, % (−10 for low mains; default 0). */
+	mainsPct?: number;
+	/** Class AB/B stages on these rails (channels). */
+	channels: number;
+	loadOhm: number;
+	/** Output swing lost per side, V. */
+	dropoutV?: number;
+	/** Standing current drawn from each rail by all stages together, A. */
+	quiescentA?: number;
+}
+
+/** One point of railSag(): output power per channel and the rail (per rail, average under load) at it. */
+export interface RailSagPoint {
+	powerW: number;
+	railV: number;
+	loadCurrentA: number;
+}
+
+/**
+ * The rail under load, from idle to clipping (the supply bench tool's plot; REFERENCE.md §4.2 "the amp's clipping power
+ * must be computed from the loaded rail"). Model: the crest falls linearly with the DC load from the off-load value
+ * √2·Vac·(1 + reg) to the rated √2·Vac at the DC current that loads the winding to its rating (windingRatedA /
+ * (RMS/DC ratio of rectifierCurrents)) — a straight-line regulation model (common practice, no single source); then
+ * the diode drops and half the ripple I/(fr·C) come off. Each class B channel draws Vpk/(π·R) from each rail for a
+ * sine of peak Vpk (REFERENCE.md §4.3); a one-rail supply feeds a capacitor-coupled stage whose swing is half the
+ * rail. Clipping: where the peak swing plus the dropout meets the per-side rail. `points` run from idle to clipping.
+ */
+export function railSag(input: RailSagInput, steps = 40): { points: RailSagPoint[]; clipPowerW: number; clipRailV: number; idleRailV: number } {
+	const { secondaryVac, rectifier, diodeDropV = 0.7, mainsHz, capacitanceF, regulationPct = REGULATION_ASSUMED_PCT, windingRatedA, mainsPct = 0, channels, loadOhm, dropoutV = 0, quiescentA = 0 } = input;
+	pos('secondaryVac', secondaryVac, 'V');
+	pos('capacitanceF', capacitanceF, 'F');
+	pos('windingRatedA', windingRatedA, 'A');
+	pos('loadOhm', loadOhm, 'Ω');
+	pos('channels', channels, '');
+	nonNeg('dropoutV', dropoutV, 'V');
+	nonNeg('quiescentA', quiescentA, 'A');
+	nonNeg('regulationPct', regulationPct, '%');
+	if (!(Number.isFinite(mainsPct) && mainsPct > -100)) throw new InputRangeError('mainsPct', 'mainsPct must be above −100 %');
+	const fr = rippleHz(rectifier, mainsHz);
+	const drops = DIODE_DROPS[rectifier] * diodeDropV;
+	const crest = Math.SQRT2 * secondaryVac * (1 + mainsPct / 100);
+	const perWindingRatio = rectifierCurrents({ rectifier, loadCurrentA: 1 }).secondaryRmsA;
+	const ratedDcA = windingRatedA / perWindingRatio;
+	const reg = regulationPct / 100;
+	const rail = (i: number) => crest * (1 + reg * Math.max(0, 1 - i / ratedDcA)) - drops - i / (fr * capacitanceF) / 2;
+	const perSide = (v: number) => (RAIL_COUNT[rectifier] === 2 ? v : v / 2);
+	const current = (vpk: number) => quiescentA + (channels * vpk) / (Math.PI * loadOhm);
+	const idleRailV = rail(quiescentA);
+	if (!(perSide(idleRailV) > dropoutV))
+		throw new InputRangeError('dropoutV', 'the rail at idle does not clear the dropout: no output is possible');
+	// f(vpk) = per-side rail − dropout − vpk falls as vpk rises: bisect for its zero.
+	let lo = 0;
+	let hi = perSide(idleRailV) - dropoutV;
+	for (let n = 0; n < 60; n++) {
+		const mid = (lo + hi) / 2;
+		if (perSide(rail(current(mid))) - dropoutV - mid > 0) lo = mid;
+		else hi = mid;
+	}
+	const clipVpk = lo;
+	const clipPowerW = (clipVpk * clipVpk) / (2 * loadOhm);
+	const points: RailSagPoint[] = [];
+	for (let n = 0; n <= steps; n++) {
+		const vpk = (clipVpk * n) / steps;
+		const i = current(vpk);
+		points.push({ powerW: (vpk * vpk) / (2 * loadOhm), railV: rail(i), loadCurrentA: i });
+	}
+	return { points, clipPowerW, clipRailV: rail(current(clipVpk)), idleRailV };
+}

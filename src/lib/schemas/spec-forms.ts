@@ -119,6 +119,7 @@ export const SPEC_FORMS: Record<SpecKind, SpecSection[]> = {
 				{ path: 'mainsHz', label: 'Mains frequency', type: n('Hz'), placeholder: '50', initial: '50' },
 				{ path: 'transformerVA', label: 'Transformer rating', type: n('VA'), placeholder: '160' },
 				{ path: 'secondaryVac', label: 'Secondary per rail (RMS, at rated load)', type: n('V'), placeholder: '20' },
+				{ path: 'secondaryRatedA', label: 'Winding current rating (per rail winding)', type: n('A'), optional: true, hint: 'RMS, from the transformer’s data. Blank: the VA spread over the secondary.', placeholder: '3' },
 				{ path: 'regulationPct', label: 'Transformer regulation', type: n('%'), optional: true, hint: 'Off-load rise over the rated secondary; from the transformer’s data. Blank: 10 % assumed.', placeholder: '7' },
 				{ path: 'mainsHighPct', label: 'High-mains allowance', type: n('%'), optional: true, hint: 'Blank: 10 %.', placeholder: '10' },
 				{ path: 'mainsLowPct', label: 'Low-mains allowance', type: n('%'), optional: true, hint: 'Blank: 10 %.', placeholder: '10' },
@@ -133,6 +134,7 @@ export const SPEC_FORMS: Record<SpecKind, SpecSection[]> = {
 				{ path: 'diodeDropV', label: 'Diode drop', type: n('V'), optional: true, hint: 'Blank: 0.7 V.', placeholder: '0.7' },
 				{ path: 'reservoirF', label: 'Reservoir per rail', type: farad, hint: 'All the reservoir capacitance of one rail, e.g. 10000u or 10m.', placeholder: '10000u' },
 				{ path: 'capRatingV', label: 'Reservoir voltage rating', type: n('V'), placeholder: '50' },
+				{ path: 'capRippleRatingA', label: 'Reservoir ripple-current rating (per rail)', type: n('A'), optional: true, hint: 'RMS at 100/120 Hz; add the ratings of parallel capacitors. Blank: not checked.', placeholder: '4.5' },
 				{ path: 'loadCurrentA', label: 'Load current per rail', type: n('A'), placeholder: '1.5' },
 				{ path: 'amplifierDemandW', label: 'Amplifier output it feeds (sum of rated powers)', type: n('W'), optional: true, placeholder: '80' }
 			]

@@ -88,7 +88,12 @@ const supplyOut = z.object({
 	highMainsTotalDcV: num('Rail to rail at high mains (× 2 for bridge-split), V'),
 	regulationPct: num('Regulation used (10 when not given), %'),
 	mainsHighPct: num('%'),
-	mainsLowPct: num('%')
+	mainsLowPct: num('%'),
+	secondaryRmsA: num('RMS current in the winding feeding one rail at loadCurrentA: capacitor input, charging pulses of RMS 1.8 × the DC current (transformer makers’ design tables), each half of a centre-tapped winding for bridge-split, /√2 for center-tap, A'),
+	peakDiodeCurrentA: num('Peak of one charging pulse through a diode (triangular pulse of the same RMS), A'),
+	diodeAverageA: num('Average current through one diode, A'),
+	rippleCurrentA: num('RMS ripple current in one rail’s reservoir, √(pulse RMS² − loadCurrentA²), A'),
+	conductionDeg: num('Duration of each charging pulse, degrees of the mains cycle')
 });
 const gainOut = z.object({ gain: num('Voltage gain, 1 + Rf/Ri'), gainDb: num('Gain in dB') });
 const cornerOut = z.object({ cornerHz: num('First-order corner 1/(2πRC), Hz') });
@@ -364,7 +369,7 @@ export const OPERATIONS: Operation[] = [
 		tag: 'Spec checks',
 		summary: 'Check a spec block: the values worked out from its numbers, and its checks',
 		description:
-			'`data` is validated by the schema of its `kind`; issue paths start with `data.`. Checks are note, caution or danger. A passing check is a calculation, not a safety approval: mains, stored charge and heat can hurt — defer to local electrical codes and licensed practice.',
+			'`data` is validated by the schema of its `kind`; issue paths start with `data.`. Checks are note, caution or danger. A supply block’s `derived` also carries the rectifier’s currents at `loadCurrentA` — `secondaryRmsA`, `peakDiodeCurrentA`, `diodeAverageA`, `rippleCurrentA`, `conductionDeg` (as the supply bench tool), `windingRatedA` (`secondaryRatedA`, or `transformerVA` spread over the secondary) and `windingLoadRatio` — checked by `supply.winding-current` (caution: secondaryRmsA above windingRatedA) and `supply.ripple-current` (caution: rippleCurrentA above `capRippleRatingA` when stated). A passing check is a calculation, not a safety approval: mains, stored charge and heat can hurt — defer to local electrical codes and licensed practice.',
 		body: specCheckBody,
 		response: specCheckOut,
 		errors: [400, 422]

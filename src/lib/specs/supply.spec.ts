@@ -118,6 +118,37 @@ describe('supply block — checks at their thresholds', () => {
 	});
 });
 
+describe('supply block — under load (capacitor-input rectifier currents)', () => {
+	// Transformer makers' rectifier tables: full-wave bridge, capacitor input → secondary AC current ≈ 1.8 × DC load
+	// current (from memory). Fixture: 300 VA over 25-0-25 V → 300 / (2 · 25) = 6 A per half (hand).
+	it('3 A per rail: 5.4 A RMS per half-winding against 6 A from the VA, ripple current 3·√(1.8² − 1) = 4.49 A', () => {
+		const { derived, checks } = deriveSupply(base());
+		expect(derived.secondaryRmsA).toBeCloseTo(5.4, 9);
+		expect(derived.windingRatedA).toBeCloseTo(6, 9);
+		expect(Math.abs(derived.rippleCurrentA - 4.49)).toBeLessThan(0.005);
+		expect(checks).toEqual([]);
+	});
+	it('supply.winding-current: caution above the rating (6 A ↔ 3.333 A DC per rail), silent at 3.333 A', () => {
+		// 6 A / 1.8 = 3.3333 A DC per rail is the threshold (hand).
+		expect(ids(base({ loadCurrentA: 3.333 }))).not.toContain('supply.winding-current:caution');
+		expect(ids(base({ loadCurrentA: 3.334 }))).toContain('supply.winding-current:caution');
+		// A stated winding rating replaces the VA estimate: 4 A → threshold 2.222 A.
+		expect(ids(base({ secondaryRatedA: 4, loadCurrentA: 2.222 }))).not.toContain('supply.winding-current:caution');
+		const c = deriveSupply(base({ secondaryRatedA: 4, loadCurrentA: 2.223 })).checks.find((x) => x.id === 'supply.winding-current');
+		expect(c?.level).toBe('caution');
+		expect(c?.caution).toMatch(/licensed practice/);
+		// A single winding into a bridge: 160 VA / 25 V = 6.4 A → threshold 3.556 A.
+		expect(ids(base({ rectifier: 'bridge', transformerVA: 160, fuse: { ratingA: 1.6, type: 'slow' }, loadCurrentA: 3.555 }))).not.toContain('supply.winding-current:caution');
+		expect(ids(base({ rectifier: 'bridge', transformerVA: 160, fuse: { ratingA: 1.6, type: 'slow' }, loadCurrentA: 3.556 }))).toContain('supply.winding-current:caution');
+	});
+	it('supply.ripple-current: caution above the reservoir’s stated ripple rating (4.49 A at 3 A), nothing when not stated', () => {
+		const rms = 3 * Math.sqrt(1.8 * 1.8 - 1); // 4.4900 A
+		expect(ids(base({ capRippleRatingA: rms + 0.001 }))).not.toContain('supply.ripple-current:caution');
+		expect(ids(base({ capRippleRatingA: rms - 0.001 }))).toContain('supply.ripple-current:caution');
+		expect(ids(base({ capRippleRatingA: null }))).not.toContain('supply.ripple-current:caution');
+	});
+});
+
 describe('supply block — schema', () => {
 	it('defaults: diode 0.7 V, mains ±10 %, mains powered; regulation stays absent (assumed at derive time)', () => {
 		const { diodeDropV: _d, regulationPct: _r, ...rest } = supplyBlock();

@@ -14,13 +14,16 @@ import {
 	capMarginRatio,
 	primaryCurrentA,
 	primaryFuseRangeA,
+	rectifierCurrents,
 	storedEnergyJ,
+	windingRatingFromVaA,
 	supplyWorstCase,
 	transformerVaNeeded,
 	REGULATION_ASSUMED_PCT,
-	MAINS_TOLERANCE_PCT
+	MAINS_TOLERANCE_PCT,
+	CAPACITOR_INPUT_FORM_FACTOR
 } from '../engineering';
-import { CHARGE_CAUTION, MAINS_CAUTION, flag, fmt, num, oneOf, pos, type Check, type SpecResult } from './types';
+import { CHARGE_CAUTION, HEAT_CAUTION, MAINS_CAUTION, flag, fmt, num, oneOf, pos, type Check, type SpecResult } from './types';
 
 /** Chassis materials (API.md). */
 export const CHASSIS = ['metal', 'plastic', 'wood', 'none'] as const;
@@ -86,7 +89,11 @@ export const supplySpec = z
 		mainsHighPct: num(0, 25, '%').default(MAINS_TOLERANCE_PCT),
 		mainsLowPct: num(0, 25, '%').default(MAINS_TOLERANCE_PCT),
 		/** Sum of the rated continuous output powers this supply feeds, for the VA rule. W. */
-		amplifierDemandW: pos(10_000, 'W').nullish()
+		amplifierDemandW: pos(10_000, 'W').nullish(),
+		/** Rated RMS current of the winding that feeds one rail (each half of a centre-tapped winding), A; from transformerVA when absent. */
+		secondaryRatedA: pos(1000, 'A').nullish(),
+		/** Ripple-current rating of one rail's reservoir at 100/120 Hz (add the ratings of parallel capacitors), A RMS. */
+		capRippleRatingA: pos(1000, 'A').nullish()
 	})
 	.superRefine((d, ctx) => {
 		const drops = DIODE_DROPS[d.rectifier] * d.diodeDropV;
@@ -135,6 +142,20 @@ export interface SupplyDerived {
 	vaHeadroomRatio: number | null;
 	bleederTimeS: number | null;
 	bleederPowerW: number | null;
+	/** RMS current in the winding feeding one rail at loadCurrentA (capacitor input, form factor 1.8). */
+	secondaryRmsA: number;
+	/** Peak current of one charging pulse through a diode. */
+	peakDiodeCurrentA: number;
+	/** RMS ripple current in one rail's reservoir. */
+	rippleCurrentA: number;
+	/** Average current through one diode. */
+	diodeAverageA: number;
+	/** Duration of each charging pulse, degrees of the mains cycle. */
+	conductionDeg: number;
+	/** Rated RMS current of that winding: secondaryRatedA, or transformerVA spread over the secondary. */
+	windingRatedA: number;
+	/** secondaryRmsA / windingRatedA. */
+	windingLoadRatio: number;
 }
 
 /** VA rule check shared by the supply block and the cross-block check. transformerCheck('supply.transformer-small', 100, 100) → note. */
@@ -183,6 +204,9 @@ export function deriveSupply(data: SupplySpec): SpecResult<SupplyDerived> {
 	const ip = primaryCurrentA(data.transformerVA, data.mainsVac);
 	const bleederOhm = typeof data.bleeder === 'object' && data.bleeder !== null ? data.bleeder.ohm : null;
 	const vaNeeded = data.amplifierDemandW ? transformerVaNeeded(data.amplifierDemandW) : null;
+	const currents = rectifierCurrents({ rectifier: data.rectifier, loadCurrentA: data.loadCurrentA });
+	const ratingFromVa = data.secondaryRatedA === undefined || data.secondaryRatedA === null;
+	const windingRatedA = ratingFromVa ? windingRatingFromVaA(data.transformerVA, data.secondaryVac, data.rectifier) : data.secondaryRatedA!;
 	const derived: SupplyDerived = {
 		peakDcV: rails.peakDcV,
 		rippleVpp: rails.rippleVpp,
@@ -201,7 +225,14 @@ export function deriveSupply(data: SupplySpec): SpecResult<SupplyDerived> {
 		vaNeeded,
 		vaHeadroomRatio: vaNeeded ? data.transformerVA / vaNeeded : null,
 		bleederTimeS: bleederOhm ? bleederTimeS({ bleederOhm, capacitanceF: data.reservoirF, startV: highV, safeV: BLEEDER_SAFE_V }) : null,
-		bleederPowerW: bleederOhm ? bleederPowerW(highV, bleederOhm) : null
+		bleederPowerW: bleederOhm ? bleederPowerW(highV, bleederOhm) : null,
+		secondaryRmsA: currents.secondaryRmsA,
+		peakDiodeCurrentA: currents.peakDiodeCurrentA,
+		rippleCurrentA: currents.rippleCurrentA,
+		diodeAverageA: currents.diodeAverageA,
+		conductionDeg: currents.conductionDeg,
+		windingRatedA,
+		windingLoadRatio: currents.secondaryRmsA / windingRatedA
 	};
 
 	const checks: Check[] = [];
@@ -293,6 +324,22 @@ export function deriveSupply(data: SupplySpec): SpecResult<SupplyDerived> {
 			level: 'caution',
 			message: `The ${fmt(data.capRatingV)} V reservoir capacitors have a thin margin: the rail reaches ${fmt(highV)} V off load at +${fmt(data.mainsHighPct)} % mains, and ${fmt(CAP_MARGIN)} × that is ${fmt(CAP_MARGIN * highV)} V (common practice).`,
 			values: { capRatingV: data.capRatingV, highMainsPeakDcV: highV, ratio: data.capRatingV / highV, margin: CAP_MARGIN },
+			caution: CHARGE_CAUTION
+		});
+	if (currents.secondaryRmsA > windingRatedA)
+		checks.push({
+			id: 'supply.winding-current',
+			level: 'caution',
+			message: `At ${fmt(data.loadCurrentA)} A per rail a capacitor-input rectifier draws about ${fmt(currents.secondaryRmsA)} A RMS from the winding (short charging pulses, peaks near ${fmt(currents.peakDiodeCurrentA)} A), above its ${fmt(windingRatedA)} A rating${ratingFromVa ? ` (${fmt(data.transformerVA)} VA over the secondary; state the winding's own rating if the transformer has other windings)` : ''}: the transformer runs hot and the rails sag more than its regulation figure says. Music averages far less than a sine test, but size for the test you will run.`,
+			values: { secondaryRmsA: currents.secondaryRmsA, windingRatedA, ratio: currents.secondaryRmsA / windingRatedA, loadCurrentA: data.loadCurrentA, formFactor: CAPACITOR_INPUT_FORM_FACTOR, ratingFromVA: ratingFromVa },
+			caution: HEAT_CAUTION
+		});
+	if (data.capRippleRatingA !== undefined && data.capRippleRatingA !== null && currents.rippleCurrentA > data.capRippleRatingA)
+		checks.push({
+			id: 'supply.ripple-current',
+			level: 'caution',
+			message: `Each rail's reservoir carries about ${fmt(currents.rippleCurrentA)} A RMS of ripple current at ${fmt(data.loadCurrentA)} A, above its ${fmt(data.capRippleRatingA)} A rating: it heats inside and ages early. Use capacitors with a higher ripple rating, or more of them in parallel (their ratings add).`,
+			values: { rippleCurrentA: currents.rippleCurrentA, capRippleRatingA: data.capRippleRatingA, ratio: currents.rippleCurrentA / data.capRippleRatingA, loadCurrentA: data.loadCurrentA },
 			caution: CHARGE_CAUTION
 		});
 	if (data.amplifierDemandW) {

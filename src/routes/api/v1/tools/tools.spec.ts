@@ -152,6 +152,13 @@ describe('POST /tools/supply', () => {
 		expect(d.body.regulationPct).toBe(10);
 		expect(Math.abs(d.body.highMainsPeakDcV - 41.98)).toBeLessThan(0.01); // 35.355 · 1.21 − 0.8
 	});
+	it('rectifier currents at 3 A (the supply block’s numbers): 5.4 A RMS per half-winding (makers’ 1.8 × DC), ripple current 4.49 A', async () => {
+		const r = await post(supply.POST, 'supply', good);
+		expect(r.body.secondaryRmsA).toBeCloseTo(5.4, 9);
+		expect(Math.abs(r.body.rippleCurrentA - 3 * Math.sqrt(1.8 ** 2 - 1))).toBeLessThan(1e-9);
+		expect(r.body.peakDiodeCurrentA).toBeGreaterThan(r.body.secondaryRmsA);
+		expect(r.body.conductionDeg).toBeGreaterThan(0);
+	});
 	it('diodeDropV defaults to 0.7 V', async () => {
 		const { diodeDropV: _d, ...rest } = good;
 		const r = await post(supply.POST, 'supply', rest);
