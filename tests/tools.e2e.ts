@@ -154,4 +154,7 @@ test('supply tool shows the mains caution and ripple follows the reservoir', asy
 	await expectShown(page.getByTestId('rippleVpp'), amps / (2 * 50 * 4_700e-6));
 	// Unloaded rail of a 25 V winding, one 0.8 V diode per rail: √2 · 25 − 0.8.
 	await expectShown(page.getByTestId('peakDcV'), Math.SQRT2 * 25 - 0.8);
+	// Under load: the winding carries 1.8 × the DC load current (transformer makers' capacitor-input table).
+	await expectShown(page.getByTestId('secondaryRmsA'), 1.8 * amps);
+	await expect(page.getByRole('img', { name: /Rail against output power/ })).toBeVisible();
 });
