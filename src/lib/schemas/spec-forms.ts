@@ -188,7 +188,8 @@ export const SPEC_FORMS: Record<SpecKind, SpecSection[]> = {
 				{ path: 'dcOffsetMv', label: 'Output DC offset per channel', type: { t: 'list', unit: 'mV' }, hint: 'One number per channel, comma separated: 12, -8', placeholder: '12, -8' },
 				{ path: 'noiseUv', label: 'Output noise (rms)', type: n('µV'), optional: true, placeholder: '90' },
 				{ path: 'idleCurrentMa', label: 'Idle current', type: n('mA'), optional: true, placeholder: '40' },
-				{ path: 'loadOhm', label: 'Measured into', type: ohm, optional: true, placeholder: '8R' }
+				{ path: 'loadOhm', label: 'Measured into', type: ohm, optional: true, placeholder: '8R' },
+				{ path: 'speakerProtection', label: 'A speaker DC-protection circuit is fitted', type: yesNo }
 			]
 		},
 		{
@@ -206,6 +207,7 @@ export const SPEC_FORMS: Record<SpecKind, SpecSection[]> = {
 				{ path: 'currentLimited', label: 'First start through a current limiter (series lamp, resistor or limited bench supply)', type: yesNo },
 				{ path: 'rails', label: 'Rails: label, expected V, measured V', type: { t: 'rows', columns: ['label', 'expected (V)', 'measured (V)'], example: 'V+,28,28.4\nV-,-28,-28.1' }, optional: true, hint: 'One rail per line, e.g. V+,28,28.4' },
 				{ path: 'dcOffsetMv', label: 'DC offset per channel, no speaker connected', type: { t: 'list', unit: 'mV' }, optional: true, placeholder: '6, -11' },
+				{ path: 'speakerProtection', label: 'A speaker DC-protection circuit is fitted', type: yesNo },
 				{ path: 'oscillationChecked', label: 'Checked for oscillation (scope on the output)', type: yesNo },
 				{ path: 'oscillationFound', label: 'Oscillation found', type: yesNo },
 				{ path: 'idleCurrent', label: 'Idle current: label, expected mA, measured mA', type: { t: 'rows', columns: ['label', 'expected (mA)', 'measured (mA)'], example: 'left,40,44\nright,40,39' }, optional: true }

@@ -38,8 +38,13 @@ describe('bring-up block (thresholds: common practice, no single source)', () =>
 	});
 	it('bringup.offset: > 50 mV caution, > 100 mV danger', () => {
 		expect(ids(parse({ dcOffsetMv: [50] }))).toEqual([]);
-		expect(ids(parse({ dcOffsetMv: [-51] }))).toEqual(['bringup.offset:caution']);
-		expect(ids(parse({ dcOffsetMv: [101] }))).toEqual(['bringup.offset:danger']);
+		expect(ids(parse({ dcOffsetMv: [-51] })).filter((i) => i.startsWith('bringup.offset'))).toEqual(['bringup.offset:caution']);
+		expect(ids(parse({ dcOffsetMv: [101] })).filter((i) => i.startsWith('bringup.offset'))).toEqual(['bringup.offset:danger']);
+	});
+	it('bringup.speaker-protection: note above 50 mV without DC protection (REFERENCE.md §7.4; common practice, no single source)', () => {
+		expect(ids(parse({ dcOffsetMv: [50] }))).not.toContain('bringup.speaker-protection:note');
+		expect(ids(parse({ dcOffsetMv: [-50.1] }))).toContain('bringup.speaker-protection:note');
+		expect(ids(parse({ dcOffsetMv: [-50.1], speakerProtection: true }))).not.toContain('bringup.speaker-protection:note');
 	});
 	it('bringup.oscillation: danger when found, note when not checked', () => {
 		expect(ids(parse({ oscillationFound: true }))).toEqual(['bringup.oscillation:danger']);

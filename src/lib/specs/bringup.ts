@@ -7,7 +7,7 @@
  */
 import { z } from 'zod';
 import { CHARGE_CAUTION, HEAT_CAUTION, MAINS_CAUTION, flag, fmt, num, type Check, type SpecResult } from './types';
-import { OFFSET_CAUTION_MV, OFFSET_DANGER_MV } from './measurements';
+import { OFFSET_CAUTION_MV, OFFSET_DANGER_MV, speakerProtectionCheck } from './measurements';
 import { SINK_TOUCH_C } from './thermal';
 
 /** Rail deviation above which bringup.rail-mismatch is a caution: 10 % (mains tolerance ±10 %; common practice). */
@@ -36,7 +36,9 @@ export const bringupSpec = z
 			.array(z.object({ label, expectedMa: num(0, 100_000, 'mA').refine((v) => v > 0, 'must be greater than 0 mA'), measuredMa: num(0, 100_000, 'mA') }))
 			.max(32, 'at most 32 entries')
 			.default([]),
-		heatSoak: z.object({ minutes: num(0, 100_000, 'min'), sinkC: num(-40, 300, '°C') }).nullish()
+		heatSoak: z.object({ minutes: num(0, 100_000, 'min'), sinkC: num(-40, 300, '°C') }).nullish(),
+		/** A speaker DC-protection circuit is fitted (an amplifier block of the build saying so counts too). */
+		speakerProtection: flag().optional()
 	})
 	.superRefine((d, ctx) => {
 		d.rails.forEach((r, i) => {
@@ -61,7 +63,7 @@ export interface BringupDerived {
  * Derive a bring-up block. Rails expected ±35 V measured +35.4 / −29.0 V → bringup.rail-mismatch (caution, −17 %);
  * no current limiter → bringup.no-current-limit (caution).
  */
-export function deriveBringup(data: BringupSpec): SpecResult<BringupDerived> {
+export function deriveBringup(data: BringupSpec, speakerProtection?: boolean): SpecResult<BringupDerived> {
 	const checks: Check[] = [];
 	const railDev = data.rails.map((r) => ({
 		...r,
@@ -123,6 +125,9 @@ export function deriveBringup(data: BringupSpec): SpecResult<BringupDerived> {
 			});
 		}
 	}
+
+	const protection = speakerProtectionCheck('bringup.speaker-protection', data.dcOffsetMv, data.speakerProtection === true || speakerProtection === true);
+	if (protection) checks.push(protection);
 
 	if (data.oscillationFound)
 		checks.push({

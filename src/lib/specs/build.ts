@@ -136,6 +136,8 @@ export function checkBuild(blocks: readonly SpecBlockInput[], parts: readonly Pa
 	});
 	const top = supplies.length ? supplies.reduce((a, b) => (b.derived.highMainsPeakDcV > a.derived.highMainsPeakDcV ? b : a)) : null;
 
+	// A speaker DC-protection circuit stated on any amplifier block covers the build's offset measurements.
+	const protectedBuild = parsed.some((p) => p.kind === 'amplifier' && p.r.success && (p.r.data as AmplifierSpec).speakerProtection === true);
 	const amps: { index: number; data: AmplifierSpec; derived: AmplifierDerived }[] = [];
 	const thermals: { index: number; powerW: number }[] = [];
 	const measured: { index: number; clipPowerW: number | null }[] = [];
@@ -158,13 +160,13 @@ export function checkBuild(blocks: readonly SpecBlockInput[], parts: readonly Pa
 				break;
 			}
 			case 'measurements': {
-				const o = attempt('measurements', data, () => deriveMeasurements(data as never));
+				const o = attempt('measurements', data, () => deriveMeasurements(data as never, protectedBuild));
 				outcomes[index] = o;
 				if (o.ok) measured.push({ index, clipPowerW: (o.derived as MeasurementsDerived).clipPowerW });
 				break;
 			}
 			case 'bringup':
-				outcomes[index] = attempt('bringup', data, () => deriveBringup(data as never));
+				outcomes[index] = attempt('bringup', data, () => deriveBringup(data as never, protectedBuild));
 				break;
 		}
 	});

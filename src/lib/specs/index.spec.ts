@@ -132,3 +132,17 @@ describe('cross checks at their thresholds', () => {
 		expect(own.map((c) => c.id)).not.toContain('cross.transformer-small');
 	});
 });
+
+describe('checkBuild — speaker protection stated on the amplifier block covers the offset measurements', () => {
+	it('60 mV measured: measure.speaker-protection and bringup.speaker-protection unless an amplifier block says protection is fitted', () => {
+		const blocks = (protectedAmp: boolean) => [
+			{ kind: 'amplifier', data: amplifier({ speakerProtection: protectedAmp }) },
+			{ kind: 'measurements', data: { dcOffsetMv: [60] } },
+			{ kind: 'bringup', data: { currentLimited: true, oscillationChecked: true, dcOffsetMv: [60] } }
+		];
+		const ids = (p: boolean) => checkBuild(blocks(p)).blocks.flatMap((o) => (o.ok ? o.checks.map((c) => c.id) : []));
+		expect(ids(false)).toEqual(expect.arrayContaining(['measure.speaker-protection', 'bringup.speaker-protection']));
+		expect(ids(true)).not.toContain('measure.speaker-protection');
+		expect(ids(true)).not.toContain('bringup.speaker-protection');
+	});
+});

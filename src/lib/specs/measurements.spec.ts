@@ -3,15 +3,23 @@ import { deriveMeasurements, measurementsSpec, type MeasurementsSpec } from './m
 
 const parse = (over: Record<string, unknown> = {}): MeasurementsSpec => measurementsSpec.parse({ dcOffsetMv: [3, -5], ...over });
 const ids = (d: MeasurementsSpec) => deriveMeasurements(d).checks.map((c) => `${c.id}:${c.level}`);
+const offset = (d: MeasurementsSpec) => ids(d).filter((i) => i.startsWith('measure.dc-offset'));
 
 describe('measurements block', () => {
 	it('measure.dc-offset: > 50 mV caution, > 100 mV danger; silent at exactly 50 (REFERENCE.md §7.4, common practice)', () => {
 		expect(ids(parse({ dcOffsetMv: [50, -50] }))).toEqual([]);
-		expect(ids(parse({ dcOffsetMv: [50.1] }))).toEqual(['measure.dc-offset:caution']);
-		expect(ids(parse({ dcOffsetMv: [3, -100] }))).toEqual(['measure.dc-offset:caution']);
-		expect(ids(parse({ dcOffsetMv: [3, -100.1] }))).toEqual(['measure.dc-offset:danger']);
+		expect(offset(parse({ dcOffsetMv: [50.1] }))).toEqual(['measure.dc-offset:caution']);
+		expect(offset(parse({ dcOffsetMv: [3, -100] }))).toEqual(['measure.dc-offset:caution']);
+		expect(offset(parse({ dcOffsetMv: [3, -100.1] }))).toEqual(['measure.dc-offset:danger']);
 		const c = deriveMeasurements(parse({ dcOffsetMv: [60, -120] })).checks[0];
 		expect(c.values).toMatchObject({ channel: 2, offsetMv: -120, channelsOver: 2 });
+	});
+	it('measure.speaker-protection: note above 50 mV, the top of the “good” range (REFERENCE.md §7.4; common practice, no single source)', () => {
+		expect(ids(parse({ dcOffsetMv: [50, -50] }))).not.toContain('measure.speaker-protection:note');
+		expect(ids(parse({ dcOffsetMv: [3, -50.1] }))).toContain('measure.speaker-protection:note');
+		expect(ids(parse({ dcOffsetMv: [3, -50.1], speakerProtection: true }))).not.toContain('measure.speaker-protection:note');
+		// Protection stated on the build's amplifier block counts too.
+		expect(deriveMeasurements(parse({ dcOffsetMv: [80] }), true).checks.map((c) => c.id)).not.toContain('measure.speaker-protection');
 	});
 	it('derives the clipping power (≤ 1 % THD), the largest power, −3 dB points and SNR re 1 W', () => {
 		const { derived } = deriveMeasurements(

@@ -3,12 +3,34 @@
  */
 import { z } from 'zod';
 import { responseCornersHz, snrDb, vrmsForPowerW } from '../engineering';
-import { fmt, num, pos, type Check, type SpecResult } from './types';
+import { flag, fmt, num, pos, type Check, type SpecResult } from './types';
 
 /** |DC offset| above which measure.dc-offset is a caution: 50 mV; above 100 mV a danger (API.md; common practice). */
 export const OFFSET_CAUTION_MV = 50;
 /** See OFFSET_CAUTION_MV. */
 export const OFFSET_DANGER_MV = 100;
+/**
+ * Measured |DC offset| above which a speaker DC-protection circuit is recommended: 50 mV, the top of the "good"
+ * range (REFERENCE.md §7.4; common practice, no single source). An offset beyond it is not yet harmful, but it shows
+ * a stage with less margin, and a drifting offset can mean a failing part; a protection circuit that disconnects
+ * the speaker at about 1–2 V DC is what stops a failed output stage putting the rail on it.
+ */
+export const SPEAKER_PROTECTION_OFFSET_MV = 50;
+
+/** The check measure.speaker-protection / bringup.speaker-protection: null when the offset is within the level or protection is fitted. */
+export function speakerProtectionCheck(id: string, offsetsMv: readonly number[], protectedAlready: boolean | undefined): Check | null {
+	if (protectedAlready === true || !offsetsMv.length) return null;
+	const abs = offsetsMv.map(Math.abs);
+	const i = abs.indexOf(Math.max(...abs));
+	if (!(abs[i] > SPEAKER_PROTECTION_OFFSET_MV)) return null;
+	return {
+		id,
+		level: 'note',
+		message: `Channel ${i + 1} measures ${fmt(offsetsMv[i])} mV DC, above the ${SPEAKER_PROTECTION_OFFSET_MV} mV at which a speaker DC-protection circuit is recommended (common practice): one that disconnects the speaker at about 1–2 V DC protects it if an output stage fails, which a fuse is too slow to do.`,
+		values: { channel: i + 1, offsetMv: offsetsMv[i], protectionAboveMv: SPEAKER_PROTECTION_OFFSET_MV, speakerProtection: false }
+	};
+}
+
 /** THD at which "clipping" is read: 1 % (common practice; the US amplifier rating rule uses 1 % THD+N). */
 export const CLIP_THD_PCT = 1;
 
@@ -27,7 +49,9 @@ export const measurementsSpec = z.object({
 	/** Idle (quiescent) current, mA. */
 	idleCurrentMa: num(0, 100_000, 'mA').nullish(),
 	/** Load the measurements were made into, Ω (for SNR re 1 W). */
-	loadOhm: num(0.5, 100_000, 'Ω').nullish()
+	loadOhm: num(0.5, 100_000, 'Ω').nullish(),
+	/** A speaker DC-protection circuit is fitted (an amplifier block of the build saying so counts too). */
+	speakerProtection: flag().optional()
 });
 
 /** Parsed measurements block. */
@@ -47,8 +71,11 @@ export interface MeasurementsDerived {
 	snr1WDb: number | null;
 }
 
-/** Derive a measurements block. dcOffsetMv [12, -64] → maxAbsOffsetMv 64 and measure.dc-offset (caution, channel 2). */
-export function deriveMeasurements(data: MeasurementsSpec): SpecResult<MeasurementsDerived> {
+/**
+ * Derive a measurements block. dcOffsetMv [12, -64] → maxAbsOffsetMv 64, measure.dc-offset (caution, channel 2) and
+ * measure.speaker-protection (note). `speakerProtection`: the build says elsewhere that protection is fitted.
+ */
+export function deriveMeasurements(data: MeasurementsSpec, speakerProtection?: boolean): SpecResult<MeasurementsDerived> {
 	const abs = data.dcOffsetMv.map(Math.abs);
 	const thd = data.points?.thd ?? [];
 	const clip = thd.filter((p) => p.thdPct <= CLIP_THD_PCT).map((p) => p.powerW);
@@ -82,5 +109,7 @@ export function deriveMeasurements(data: MeasurementsSpec): SpecResult<Measureme
 			}
 		});
 	}
+	const protection = speakerProtectionCheck('measure.speaker-protection', data.dcOffsetMv, data.speakerProtection === true || speakerProtection === true);
+	if (protection) checks.push(protection);
 	return { derived, checks };
 }
