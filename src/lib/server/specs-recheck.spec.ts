@@ -1,0 +1,72 @@
+// Integration test against the real PostgreSQL of DATABASE_URL: a block stored under revision 1 of the checks (old
+// derived values, old check list) is brought up to what checkBuild returns now, without making a revision.
+import { describe, it, expect, beforeAll, afterAll } from 'vitest';
+import { asc, eq } from 'drizzle-orm';
+import { db } from './db';
+import * as schema from './db/schema';
+import { createTestUser, removeTestUsers } from './testing/builds';
+import { testBuild } from './testing/parts';
+import { saveSpecBlock } from './specs';
+import { recheckStoredBuilds } from './specs-recheck';
+import { checkBuild } from '$lib/specs';
+import { amplifierBlock, supplyBlock } from '$lib/specs/fixtures';
+
+type TestUser = Awaited<ReturnType<typeof createTestUser>>;
+let maker: TestUser;
+beforeAll(async () => {
+	maker = await createTestUser('maker', 'Recheck owner');
+});
+afterAll(async () => {
+	await removeTestUsers([maker.id]);
+});
+
+const rows = (buildId: string) =>
+	db.select().from(schema.specBlock).where(eq(schema.specBlock.buildId, buildId)).orderBy(asc(schema.specBlock.position));
+
+describe('recheckStoredBuilds', () => {
+	it('rewrites revision-1 results (nominal rail only, no worst case, old checks) to what checkBuild returns now', async () => {
+		const b = await testBuild(maker.id);
+		// 5 A fuse on 50 VA: revision 2 raises supply.fuse-size; revision 1 did not know it.
+		expect((await saveSpecBlock(maker, b.id, { kind: 'supply', data: supplyBlock({ transformerVA: 50, fuse: { ratingA: 5, type: 'slow' } }) })).ok).toBe(true);
+		expect((await saveSpecBlock(maker, b.id, { kind: 'amplifier', data: amplifierBlock() })).ok).toBe(true);
+		const [buildBefore] = await db.select().from(schema.build).where(eq(schema.build.id, b.id));
+		const revisionsBefore = await db.select().from(schema.buildRevision).where(eq(schema.buildRevision.buildId, b.id));
+
+		// What a revision-1 database holds: the old derived shape and check list.
+		const [supplyRow, ampRow] = await rows(b.id);
+		await db
+			.update(schema.specBlock)
+			.set({ derived: { peakDcV: 34.56, rippleVpp: 3, averageDcV: 36.1 }, checks: [{ id: 'supply.cap-rating', level: 'caution', message: 'thin margin', values: {} }] })
+			.where(eq(schema.specBlock.id, supplyRow.id));
+		await db
+			.update(schema.specBlock)
+			.set({ derived: { maxPowerW: 64, worstDissipationW: 19.9 }, checks: [] })
+			.where(eq(schema.specBlock.id, ampRow.id));
+
+		const r = await recheckStoredBuilds();
+		expect(r.builds).toBeGreaterThanOrEqual(1);
+
+		const after = await rows(b.id);
+		const now = checkBuild(after.map((x) => ({ kind: x.kind, data: x.data })));
+		for (const [i, row] of after.entries()) {
+			const o = now.blocks[i];
+			if (!o.ok) throw o.error;
+			expect(row.derived).toEqual(JSON.parse(JSON.stringify(o.derived)));
+			// The block's own checks, in order, then the cross checks placed on it.
+			expect(row.checks.slice(0, o.checks.length).map((c) => c.id)).toEqual(o.checks.map((c) => c.id));
+		}
+		expect(after[0].checks.map((c) => `${c.id}:${c.level}`)).toContain('supply.fuse-size:caution');
+		expect(after[0].checks.map((c) => c.id)).not.toEqual(['supply.cap-rating']);
+		expect(after[1].derived.designDissipationW).toBeGreaterThan(19.9);
+
+		// Nothing the maker wrote changed: no revision, same build row.
+		const [buildAfter] = await db.select().from(schema.build).where(eq(schema.build.id, b.id));
+		expect(buildAfter.updatedAt).toEqual(buildBefore.updatedAt);
+		expect(await db.select().from(schema.buildRevision).where(eq(schema.buildRevision.buildId, b.id))).toHaveLength(revisionsBefore.length);
+
+		// A second run changes nothing.
+		const stored = JSON.stringify(after);
+		await recheckStoredBuilds();
+		expect(JSON.stringify(await rows(b.id))).toBe(stored);
+	});
+});
