@@ -1,30 +1,12 @@
 // Make builds for end-to-end tests through the app's own form actions over HTTP (as a browser without
 // JavaScript would post them), with the signed-in page's cookies. Nothing depends on seed content.
 import { expect, type APIRequestContext, type Page } from '@playwright/test';
+import { SUPPLY_FORM as SUPPLY_FORM_FIXTURE } from '../../src/lib/specs/fixtures';
 
 export const origin = () => process.env.ORIGIN ?? 'http://127.0.0.1:3100';
 
-/** The spec editor's form fields for a valid mains supply block (fused, earthed metal chassis). */
-export const SUPPLY_FORM = {
-	kind: 'supply',
-	id: '',
-	title: 'Main supply',
-	mainsVac: '230',
-	mainsHz: '50',
-	transformerVA: '300',
-	secondaryVac: '25',
-	mainsPowered: 'on',
-	rectifier: 'bridge-split',
-	diodeDropV: '0.8',
-	reservoirF: '10000u',
-	capRatingV: '50',
-	loadCurrentA: '3',
-	fuse__ratingA: '3.15',
-	fuse__type: 'slow',
-	chassis: 'metal',
-	protectiveEarth: 'on',
-	bleeder: 'none'
-};
+/** The spec editor's form fields for a valid mains supply block (fused, earthed metal chassis): one fixture set with the unit tests. */
+export const SUPPLY_FORM: Record<string, string> = { ...SUPPLY_FORM_FIXTURE };
 
 /** POST a form action as a browser form would (urlencoded, Accept text/html, same Origin); no redirect following. */
 export async function postForm(request: APIRequestContext, path: string, form: Record<string, string>) {

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { evaluate } from 'mathjs';
 import {
+	designDissipationCurve,
 	amplifierOutput,
 	cascadeHighPassHz,
 	cascadeLowPassHz,
@@ -133,5 +134,21 @@ describe('gain and corners', () => {
 		expect(() => nonInvertingGain(1e3, 0)).toThrow(RangeError);
 		expect(() => cascadeHighPassHz()).toThrow(RangeError);
 		expect(() => zobel({ rOhm: 2.7, cF: 1e-7, outputVrms: 1, freqHz: 0 })).toThrow(RangeError);
+	});
+});
+
+describe('designDissipationCurve — the heatsink plot and its headline figure agree', () => {
+	it('±35 V, 8 Ω: the curve peaks at 2·38.5²/(π²·6.4) = 46.93 W (rail +10 %, 80 % impedance; hand), = designDissipationW', () => {
+		const c = designDissipationCurve({ topology: 'class-ab-chip', supply: 'split', railV: 35, loadOhm: 8, dropoutV: 3 });
+		const top = Math.max(...c.points.map((p) => p.dissipationW));
+		expect(Math.abs(top - (2 * 38.5 ** 2) / (Math.PI ** 2 * 6.4))).toBeLessThan(1e-9);
+		expect(top).toBeCloseTo(c.designDissipationW, 12);
+		// Idle: no output, no class B loss; clipping at (38.5 − 3)²/(2 · 6.4) = 98.46 W (hand).
+		expect(c.points[0]).toEqual({ outputW: 0, dissipationW: 0 });
+		expect(Math.abs(c.points.at(-1)!.outputW - 35.5 ** 2 / 12.8)).toBeLessThan(1e-9);
+	});
+	it('quiescent current lifts the whole curve by q·Vtot: 50 mA × 77 V = 3.85 W', () => {
+		const c = designDissipationCurve({ topology: 'class-ab-chip', supply: 'split', railV: 35, loadOhm: 8, quiescentA: 0.05 });
+		expect(c.points[0].dissipationW).toBeCloseTo(0.05 * 77, 9);
 	});
 });

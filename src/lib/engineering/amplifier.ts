@@ -256,6 +256,41 @@ export function stageWorstCase(input: StageInput): StageWorstCase {
 	};
 }
 
+/** One point of designDissipationCurve(): sine output power of one stage and its dissipation, W. */
+export interface DissipationPoint {
+	outputW: number;
+	dissipationW: number;
+}
+
+/**
+ * Dissipation of one class B/AB stage against its sine output, at the worst-case conditions designDissipationW uses
+ * (the rail at high mains Vhi, the speaker at its minimum impedance Rmin, the quiescent current included), from idle
+ * to clipping at (Vhi − d)²/(2·Rmin): Pd(Vpk) = 2·Vhi·Vpk/(π·Rmin) − Vpk²/(2·Rmin) + q·Vtot (the datasheet method at a
+ * given output, REFERENCE.md §2.2). Its highest point, at Vpk = 2·Vhi/π when the swing reaches it, is
+ * stageWorstCase(...).designDissipationW — so a plot of this curve and the headline figure agree.
+ * Not bridged; class AB/B topologies only. designDissipationCurve({ topology: 'class-ab-chip', supply: 'split', railV: 35, loadOhm: 8 }) peaks at 46.93 W.
+ */
+export function designDissipationCurve(input: StageInput, steps = 60): { points: DissipationPoint[]; designDissipationW: number; maxOutputW: number } {
+	if (input.bridged) throw new InputRangeError('bridged', 'the dissipation curve is for one stage; give it unbridged');
+	if (!(input.topology === 'class-ab-chip' || input.topology === 'class-ab-discrete' || input.topology === 'other'))
+		throw new InputRangeError('topology', 'the dissipation curve models class AB/B stages');
+	const w = stageWorstCase(input);
+	const Vhi = w.highMainsRailV;
+	const Rmin = w.minImpedanceOhm;
+	const d = input.dropoutV ?? 0;
+	const q = (input.quiescentA ?? 0) * w.highMainsTotalV;
+	const top = Math.max(0, Vhi - d);
+	const at = (vpk: number): DissipationPoint => ({
+		outputW: (vpk * vpk) / (2 * Rmin),
+		dissipationW: (2 * Vhi * vpk) / (Math.PI * Rmin) - (vpk * vpk) / (2 * Rmin) + q
+	});
+	const vpks = Array.from({ length: steps + 1 }, (_, i) => (top * i) / steps);
+	const peak = (2 * Vhi) / Math.PI;
+	if (peak < top) vpks.push(peak);
+	vpks.sort((a, b) => a - b);
+	return { points: vpks.map(at), designDissipationW: w.designDissipationW!, maxOutputW: (top * top) / (2 * Rmin) };
+}
+
 /** Non-inverting stage gain Av = 1 + Rf/Ri, and 20·log10(Av). nonInvertingGain(22e3, 1e3) → { gain: 23, gainDb: 27.23 }. */
 export function nonInvertingGain(rfOhm: number, riOhm: number): { gain: number; gainDb: number } {
 	if (!(Number.isFinite(rfOhm) && rfOhm >= 0)) throw new InputRangeError('rfOhm', 'rfOhm must be 0 Ω or more');

@@ -42,6 +42,8 @@ export {
 	cascadeLowPassHz,
 	zobel,
 	stageWorstCase,
+	designDissipationCurve,
+	type DissipationPoint,
 	TOPOLOGIES,
 	MAINS_HIGH_PCT,
 	CLASS_D_EFFICIENCY_PCT,

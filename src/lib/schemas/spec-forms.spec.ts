@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { specSchemas } from '$lib/specs';
+import { SUPPLY_FORM, SUPPLY_FORM_CHANGES, supplyBlock } from '$lib/specs/fixtures';
 import { fieldName, formToSpecData, mapSpecIssues, pointsShape, readNumber, readRows, specDataToForm, valueToText } from './spec-forms';
 
 const amp = {
@@ -51,6 +52,13 @@ describe('formToSpecData', () => {
 		expect(data.reservoirF).toBeCloseTo(0.01, 12);
 		expect(data.fuse).toBeNull();
 		expect(data).toMatchObject({ protectiveEarth: true, doubleInsulated: false, mainsPowered: true, bleeder: null });
+	});
+
+	it('the end-to-end supply form reads back as the supply fixture with its stated changes (one fixture set)', () => {
+		const { kind: _k, id: _i, title: _t, ...fields } = SUPPLY_FORM;
+		const { data, issues } = formToSpecData('supply', fields);
+		expect(issues).toEqual([]);
+		expect(specSchemas.supply.parse(data)).toEqual(specSchemas.supply.parse(supplyBlock(SUPPLY_FORM_CHANGES)));
 	});
 
 	it('names a field that is not even a number, without guessing', () => {

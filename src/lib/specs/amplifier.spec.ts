@@ -157,3 +157,14 @@ describe('amplifier block — schema', () => {
 		expect(amplifierSpec.safeParse(amplifierBlock({ topology: 'class-z' })).error!.issues[0]).toMatchObject({ code: 'invalid_value' });
 	});
 });
+
+describe('amplifier block — nested objects get a sentence, not the library default', () => {
+	it('a missing device says what it needs; a wrong-typed one says its shape', () => {
+		const { device: _d, ...noDevice } = amplifierBlock();
+		const missing = amplifierSpec.safeParse(noDevice).error!.issues.find((i) => i.path.join('.') === 'device')!;
+		expect(missing.message).toMatch(/^required: the output device’s ratings/);
+		const wrong = amplifierSpec.safeParse(amplifierBlock({ device: 'LM-something' })).error!.issues.find((i) => i.path.join('.') === 'device')!;
+		expect(wrong.message).toMatch(/^must be an object \{ maxSupplyV/);
+		expect(amplifierSpec.safeParse(amplifierBlock({ claimed: 60 })).error!.issues[0].message).toMatch(/^must be an object \{ powerW, thdPct \}/);
+	});
+});

@@ -53,13 +53,13 @@ export const amplifierSpec = z
 			minLoadOhm: num(0, 100_000, 'Ω'),
 			/** Peak output current the device is rated for (current limit or SOA), A. */
 			maxOutputCurrentA: pos(1000, 'A').nullish()
-		}),
+		}, { error: (iss) => (iss.input === undefined ? 'required: the output device’s ratings { maxSupplyV, dropoutV, junctionMaxC, rthJcKPerW, minLoadOhm } from its datasheet' : 'must be an object { maxSupplyV, dropoutV, junctionMaxC, rthJcKPerW, minLoadOhm }') }),
 		gain: z
-			.object({ rfOhm: num(0, 1e8, 'Ω'), riOhm: pos(1e8, 'Ω'), ciF: pos(1, 'F').optional() })
+			.object({ rfOhm: num(0, 1e8, 'Ω'), riOhm: pos(1e8, 'Ω'), ciF: pos(1, 'F').optional() }, { error: 'must be an object { rfOhm, riOhm, ciF? } or null' })
 			.nullish(),
 		/** Input coupling high-pass: resistor to ground and series capacitor. */
-		input: z.object({ rOhm: pos(1e9, 'Ω'), cF: pos(1, 'F') }).nullish(),
-		claimed: z.object({ powerW: pos(10_000, 'W'), thdPct: num(0, 100, '%') }).nullish(),
+		input: z.object({ rOhm: pos(1e9, 'Ω'), cF: pos(1, 'F') }, { error: 'must be an object { rOhm, cF } or null' }).nullish(),
+		claimed: z.object({ powerW: pos(10_000, 'W'), thdPct: num(0, 100, '%') }, { error: 'must be an object { powerW, thdPct } or null' }).nullish(),
 		/** Mains above nominal the worst case designs for, %. */
 		mainsHighPct: num(0, 25, '%').default(MAINS_HIGH_PCT),
 		/** Standing current one amplifier stage draws from the rails (datasheet), A. */

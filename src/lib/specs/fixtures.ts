@@ -58,3 +58,32 @@ export function thermalBlock(over: Record<string, unknown> = {}): Record<string,
 		...over
 	};
 }
+
+/**
+ * The spec editor's form for a supply block as a maker types it (trade notation, every field text): SUPPLY_BLOCK with
+ * 50 V capacitors, no stated regulation, no bleeder and the soft-start box unticked — so a build made with it shows the thin capacitor margin
+ * (50 V < 1.2 × 41.98 V with 10 % regulation assumed) and the missing bleeder. The end-to-end tests post it;
+ * spec-forms.spec.ts checks that it reads back as supplyBlock(SUPPLY_FORM_CHANGES).
+ */
+export const SUPPLY_FORM_CHANGES = Object.freeze({ capRatingV: 50, regulationPct: undefined, bleeder: null, softStart: false });
+/** See SUPPLY_FORM_CHANGES. */
+export const SUPPLY_FORM = Object.freeze({
+	kind: 'supply',
+	id: '',
+	title: 'Main supply',
+	mainsVac: '230',
+	mainsHz: '50',
+	transformerVA: '300',
+	secondaryVac: '25',
+	mainsPowered: 'on',
+	rectifier: 'bridge-split',
+	diodeDropV: '0.8',
+	reservoirF: '10000u',
+	capRatingV: '50',
+	loadCurrentA: '3',
+	fuse__ratingA: '3.15',
+	fuse__type: 'slow',
+	chassis: 'metal',
+	protectiveEarth: 'on',
+	bleeder: 'none'
+});
