@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { specSchemas } from '$lib/specs';
 import { SUPPLY_FORM, SUPPLY_FORM_CHANGES, supplyBlock } from '$lib/specs/fixtures';
-import { fieldName, formToSpecData, mapSpecIssues, pointsShape, readNumber, readRows, specDataToForm, valueToText } from './spec-forms';
+import { eachSideValue, fieldName, formToSpecData, mapSpecIssues, pointsShape, readNumber, readRows, specDataToForm, valueToText } from './spec-forms';
 
 const amp = {
 	channels: '2',
@@ -59,6 +59,20 @@ describe('formToSpecData', () => {
 		const { data, issues } = formToSpecData('supply', fields);
 		expect(issues).toEqual([]);
 		expect(specSchemas.supply.parse(data)).toEqual(specSchemas.supply.parse(supplyBlock(SUPPLY_FORM_CHANGES)));
+	});
+
+	it('a rail labelled each side ± takes ±30, +-30, +/-30 and 30 as 30 V and shows it back as typed', () => {
+		for (const typed of ['±30', '+-30', '+/-30', '30', ' ± 30 V']) {
+			const { data, issues } = formToSpecData('amplifier', { ...amp, railV: typed });
+			expect(issues, typed).toEqual([]);
+			expect(data.railV, typed).toBe(30);
+			const parsed = specSchemas.amplifier.parse(data);
+			expect(specDataToForm('amplifier', parsed).railV, typed).toBe(typed.trim());
+		}
+		expect(eachSideValue('±-30')).toBeNull();
+		expect(formToSpecData('amplifier', { ...amp, railV: '±thirty' }).issues[0]).toMatchObject({ field: 'railV', message: expect.stringMatching(/write ±30/) });
+		// A stored railText that no longer reads as railV (changed through the API) is not shown.
+		expect(specDataToForm('amplifier', specSchemas.amplifier.parse({ ...formToSpecData('amplifier', amp).data, railText: '±40' })).railV).toBe('28');
 	});
 
 	it('names a field that is not even a number, without guessing', () => {

@@ -10,7 +10,7 @@ import { SPEC_KINDS, TOPOLOGIES, CHASSIS, type SpecKind } from '$lib/specs';
 
 /** How a field is typed and read. */
 export type FieldType =
-	| { t: 'number'; unit?: string; int?: boolean }
+	| { t: 'number'; unit?: string; int?: boolean; eachSide?: boolean }
 	| { t: 'value'; kind: ValueKind }
 	| { t: 'select'; options: readonly (readonly [string, string])[] }
 	| { t: 'bool' }
@@ -56,7 +56,7 @@ export const SPEC_FORMS: Record<SpecKind, SpecSection[]> = {
 				{ path: 'channels', label: 'Channels', type: n('', true), initial: '2' },
 				{ path: 'topology', label: 'Topology', type: sel(TOPOLOGIES, { 'class-ab-chip': 'class AB chip amp', 'class-ab-discrete': 'class AB discrete', 'class-a': 'class A', 'class-d': 'class D', valve: 'valve', other: 'other' }), initial: 'class-ab-chip' },
 				{ path: 'supply', label: 'Supply', type: sel(['split', 'single'], { split: 'split (±V)', single: 'single (V)' }), initial: 'split' },
-				{ path: 'railV', label: 'Rail voltage', type: n('V'), hint: 'Split: each rail’s magnitude (28 for ±28 V). Single: the whole supply.', placeholder: '28' },
+				{ path: 'railV', label: 'Rail voltage (split: each side ±)', type: { t: 'number', unit: 'V', eachSide: true }, hint: 'Split: each rail’s magnitude — ±28, +-28 or 28 for ±28 V. Single: the whole supply.', placeholder: '±28' },
 				{ path: 'loadOhm', label: 'Nominal load', type: ohm, hint: 'e.g. 8R, 4R, 32R for headphones', placeholder: '8R' }
 			]
 		},
@@ -268,6 +268,15 @@ export function readNumber(text: string, unit = ''): number | null {
 }
 
 const isOn = (s: string) => /^(on|true|yes|1)$/i.test(s.trim());
+/** The sign an "each side ±" field may start with: ±, +-, +/- . */
+const EACH_SIDE = /^\s*(?:±|\+\s*\/?\s*-)\s*/;
+
+/** The number an "each side ±" text reads as, or null: eachSideValue('±30') → 30, eachSideValue('+-30 V') → 30. */
+export function eachSideValue(text: string, unit = 'V'): number | null {
+	const pm = EACH_SIDE.exec(text);
+	const v = readNumber(pm ? text.slice(pm[0].length) : text, unit);
+	return v !== null && (!pm || v >= 0) ? v : null;
+}
 
 /** Set a dot path in a plain object. */
 function setPath(obj: Record<string, unknown>, path: string, value: unknown): void {
@@ -395,9 +404,13 @@ export function formToSpecData(kind: SpecKind, values: Record<string, unknown>):
 			}
 			switch (ty.t) {
 				case 'number': {
-					const v = readNumber(s, ty.unit);
-					if (v === null) issues.push({ field: name, message: `"${s}" is not a number${ty.unit ? ` (${ty.unit})` : ''}` });
-					else setPath(data, f.path, v);
+					// "Each side ±" fields take ±30, +-30, +/-30 or 30; the text is kept to show back as typed.
+					const v = ty.eachSide ? eachSideValue(s, ty.unit) : readNumber(s, ty.unit);
+					if (v === null) issues.push({ field: name, message: `"${s}" is not a number${ty.unit ? ` (${ty.unit})` : ''}${ty.eachSide ? '; write ±30, +-30 or 30' : ''}` });
+					else {
+						setPath(data, f.path, v);
+						if (ty.eachSide) setPath(data, `${f.path.replace(/V$/, '')}Text`, s);
+					}
 					break;
 				}
 				case 'value': {
@@ -496,7 +509,9 @@ export function specDataToForm(kind: SpecKind, data: Record<string, unknown>): R
 		}
 		const v = getPath(data, f.path);
 		const ty = f.type;
-		if (ty.t === 'bool') out[name] = v === true ? 'on' : '';
+		const typed = ty.t === 'number' && ty.eachSide ? getPath(data, `${f.path.replace(/V$/, '')}Text`) : undefined;
+		if (typeof typed === 'string' && typeof v === 'number' && eachSideValue(typed, ty.t === 'number' ? ty.unit : 'V') === v) out[name] = typed;
+		else if (ty.t === 'bool') out[name] = v === true ? 'on' : '';
 		else if (v === undefined || v === null) out[name] = '';
 		else if (ty.t === 'value' && typeof v === 'number') out[name] = valueToText(v, ty.kind);
 		else if (ty.t === 'list' && Array.isArray(v)) out[name] = v.join(', ');

@@ -168,3 +168,11 @@ describe('amplifier block — nested objects get a sentence, not the library def
 		expect(amplifierSpec.safeParse(amplifierBlock({ claimed: 60 })).error!.issues[0].message).toMatch(/^must be an object \{ powerW, thdPct \}/);
 	});
 });
+
+describe('amplifier block — railText (the rail as typed)', () => {
+	it('is kept as text; control characters (NUL included) get a sentence, not a database error', () => {
+		expect(amplifierSpec.parse(amplifierBlock({ railText: '±35' })).railText).toBe('±35');
+		const bad = amplifierSpec.safeParse(amplifierBlock({ railText: '±35\u0000' })).error!.issues[0];
+		expect(bad).toMatchObject({ path: ['railText'], message: 'must not contain control characters' });
+	});
+});

@@ -42,6 +42,12 @@ export const amplifierSpec = z
 		supply: oneOf(['split', 'single'] as const),
 		/** split: each rail's magnitude; single: the whole supply. Up to 200 V, valve blocks up to 1000 V. */
 		railV: pos(VALVE_RAIL_MAX_V, 'V'),
+		/** railV as the maker typed it ("±30", "+-30", "30"), shown back in its place; display only. */
+		railText: z
+			.string({ error: 'must be text' })
+			.max(24, 'at most 24 characters')
+			.refine((s) => !/[\u0000-\u001f\u007f]/.test(s), 'must not contain control characters')
+			.optional(),
 		/** Nominal load per channel. */
 		loadOhm: num(0.5, 100_000, 'Ω'),
 		device: z.object({

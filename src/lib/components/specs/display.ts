@@ -256,6 +256,15 @@ export function showValue(key: string, value: unknown): string {
 	return String(value);
 }
 
+/** Input rows of a block for display: flattened, with a rail typed as "±30" shown as typed in railV's row. */
+export function inputRows(data: Record<string, unknown> | null | undefined): [string, unknown][] {
+	const d = data ?? {};
+	const typed = typeof d.railText === 'string' ? d.railText.trim() : '';
+	return flatten(d)
+		.filter(([k]) => k !== 'railText')
+		.map(([k, v]): [string, unknown] => (k === 'railV' && typed && typeof v === 'number' && /^(?:±|\+\s*\/?\s*-)?\s*[\d.,]+\s*V?$/i.test(typed) ? [k, /V$/i.test(typed) ? typed : `${typed} V`] : [k, v]));
+}
+
 /**
  * Flatten a block's nested data into [dotted key, value] rows for display; arrays of numbers stay one row,
  * arrays of objects (points, rails) are left out (they have their own tables and plots).
