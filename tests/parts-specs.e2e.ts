@@ -27,7 +27,7 @@ test('spec blocks: a bad amplifier block is refused field by field, a good one s
 	await signIn(page, JOSS);
 	await page.goto(`/builds/${SLUG}/edit/specs`);
 	await page.getByRole('link', { name: /Amplifier/ }).first().click();
-	await expect(page.getByRole('heading', { name: 'Add a amplifier block' })).toBeVisible();
+	await expect(page.getByRole('heading', { name: 'Add an amplifier block' })).toBeVisible();
 	await expect(page.locator('form[data-ready="true"]')).toBeVisible();
 
 	// 0R1 is a readable value but below the schema's 0.5 Ω: the server refuses it on that field.
@@ -72,6 +72,52 @@ test('spec blocks: a bad amplifier block is refused field by field, a good one s
 	await expect(supply.locator('[data-derived="peakDcV"]')).toContainText('27.6 V');
 	await expect(supply.locator('[data-check="supply.cap-rating"]')).toContainText('CAUTION');
 	await expect(supply.getByText(/Defer to local codes and licensed practice/).first()).toBeVisible();
+});
+
+test('spec blocks: a save over a block changed in another tab is refused (409) with both versions shown; saving again replaces it', async ({ page, context }) => {
+	test.setTimeout(120_000);
+	const title = `E2E conflict ${Date.now().toString(36)}`;
+	await signIn(page, JOSS);
+	await page.goto(`/builds/${SLUG}/edit/specs?add=supply`);
+	await expect(page.locator('form[data-ready="true"]')).toBeVisible();
+	await page.getByLabel('Title').fill(title);
+	await page.getByLabel('Transformer rating').fill('160');
+	await page.getByLabel('Secondary per rail').fill('20');
+	await page.getByLabel('Reservoir per rail').fill('10000u');
+	await page.getByLabel('Reservoir voltage rating').fill('35');
+	await page.getByLabel('Load current per rail').fill('1.5');
+	await page.getByLabel('Fuse rating').fill('1.6');
+	await page.getByLabel('Fuse type').selectOption('slow');
+	await page.getByRole('button', { name: 'Add block' }).click();
+	await expect(page.getByText('Block saved.')).toBeVisible();
+	const id = new URL(page.url()).searchParams.get('saved');
+	expect(id).toBeTruthy();
+
+	// Two tabs open the same block; the second saves first.
+	const other = await context.newPage();
+	await page.goto(`/builds/${SLUG}/edit/specs?edit=${id}`);
+	await other.goto(`/builds/${SLUG}/edit/specs?edit=${id}`);
+	for (const p of [page, other]) await expect(p.locator('form[data-ready="true"]')).toBeVisible();
+	await other.getByLabel('Reservoir voltage rating').fill('50');
+	await other.getByRole('button', { name: 'Save changes' }).click();
+	await expect(other.getByText('Block saved.')).toBeVisible();
+
+	await page.getByLabel('Load current per rail').fill('2');
+	const answer = page.waitForResponse((r) => r.url().includes('/edit/specs?/save') && r.request().method() === 'POST');
+	await page.getByRole('button', { name: 'Save changes' }).click();
+	expect((await answer).status()).toBe(409);
+	const box = page.locator('[data-spec-conflict]');
+	await expect(box).toBeVisible();
+	await expect(box).toContainText('Reservoir voltage rating');
+	await expect(box).toContainText('50');
+	await expect(page.getByText(/changed elsewhere/)).toBeVisible();
+	// The maker's values are kept; saving again replaces the stored block on purpose.
+	await expect(page.getByLabel('Load current per rail')).toHaveValue('2');
+	await page.getByRole('button', { name: 'Save changes' }).click();
+	await expect(page.getByText('Block saved.')).toBeVisible();
+	const saved = page.locator(`#block-${id}`);
+	await expect(saved).toContainText('2 A');
+	await other.close();
 });
 
 test('parts list: a CSV with one bad line is refused with its line number and nothing is saved; fixed, it saves; export', async ({ page }) => {

@@ -52,6 +52,25 @@ describe('saveSpecBlock', () => {
 		expect(changed.checks.map((c) => c.id)).not.toContain('amp.power-beyond-rails');
 	});
 
+	it('a save over a block changed since it was loaded is refused with the stored block; nothing is written', async () => {
+		const b = await testBuild(maker.id);
+		const first = await saveSpecBlock(maker, b.id, { kind: 'supply', title: 'Mine', data: SUPPLY });
+		if (!first.ok) throw new Error('not saved');
+		const loaded = first.version;
+		const other = await saveSpecBlock(maker, b.id, { id: first.id, kind: 'supply', title: 'Other tab', data: { ...SUPPLY, capRatingV: 63 } }, undefined, loaded);
+		expect(other.ok).toBe(true);
+		const stale = await saveSpecBlock(maker, b.id, { id: first.id, kind: 'supply', title: 'Mine again', data: { ...SUPPLY, loadCurrentA: 2 } }, undefined, loaded);
+		expect(stale.ok).toBe(false);
+		if (stale.ok || !stale.conflict) throw new Error('expected a conflict');
+		expect(stale.conflict).toMatchObject({ title: 'Other tab', data: { capRatingV: 63 } });
+		const [row] = await blocks(b.id);
+		expect(row.title).toBe('Other tab');
+		// Saving again from the stored version replaces it on purpose.
+		const again = await saveSpecBlock(maker, b.id, { id: first.id, kind: 'supply', title: 'Mine again', data: { ...SUPPLY, loadCurrentA: 2 } }, undefined, stale.conflict.version);
+		expect(again.ok).toBe(true);
+		expect((await blocks(b.id))[0].title).toBe('Mine again');
+	});
+
 	it('refuses an invalid block with field issues and stores nothing; a changed block keeps its old data', async () => {
 		const b = await testBuild(maker.id);
 		const bad = await saveSpecBlock(maker, b.id, { kind: 'supply', data: { ...SUPPLY, mainsVac: 20, reservoirF: 'big' } });

@@ -196,10 +196,21 @@ export interface SpecBlockInput {
 	data: unknown;
 }
 
-/** Saving a block either stores it or reports its issues (and stores nothing). */
+/** The version of a stored block an editor loaded: its updatedAt as ISO text (changes on every save of the block). */
+export const specBlockVersion = (b: Pick<schema.SpecBlock, 'updatedAt'>): string => b.updatedAt.toISOString();
+
+/** A refused save: the block as stored now, for the editor to show beside the maker's version. */
+export interface SpecConflict {
+	version: string;
+	title: string;
+	data: Record<string, unknown>;
+}
+
+/** Saving a block either stores it, reports its issues (and stores nothing), or finds the block moved since it was loaded. */
 export type SaveSpecResult =
-	| { ok: true; id: string; derived: Record<string, unknown>; checks: StoredCheck[]; revision: number | null }
-	| { ok: false; issues: SpecIssue[] };
+	| { ok: true; id: string; derived: Record<string, unknown>; checks: StoredCheck[]; revision: number | null; version: string }
+	| { ok: false; issues: SpecIssue[]; conflict?: undefined }
+	| { ok: false; conflict: SpecConflict; issues?: undefined };
 
 
 /** The block `blockId` of build `buildId`, locked for update; 404 when it is not this build's. */
@@ -223,14 +234,18 @@ async function afterChange(t: Tx, buildId: string, actor: Actor): Promise<number
 /**
  * Add or change a spec block (owner or admin; 403 otherwise or while locked; 404 for another build's block).
  * Invalid data → { ok: false, issues } and nothing is stored. A block keeps its kind. The stored checks are
- * the block's own plus the cross checks that land on it.
+ * the block's own plus the cross checks that land on it. `expectedVersion` (specBlockVersion of the block the editor
+ * loaded): when the block was saved since (another tab, an admin), nothing is written and the stored block comes
+ * back as { ok: false, conflict }.
  */
-export async function saveSpecBlock(actor: Actor, buildId: string, input: SpecBlockInput, tx?: Tx): Promise<SaveSpecResult> {
+export async function saveSpecBlock(actor: Actor, buildId: string, input: SpecBlockInput, tx?: Tx, expectedVersion?: string | null): Promise<SaveSpecResult> {
 	const title = typeof input.title === 'string' ? input.title.trim() : '';
 	return inTx(tx, async (t) => {
 		const b = await lockBuild(t, buildId);
 		assertCanEdit(actor, b);
 		const existing = input.id ? await ownBlock(t, buildId, input.id) : null;
+		if (existing && expectedVersion && specBlockVersion(existing) !== expectedVersion)
+			return { ok: false as const, conflict: { version: specBlockVersion(existing), title: existing.title, data: existing.data } };
 		const issues: SpecIssue[] = [];
 		if (title.length > SPEC_TITLE_MAX) issues.push({ path: 'title', message: `must be at most ${SPEC_TITLE_MAX} characters` });
 		if (existing && existing.kind !== input.kind)
@@ -243,7 +258,7 @@ export async function saveSpecBlock(actor: Actor, buildId: string, input: SpecBl
 		if (existing) {
 			await t
 				.update(schema.specBlock)
-				.set({ title, data: v.data, derived: v.derived, checks: v.checks, updatedAt: new Date() })
+				.set({ title, data: v.data, derived: v.derived, checks: v.checks, updatedAt: new Date(Math.max(Date.now(), existing.updatedAt.getTime() + 1)) })
 				.where(eq(schema.specBlock.id, existing.id));
 			id = existing.id;
 		} else {
@@ -259,10 +274,10 @@ export async function saveSpecBlock(actor: Actor, buildId: string, input: SpecBl
 		}
 		const revision = await afterChange(t, buildId, actor);
 		const [stored] = await t
-			.select({ derived: schema.specBlock.derived, checks: schema.specBlock.checks })
+			.select({ derived: schema.specBlock.derived, checks: schema.specBlock.checks, updatedAt: schema.specBlock.updatedAt })
 			.from(schema.specBlock)
 			.where(eq(schema.specBlock.id, id));
-		return { ok: true as const, id, derived: stored.derived as Record<string, unknown>, checks: stored.checks, revision };
+		return { ok: true as const, id, derived: stored.derived as Record<string, unknown>, checks: stored.checks, revision, version: specBlockVersion(stored) };
 	});
 }
 

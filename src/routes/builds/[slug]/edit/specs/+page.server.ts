@@ -4,7 +4,7 @@ import { zod4 } from 'sveltekit-superforms/adapters';
 import { z } from 'zod';
 import { requireEditableBuild } from '$lib/server/builds';
 import { attempt } from '$lib/server/http';
-import { deleteSpecBlock, listSpecBlocks, moveSpecBlock, saveSpecBlock } from '$lib/server/specs';
+import { deleteSpecBlock, listSpecBlocks, moveSpecBlock, saveSpecBlock, specBlockVersion } from '$lib/server/specs';
 import { SPEC_KINDS, isSpecKind, type SpecKind } from '$lib/specs';
 import { fieldName, formToSpecData, mapSpecIssues, pointsShape, specDataToForm, specFormSchemas } from '$lib/schemas/spec-forms';
 import type { Actions, PageServerLoad } from './$types';
@@ -26,17 +26,17 @@ export const load: PageServerLoad = async ({ params, url }) => {
 	const blocks = await listSpecBlocks(build.id);
 	const editId = url.searchParams.get('edit');
 	const addKind = url.searchParams.get('add');
-	let editing: { kind: SpecKind; id: string | null } | null = null;
+	let editing: { kind: SpecKind; id: string | null; version: string | null } | null = null;
 	let form = null;
 	const target = editId ? blocks.find((b) => b.id === editId) : undefined;
 	if (target && isSpecKind(target.kind)) {
-		editing = { kind: target.kind, id: target.id };
+		editing = { kind: target.kind, id: target.id, version: specBlockVersion(target) };
 		form = await superValidate({ id: target.id, kind: target.kind, title: target.title, ...specDataToForm(target.kind, target.data) }, adapters[target.kind], {
 			errors: false,
 			id: `spec-${target.id}`
 		});
 	} else if (isSpecKind(addKind)) {
-		editing = { kind: addKind, id: null };
+		editing = { kind: addKind, id: null, version: null };
 		form = await superValidate(adapters[addKind], { id: `spec-new-${addKind}` });
 	}
 	return {
@@ -78,11 +78,19 @@ export const actions: Actions = {
 			for (const i of issues) setFieldError(form, i.field, i.message);
 			return fail(422, { form });
 		}
-		const r = await attempt(() => saveSpecBlock(actor, build.id, { id: id || null, kind, title: values.title, data }));
+		const posted = fd.get('version');
+		const version = typeof posted === 'string' && posted !== '' ? posted : null;
+		const r = await attempt(() => saveSpecBlock(actor, build.id, { id: id || null, kind, title: values.title, data }, undefined, version));
 		if (!r.ok) return r.failure;
 		const saved = r.value;
+		if (!saved.ok && saved.conflict) {
+			// Keep the maker's values in the form; show the stored block beside them. Saving again replaces it on purpose.
+			setError(form, 'Not saved: this block was changed elsewhere (another tab or an admin) since you opened it. Your values are in the form; the stored ones are listed beside them. Save again to replace the stored block with yours.');
+			const theirs = specDataToForm(kind, saved.conflict.data);
+			return fail(409, { form, conflict: { version: saved.conflict.version, title: saved.conflict.title, values: theirs } });
+		}
 		if (!saved.ok) {
-			for (const i of mapSpecIssues(kind, saved.issues, lineMaps)) setFieldError(form, i.field, i.message);
+			for (const i of mapSpecIssues(kind, saved.issues ?? [], lineMaps)) setFieldError(form, i.field, i.message);
 			return fail(422, { form });
 		}
 		redirect(303, `/builds/${build.slug}/edit/specs?saved=${saved.id}#block-${saved.id}`);
