@@ -75,7 +75,7 @@ describe('saveSpecBlock', () => {
 		const b = await testBuild(maker.id);
 		const bad = await saveSpecBlock(maker, b.id, { kind: 'supply', data: { ...SUPPLY, mainsVac: 20, reservoirF: 'big' } });
 		expect(bad.ok).toBe(false);
-		if (!bad.ok) expect(bad.issues.map((i) => i.path).sort()).toEqual(['mainsVac', 'reservoirF']);
+		if (!bad.ok) expect((bad.issues ?? []).map((i) => i.path).sort()).toEqual(['mainsVac', 'reservoirF']);
 		expect(await blocks(b.id)).toEqual([]);
 
 		const ok = await saveSpecBlock(maker, b.id, { kind: 'supply', data: SUPPLY });

@@ -146,3 +146,19 @@ describe('checkBuild — speaker protection stated on the amplifier block covers
 		expect(ids(true)).not.toContain('bringup.speaker-protection');
 	});
 });
+
+describe('one rounding for spec messages, spec displays and bench tools: 3 significant figures', () => {
+	it('fmt (check messages) and sig3 (block displays) agree with the tools’ sig over many magnitudes', async () => {
+		const { fmt } = await import('./types');
+		const { sig3 } = await import('$lib/components/specs/display');
+		const { sig } = await import('$lib/components/tools/display');
+		for (const x of [0.00123, 0.0456, 0.7182, 1, 2.5, 31.0296, 40.8149, 130.04, 999.6, 4567.8, 12345, 98765.4, -64.04]) {
+			expect(fmt(x), String(x)).toBe(sig(x, 3));
+			expect(sig3(x), String(x)).toBe(sig(x, 3));
+		}
+		// Hand-rounded to 3 significant figures.
+		expect(fmt(40.8149)).toBe('40.8');
+		expect(fmt(12345)).toBe('12,300');
+		expect(fmt(0.7182)).toBe('0.718');
+	});
+});

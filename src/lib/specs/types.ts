@@ -63,8 +63,12 @@ export function oneOf<const T extends readonly [string, ...string[]]>(values: T)
 	return z.enum(values, { error: (iss) => (iss.input === undefined ? 'required' : `must be one of ${values.join(', ')}`) });
 }
 
-/** Round for messages: 3 significant figures. fmt(31.0296) → "31.0". */
+/**
+ * Round for messages: 3 significant figures, the same rounding as every spec display and bench tool (no trailing
+ * zeros, thousands grouped from 10 000). fmt(31.0296) → "31"; fmt(40.81) → "40.8"; fmt(12345) → "12,300".
+ */
 export function fmt(x: number): string {
 	if (!Number.isFinite(x)) return String(x);
-	return Number(x.toPrecision(3)).toString();
+	if (x === 0) return '0';
+	return Number(x.toPrecision(3)).toLocaleString('en-GB', { maximumSignificantDigits: 3, useGrouping: Math.abs(x) >= 1e4 });
 }

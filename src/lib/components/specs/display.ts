@@ -5,7 +5,7 @@
  */
 import { formatValue } from '$lib/engineering';
 import { TOPOLOGY_LABELS } from '$lib/labels';
-import { showCapacitance } from '$lib/components/tools/display';
+import { showCapacitance, sig } from '$lib/components/tools/display';
 
 /** Display names of the spec-block kinds (PRODUCT.md §3). */
 export const KIND_LABELS: Record<string, string> = {
@@ -201,11 +201,14 @@ export function labelOf(key: string): string {
 	return words.charAt(0).toUpperCase() + words.slice(1);
 }
 
-/** 3 significant figures without trailing noise: sig3(31.0296) → "31"; sig3(0.000123) → "0.000123". */
+/**
+ * 3 significant figures, the same rounding as the bench tools (sig): sig3(31.0296) → "31"; sig3(12345) → "12,300";
+ * very large or small numbers in exponent form, sig3(1.234e-4) → "1.23e-4".
+ */
 export function sig3(x: number): string {
 	if (!Number.isFinite(x)) return String(x);
 	const r = Number(x.toPrecision(3));
-	return Math.abs(r) >= 1e6 || (Math.abs(r) < 1e-3 && r !== 0) ? r.toExponential(2) : String(r);
+	return Math.abs(r) >= 1e6 || (Math.abs(r) < 1e-3 && r !== 0) ? r.toExponential(2) : sig(r, 3);
 }
 
 /** Readable names of the enumerated spec-block inputs (stored values stay the API's). */
