@@ -1,12 +1,14 @@
 // Integration test against the real PostgreSQL of DATABASE_URL: a block stored under revision 1 of the checks (old
 // derived values, old check list) is brought up to what checkBuild returns now, without making a revision.
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
-import { asc, eq } from 'drizzle-orm';
+import { asc, desc, eq } from 'drizzle-orm';
 import { db } from './db';
 import * as schema from './db/schema';
 import { createTestUser, removeTestUsers } from './testing/builds';
 import { testBuild } from './testing/parts';
 import { saveSpecBlock } from './specs';
+import { addStep, publish } from './builds';
+import type { BuildSnapshot } from './builds/snapshot';
 import { recheckStoredBuilds } from './specs-recheck';
 import { checkBuild } from '$lib/specs';
 import { amplifierBlock, supplyBlock } from '$lib/specs/fixtures';
@@ -29,6 +31,21 @@ describe('recheckStoredBuilds', () => {
 		// 5 A fuse on 50 VA: revision 2 raises supply.fuse-size; revision 1 did not know it.
 		expect((await saveSpecBlock(maker, b.id, { kind: 'supply', data: supplyBlock({ transformerVA: 50, fuse: { ratingA: 5, type: 'slow' } }) })).ok).toBe(true);
 		expect((await saveSpecBlock(maker, b.id, { kind: 'amplifier', data: amplifierBlock() })).ok).toBe(true);
+		// Published: readers are shown the revision's snapshot, which holds derived values and checks too.
+		await addStep(maker, b.id, { title: 'Boards', bodyMd: 'Populate the boards.' });
+		await publish(maker, b.id);
+		const snapshotOf = async () => {
+			const [build] = await db.select().from(schema.build).where(eq(schema.build.id, b.id));
+			const [rev] = await db.select().from(schema.buildRevision).where(eq(schema.buildRevision.buildId, b.id)).orderBy(desc(schema.buildRevision.number)).limit(1);
+			expect(rev.number).toBe(build.revision);
+			return rev;
+		};
+		const published = await snapshotOf();
+		const snap = published.snapshot as unknown as BuildSnapshot;
+		await db
+			.update(schema.buildRevision)
+			.set({ snapshot: { ...snap, specBlocks: snap.specBlocks.map((x) => ({ ...x, derived: { peakDcV: 34.56 }, checks: [] })) } as unknown as Record<string, unknown> })
+			.where(eq(schema.buildRevision.id, published.id));
 		const [buildBefore] = await db.select().from(schema.build).where(eq(schema.build.id, b.id));
 		const revisionsBefore = await db.select().from(schema.buildRevision).where(eq(schema.buildRevision.buildId, b.id));
 
@@ -59,6 +76,12 @@ describe('recheckStoredBuilds', () => {
 		expect(after[0].checks.map((c) => c.id)).not.toEqual(['supply.cap-rating']);
 		expect(after[1].derived.designDissipationW).toBeGreaterThan(19.9);
 
+		// The published snapshot readers see holds the same figures as the rows.
+		const snapAfter = (await snapshotOf()).snapshot as unknown as BuildSnapshot;
+		expect(snapAfter.specBlocks.map((x) => x.derived)).toEqual(after.map((x) => x.derived));
+		expect(snapAfter.specBlocks.map((x) => x.checks)).toEqual(after.map((x) => x.checks));
+		expect(snapAfter.specBlocks.map((x) => x.data)).toEqual(snap.specBlocks.map((x) => x.data));
+
 		// Nothing the maker wrote changed: no revision, same build row.
 		const [buildAfter] = await db.select().from(schema.build).where(eq(schema.build.id, b.id));
 		expect(buildAfter.updatedAt).toEqual(buildBefore.updatedAt);
@@ -66,7 +89,10 @@ describe('recheckStoredBuilds', () => {
 
 		// A second run changes nothing.
 		const stored = JSON.stringify(after);
+		const viewBefore = (await db.select().from(schema.build).where(eq(schema.build.id, b.id)))[0];
 		await recheckStoredBuilds();
 		expect(JSON.stringify(await rows(b.id))).toBe(stored);
+		// … and touches nothing a reader cache watches.
+		expect((await db.select().from(schema.build).where(eq(schema.build.id, b.id)))[0]).toEqual(viewBefore);
 	});
 });

@@ -3,15 +3,42 @@
  * rectifier currents, new ids), blocks and parts lists saved under older rules still hold the old derived values and
  * checks. recheckStoredBuilds() recomputes every build that has spec blocks or part lines with the one function the
  * saves use (refreshBuildChecks → $lib/specs checkBuild), so the build page, review mode, the review desk and the
- * API read what checkBuild returns now. It writes only rows whose result changed, never makes a revision and never
- * touches "edited since sign-off": the maker's content is unchanged, only what is computed from it.
+ * API read what checkBuild returns now — the live rows, and the snapshot of the published revision readers are
+ * shown (its derived values and checks only; what the maker published stays as it was). It writes only rows whose
+ * result changed, never makes a revision and never touches "edited since sign-off": the maker's content is
+ * unchanged, only what is computed from it.
  * Run at app start (startup.ts; RECHECK_ON_START=off skips it).
  */
 import { and, asc, eq, gt, or, sql } from 'drizzle-orm';
 import * as schema from './db/schema';
 import { db } from './db';
 import { inTx } from './db/tx';
-import { refreshBuildChecks } from './parts/checks';
+import type { Tx } from './db';
+import { recomputeChecks, refreshBuildChecks } from './parts/checks';
+import { stableJson, type BuildSnapshot } from './builds/snapshot';
+
+/** Recompute the derived values and checks inside the snapshot of revision `number` (what readers see). */
+async function recheckSnapshot(t: Tx, buildId: string, number: number): Promise<void> {
+	const [rev] = await t
+		.select({ id: schema.buildRevision.id, snapshot: schema.buildRevision.snapshot })
+		.from(schema.buildRevision)
+		.where(and(eq(schema.buildRevision.buildId, buildId), eq(schema.buildRevision.number, number)));
+	if (!rev) return;
+	const snap = rev.snapshot as unknown as BuildSnapshot;
+	if (!Array.isArray(snap.specBlocks) || !Array.isArray(snap.parts)) return;
+	const next = recomputeChecks(
+		snap.specBlocks.map((b) => ({ ...b, checks: b.checks as schema.StoredCheck[] })),
+		snap.parts.map((p) => ({ ...p, value: p.value ?? null, ratingV: p.ratingV ?? null, checks: (p.checks ?? []) as schema.StoredCheck[] }))
+	);
+	const specBlocks = snap.specBlocks.map((b, i) => ({ ...b, derived: next.blocks[i].derived, checks: next.blocks[i].checks }));
+	const parts = snap.parts.map((p, i) => ({ ...p, checks: next.lines[i] }));
+	// Compared key-order-free: jsonb reorders keys, and an unchanged snapshot must not be rewritten (it would touch the reader cache).
+	if (stableJson(specBlocks) !== stableJson(snap.specBlocks) || stableJson(parts) !== stableJson(snap.parts))
+		await t
+			.update(schema.buildRevision)
+			.set({ snapshot: { ...snap, specBlocks, parts } as unknown as Record<string, unknown> })
+			.where(eq(schema.buildRevision.id, rev.id));
+}
 
 /** Builds per page of the walk over the build table. */
 const PAGE = 200;
@@ -37,8 +64,10 @@ export async function recheckStoredBuilds(): Promise<{ builds: number }> {
 			.limit(PAGE);
 		for (const { id } of page) {
 			await inTx(undefined, async (t) => {
-				const [b] = await t.select({ id: schema.build.id }).from(schema.build).where(eq(schema.build.id, id)).for('update');
-				if (b) await refreshBuildChecks(t, id);
+				const [b] = await t.select({ id: schema.build.id, revision: schema.build.revision }).from(schema.build).where(eq(schema.build.id, id)).for('update');
+				if (!b) return;
+				await refreshBuildChecks(t, id);
+				if (b.revision > 0) await recheckSnapshot(t, id, b.revision);
 			});
 			builds++;
 		}

@@ -14,6 +14,7 @@ import type { Tx } from '../db';
 import { type Check } from '$lib/specs';
 import { lineToDraft, normaliseLine, type NormalisedPartLine, type PartCheck } from '$lib/parts';
 import { checkBuildRows, partInput } from '../specs';
+import { stableJson } from '../builds/snapshot';
 
 type BlockRow = Pick<schema.SpecBlock, 'id' | 'kind' | 'data' | 'derived' | 'checks'>;
 type LineLike = Pick<NormalisedPartLine, 'designators' | 'value' | 'ratingV'> & { kind: string; notes?: string | null };
@@ -75,12 +76,38 @@ export function placeCrossChecks(
 /** Checks a line gets from the whole-build computation (placed, not its own). */
 const PLACED = new Set(['part.fuse-larger']);
 const own = (checks: readonly StoredCheck[] | null | undefined) => (checks ?? []).filter((c) => !c.id.startsWith('cross.') && !PLACED.has(c.id));
-const same = (a: unknown, b: unknown) => JSON.stringify(a) === JSON.stringify(b);
+// Key-order-free: jsonb reorders object keys, so a plain JSON comparison would rewrite unchanged rows (and touch the reader cache).
+const same = (a: unknown, b: unknown) => stableJson(a) === stableJson(b);
+
+/** A stored part line as recomputeChecks reads it (a part_line row, or a line of a revision snapshot). */
+type StoredLine = Parameters<typeof lineToDraft>[0] & Pick<NormalisedPartLine, 'value' | 'ratingV'> & { kind: string; notes?: string | null; valueText?: string | null; designValueText?: string | null; checks?: readonly StoredCheck[] | null };
 
 /**
- * Recompute and store, in the caller's transaction, every block's derived values and checks as the whole-build
- * check returns them (an amplifier block takes its worst case from the build's supply block), the parts list's
- * own checks (they need the rail) and the cross checks on lines and blocks. Writes only rows that changed.
+ * What a build's stored rows should hold under the rules in force (pure): every block's derived values and checks as
+ * the whole-build check returns them (an amplifier block takes its worst case from the build's supply block), the
+ * parts list's own checks (they need the rail) and the cross checks placed on lines and blocks. Used for the live
+ * rows (refreshBuildChecks) and for a published revision's snapshot (specs-recheck).
+ */
+export function recomputeChecks(
+	blocks: readonly BlockRow[],
+	rows: readonly StoredLine[]
+): { blocks: { derived: Record<string, unknown>; checks: StoredCheck[] }[]; lines: StoredCheck[][] } {
+	const result = checkBuildRows(blocks, rows as never);
+	const railV = railFromBlocks(blocks.map((b, i) => ({ ...b, derived: result.blocks[i].derived })));
+	const { byBlock, byLine } = placeCrossChecks(blocks, rows as never, result.crossRaw);
+	return {
+		blocks: blocks.map((b, i) => ({ derived: result.blocks[i].derived, checks: [...result.blocks[i].checks.map(toStored), ...(byBlock.get(b.id) ?? [])] })),
+		lines: rows.map((row, i) => {
+			// A stored line was valid when saved; if the rules changed since, keep its old own checks.
+			const again = normaliseLine(lineToDraft(row), i + 1, { railV });
+			return [...(again.line ? again.line.checks.map(toStored) : own(row.checks)), ...byLine[i]];
+		})
+	};
+}
+
+/**
+ * Recompute and store, in the caller's transaction, the checks of recomputeChecks for the build's live rows.
+ * Writes only rows that changed.
  */
 export async function refreshBuildChecks(tx: Tx, buildId: string): Promise<void> {
 	const [blocks, rows] = await Promise.all([
@@ -91,23 +118,13 @@ export async function refreshBuildChecks(tx: Tx, buildId: string): Promise<void>
 			.orderBy(asc(schema.specBlock.position), asc(schema.specBlock.createdAt)),
 		tx.select().from(schema.partLine).where(eq(schema.partLine.buildId, buildId)).orderBy(asc(schema.partLine.position))
 	]);
-	const result = checkBuildRows(blocks, rows);
-	const railV = railFromBlocks(blocks.map((b, i) => ({ ...b, derived: result.blocks[i].derived })));
-	const { byBlock, byLine } = placeCrossChecks(blocks, rows, result.crossRaw);
-
+	const next = recomputeChecks(blocks, rows);
 	for (const [i, b] of blocks.entries()) {
-		const r = result.blocks[i];
-		const next = { derived: r.derived, checks: [...r.checks.map(toStored), ...(byBlock.get(b.id) ?? [])] };
-		if (!same(next.checks, b.checks) || !same(next.derived, b.derived))
-			await tx.update(schema.specBlock).set(next).where(eq(schema.specBlock.id, b.id));
+		const n = next.blocks[i];
+		if (!same(n.checks, b.checks) || !same(n.derived, b.derived)) await tx.update(schema.specBlock).set(n).where(eq(schema.specBlock.id, b.id));
 	}
-	for (const [i, row] of rows.entries()) {
-		// A stored line was valid when saved; if the rules changed since, keep its old own checks.
-		const again = normaliseLine(lineToDraft(row), i + 1, { railV });
-		const ownChecks = again.line ? again.line.checks.map(toStored) : own(row.checks);
-		const next = [...ownChecks, ...byLine[i]];
-		if (!same(next, row.checks)) await tx.update(schema.partLine).set({ checks: next }).where(eq(schema.partLine.id, row.id));
-	}
+	for (const [i, row] of rows.entries())
+		if (!same(next.lines[i], row.checks)) await tx.update(schema.partLine).set({ checks: next.lines[i] }).where(eq(schema.partLine.id, row.id));
 }
 
 export { partInput };
