@@ -1,5 +1,6 @@
 import { test, expect, type Page } from '@playwright/test';
 import { signIn } from './helpers/auth';
+import { postForm, SUPPLY_FORM } from './helpers/builds';
 
 const SLUG = 'bench-stereo-chip-amp';
 const JOSS = 'joss@starground.test';
@@ -117,6 +118,9 @@ test('spec blocks: a save over a block changed in another tab is refused (409) w
 	const saved = page.locator(`#block-${id}`);
 	await expect(saved).toContainText('2 A');
 	await other.close();
+	// Without JavaScript a stale version gets the HTTP status itself.
+	const stale = await postForm(page.request, `/builds/${SLUG}/edit/specs?/save&edit=${id}`, { ...SUPPLY_FORM, id: id!, version: '2000-01-01T00:00:00.000Z' });
+	expect(stale.status()).toBe(409);
 });
 
 test('parts list: a CSV with one bad line is refused with its line number and nothing is saved; fixed, it saves; export', async ({ page }) => {
