@@ -91,7 +91,11 @@ export async function refreshBuildChecks(tx: Tx, buildId: string): Promise<void>
 			.orderBy(asc(schema.specBlock.position), asc(schema.specBlock.createdAt)),
 		tx.select().from(schema.partLine).where(eq(schema.partLine.buildId, buildId)).orderBy(asc(schema.partLine.position))
 	]);
-	const result = checkBuildRows(blocks, rows);
+	// An AC rating (X/Y capacitors) is not a DC rating: the cross checks compare ratings with DC rails, so it is left out.
+	const result = checkBuildRows(
+		blocks,
+		rows.map((r) => (r.ratingVAc ? { ...r, ratingV: null } : r))
+	);
 	const railV = railFromBlocks(blocks.map((b, i) => ({ ...b, derived: result.blocks[i].derived })));
 	const { byBlock, byLine } = placeCrossChecks(blocks, rows, result.crossRaw);
 
