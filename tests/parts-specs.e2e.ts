@@ -135,7 +135,7 @@ test('parts list: a CSV with one bad line is refused with its line number and no
 	const good = [
 		'designators,quantity,kind,value,tolerance_pct,rating_v,package,notes,design_value,substitution_reason',
 		`"R1, R2",2,resistor,4k7,1,,0207,"metal film, e2e ${tag}",,`,
-		'C3,1,capacitor,1u+1u,10,63,box film,,0.47u,had two 1 µF film caps on hand',
+		'C3,1,capacitor,2×1u series,10,63,box film,,0.47u,had two 1 µF film caps on hand',
 		'U1,2,ic,5-pin monolithic power amplifier IC,,,TO-220,,,'
 	];
 	const bad = [...good.slice(0, 3), 'C9,1,capacitor,10 bananas,,25,radial,,,', good[3]];
@@ -174,7 +174,7 @@ test('parts list: a CSV with one bad line is refused with its line number and no
 	expect(res.headers()['content-disposition']).toBe(`attachment; filename="${SLUG}-parts.csv"`);
 	const csv = await res.text();
 	expect(csv.split('\r\n')[0]).toContain('designators,quantity,kind,value');
-	expect(csv).toContain('C3,1,capacitor,1u+1u,10,63');
+	expect(csv).toContain('C3,1,capacitor,2×1u series,10,63');
 	expect(csv).toContain(`"metal film, e2e ${tag}"`);
 	expect(csv.endsWith('\r\n')).toBe(true);
 
@@ -190,20 +190,20 @@ test('parts editor: a bad value is refused with its line number, nothing saved; 
 	await signIn(page, JOSS);
 	await page.goto(`/builds/${SLUG}/edit/parts`);
 	await expect(page.locator('#parts-form')).toHaveAttribute('data-ready', 'true');
-	const lines = page.locator('fieldset[data-line]');
+	const lines = page.locator('tr[data-line]');
 	const count = await lines.count();
 	await page.getByRole('button', { name: 'Add a line' }).click();
 	const n = count + 1;
 	await page.locator(`#l${n}-designators`).fill('C20');
 	await page.locator(`#l${n}-kind`).selectOption('capacitor');
 	await page.locator(`#l${n}-value`).fill('2u2||2u2');
-	await expect(page.locator(`#l${n}-value-hint`)).toContainText('4.4 µF (2 parts, parallel)');
+	await expect(page.locator(`#l${n}-value-hint`)).toContainText('two 2.20 µF in parallel = 4.40 µF');
 	await page.locator(`#l${n}-value`).fill('4u7x');
 	await page.getByRole('button', { name: 'Save parts list' }).click();
 	await expect(page.getByRole('alert').filter({ hasText: 'Nothing was saved' })).toContainText(`Line ${n}, value`);
 	await expect(page.locator(`#l${n}-value`)).toHaveAttribute('aria-invalid', 'true');
 	await page.reload();
-	await expect(page.locator('fieldset[data-line]')).toHaveCount(count);
+	await expect(page.locator('tr[data-line]')).toHaveCount(count);
 });
 
 test('another maker cannot see or change the parts list and spec blocks of a draft that is not theirs', async ({ page }) => {
@@ -232,9 +232,9 @@ test.describe('without JavaScript', () => {
 	test('the parts editor adds a line and reports a bad value by posting the form', async ({ page }) => {
 		await signIn(page, JOSS);
 		await page.goto(`/builds/${SLUG}/edit/parts`);
-		const count = await page.locator('fieldset[data-line]').count();
+		const count = await page.locator('tr[data-line]').count();
 		await page.getByRole('button', { name: 'Add a line' }).click();
-		await expect(page.locator('fieldset[data-line]')).toHaveCount(count + 1);
+		await expect(page.locator('tr[data-line]')).toHaveCount(count + 1);
 		await expect(page.getByText('Unsaved changes.')).toBeVisible();
 		const n = count + 1;
 		await page.locator(`#l${n}-designators`).fill('L1');

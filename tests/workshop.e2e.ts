@@ -23,7 +23,7 @@ async function importCsv(page: Page, text: string, mode: 'replace' | 'append', c
 	await expect(page.getByText(`Imported and saved: ${count} line`)).toBeVisible();
 }
 
-const editorLines = (page: Page) => page.locator('#parts-form fieldset[data-line]');
+const editorLines = (page: Page) => page.locator('#parts-form tr[data-line]');
 
 for (const size of [
 	{ name: 'desktop', viewport: { width: 1280, height: 900 } },

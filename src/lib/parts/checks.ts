@@ -28,7 +28,12 @@ const FUSE_TEXT = /(fuse|^\s*[TF]?\s*\d+(?:\.\d+)?\s*m?A\s*[TF]?\s*$)/i;
  *   caution when below the rail (capacitors get the cross check cross.cap-below-rail);
  * - part.outside-tolerance (note), part.no-reason (note), part.qty-mismatch (note).
  */
-export function partChecks(line: Omit<NormalisedPartLine, 'checks'>, designRatingV: number | null, ctx: PartContext = {}): PartCheck[] {
+export function partChecks(
+	line: Omit<NormalisedPartLine, 'checks'>,
+	designRating: { volts: number | null; ac: boolean },
+	ctx: PartContext = {}
+): PartCheck[] {
+	const designRatingV = designRating.volts;
 	const checks: PartCheck[] = [];
 	const who = line.designators || 'A line';
 	const isSub = line.designValueText !== null && line.designValueText !== '';
@@ -52,8 +57,35 @@ export function partChecks(line: Omit<NormalisedPartLine, 'checks'>, designRatin
 		}
 	}
 
-	if (typeof line.ratingV === 'number') {
-		if (designRatingV !== null && line.ratingV < designRatingV) {
+	if (typeof line.ratingV === 'number' && line.ratingVAc) {
+		// An AC rating (X/Y capacitors, "275 V AC") is not a DC rating: never compared with a DC rail or a DC design rating as if it were.
+		const designAc = designRatingV !== null && designRating.ac;
+		if (designAc && line.ratingV < designRatingV!)
+			checks.push({
+				id: 'part.rating-below-rail',
+				level: 'caution',
+				message: `${who}: fitted rated ${line.ratingV} V AC, lower than the design's ${designRatingV} V AC.`,
+				values: { designators: line.designators, ratingVAc: line.ratingV, designRatingVAc: designRatingV },
+				caution: CHARGE_NOTE
+			});
+		else if (railV !== null || (designRatingV !== null && !designAc))
+			checks.push({
+				id: 'part.ac-rating',
+				level: 'note',
+				message: `${who}: rated ${line.ratingV} V AC. An AC rating is not compared with ${
+					designRatingV !== null && !designAc ? `the design's ${designRatingV} V DC rating` : `the ${Number(railV!.toPrecision(3))} V DC rail`
+				} as if it were DC; X/Y capacitors belong across the mains. Where this part sees DC, check its DC rating in the datasheet.`,
+				values: { designators: line.designators, ratingVAc: line.ratingV, railV }
+			});
+	} else if (typeof line.ratingV === 'number') {
+		if (designRatingV !== null && designRating.ac) {
+			checks.push({
+				id: 'part.ac-rating',
+				level: 'note',
+				message: `${who}: fitted rated ${line.ratingV} V (DC) where the design gives ${designRatingV} V AC; the two are not compared as if they were the same kind of rating. Check the fitted part is rated for the mains it sits across.`,
+				values: { designators: line.designators, ratingV: line.ratingV, designRatingVAc: designRatingV }
+			});
+		} else if (designRatingV !== null && line.ratingV < designRatingV) {
 			const danger = railV !== null && line.ratingV < railV && railV <= designRatingV;
 			checks.push({
 				id: 'part.rating-below-rail',

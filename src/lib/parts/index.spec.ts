@@ -10,6 +10,9 @@ import {
 	normaliseLine,
 	normaliseLines,
 	parsePartValue,
+	AmbiguousPlusError,
+	formatPartValue,
+	valueAsTyped,
 	valueKindOf,
 	type PartLineDraft
 } from './index';
@@ -25,10 +28,34 @@ describe('parsePartValue', () => {
 		expect(parsePartValue('10uH', 'inductance')).toMatchObject({ unit: 'H', value: 1e-5 });
 	});
 
-	it('reads two parts joined by + as a series network (capacitors: reciprocal sum)', () => {
-		const p = parsePartValue('1u+1u', 'capacitance');
-		expect(p.value).toBeCloseTo(5e-7, 15);
-		expect(p).toMatchObject({ parts: 2, arrangement: 'series', unit: 'F' });
+	it('reads two capacitors said to be in series as a series network (reciprocal sum) and says the reading', () => {
+		// Two equal capacitors in series: C = C1·C2/(C1+C2) = 1 µF·1 µF / 2 µF = 0.5 µF (textbook series formula).
+		for (const text of ['2×1u series', '1u+1u series']) {
+			const p = parsePartValue(text, 'capacitance');
+			expect(p.value).toBeCloseTo(5e-7, 15);
+			expect(p).toMatchObject({ parts: 2, arrangement: 'series', unit: 'F', reading: 'two 1.00 µF in series = 500 nF' });
+		}
+		// Resistors add in series, which nobody reads otherwise: a bare + stays series there.
+		expect(parsePartValue('10k+10k', 'resistance')).toMatchObject({ value: 20000, arrangement: 'series' });
+	});
+
+	it('asks which is meant for a bare + between capacitors, naming both forms', () => {
+		let e: unknown;
+		try {
+			parsePartValue('1u+1u', 'capacitance');
+		} catch (err) {
+			e = err;
+		}
+		expect(e).toBeInstanceOf(AmbiguousPlusError);
+		const a = e as AmbiguousPlusError;
+		expect(a.choices).toEqual(['2×1u series', '1u||1u']);
+		expect(a.message).toContain('2×1u series (two 1.00 µF in series = 500 nF)');
+		expect(a.message).toContain('1u||1u (two 1.00 µF in parallel = 2.00 µF)');
+		// Unequal parts: the series choice keeps the + and says "series"; 1 µF + 2 µF in parallel = 3 µF.
+		expect(() => parsePartValue('1u+2u', 'capacitance')).toThrow(/1u\+2u series .*1u\|\|2u \(1.00 µF and 2.00 µF in parallel = 3.00 µF\)/);
+		// Each rewrite reads back as what it says: 1/(1/1 + 1/2) µF = 0.667 µF; 1 + 2 = 3 µF.
+		expect(parsePartValue('1u+2u series', 'capacitance').value).toBeCloseTo(2e-6 / 3, 15);
+		expect(parsePartValue('1u+2u parallel', 'capacitance').value).toBeCloseTo(3e-6, 15);
 	});
 
 	it('reads || as parallel and binds it tighter than +', () => {
@@ -59,7 +86,7 @@ describe('parsePartValue', () => {
 
 describe('deviation and tolerance', () => {
 	it('two 1 µF in series fitted for 0.47 µF: +6.4 %, inside ±10 % (PRODUCT.md §4.4)', () => {
-		const fitted = parsePartValue('1u+1u', 'capacitance').value;
+		const fitted = parsePartValue('2×1u series', 'capacitance').value;
 		const design = parsePartValue('0.47u', 'capacitance').value;
 		const dev = deviationPct(fitted, design)!;
 		expect(dev).toBeCloseTo((100 * (0.5 - 0.47)) / 0.47, 9);
@@ -98,7 +125,7 @@ describe('kinds', () => {
 
 describe('normaliseLine', () => {
 	it('normalises a substitution line and computes its deviation', () => {
-		const r = normaliseLine(draft({ designators: 'C3', kind: 'capacitor', value: '1u+1u', designValue: '0.47u', tolerance: '10', reason: 'had two 1 µF film caps' }), 4);
+		const r = normaliseLine(draft({ designators: 'C3', kind: 'capacitor', value: '2×1u series', designValue: '0.47u', tolerance: '10', reason: 'had two 1 µF film caps' }), 4);
 		expect(r.errors).toEqual([]);
 		expect(r.line).toMatchObject({ kind: 'capacitor', unit: 'F', tolerancePct: 10, designValueText: '0.47u', substitutionReason: 'had two 1 µF film caps' });
 		expect(r.line!.value).toBeCloseTo(5e-7, 15);
@@ -208,5 +235,95 @@ describe('potentiometer markings in a parts list', () => {
 		const r = normaliseLines([{ ...emptyDraft(), designators: 'R1', kind: 'resistor', value: 'A103' }]);
 		expect(r.ok).toBe(false);
 		if (!r.ok) expect(r.errors[0]).toMatchObject({ line: 1, field: 'value' });
+	});
+});
+
+describe('bare digits per part kind (IEC 60062 three-digit code)', () => {
+	it('reads a bare 104 on a capacitor line as the code in pF: 10 × 10⁴ pF = 100 nF, not 104 F', () => {
+		const p = parsePartValue('104', 'capacitance');
+		expect(p.value).toBeCloseTo(10 * 1e4 * 1e-12, 18);
+		expect(p.codeReading).toContain('3-digit capacitor code: 10 × 10⁴ pF = 100 nF');
+		// 4.7 nF = 47 × 10² pF; "229" = 22 × 0.1 pF = 2.2 pF (9 as the multiplier digit is ×0.1; from memory).
+		expect(parsePartValue('472', 'capacitance').value).toBeCloseTo(4.7e-9, 18);
+		expect(parsePartValue('229', 'capacitance').value).toBeCloseTo(2.2e-12, 20);
+		// In a network and with a voltage after it.
+		expect(parsePartValue('2×104', 'capacitance').value).toBeCloseTo(2e-7, 18);
+		expect(parsePartValue('104 100V', 'capacitance')).toMatchObject({ ratingV: 100 });
+	});
+
+	it('refuses other bare numbers on a capacitor line, saying why', () => {
+		expect(() => parsePartValue('470', 'capacitance')).toThrow(/no unit \(as a 3-digit code "470" would be 47.0 pF\): write it with one, e.g. 470p, 470n or 470u/);
+		expect(() => parsePartValue('0.1', 'capacitance')).toThrow(/"0.1" on a capacitor line has no unit/);
+		expect(() => parsePartValue('10', 'capacitance')).toThrow(/no unit/);
+	});
+
+	it('reads 104 on a resistor line as 100 kΩ (IEC 60062 three-digit code) and keeps 100, 47, 1000 as ohms', () => {
+		const p = parsePartValue('104', 'resistance');
+		expect(p.value).toBe(10 * 10 ** 4);
+		expect(p.codeReading).toContain('for 104 Ω write 104R');
+		expect(parsePartValue('472', 'resistance').value).toBe(4700);
+		expect(parsePartValue('100', 'resistance').value).toBe(100);
+		expect(parsePartValue('47', 'resistance').value).toBe(47);
+		expect(parsePartValue('1000', 'resistance').value).toBe(1000);
+		expect(parsePartValue('104R', 'resistance').value).toBe(104);
+	});
+
+	it('stores the reading as a note on the line, so a misreading shows', () => {
+		const r = normaliseLine(draft({ designators: 'C5', kind: 'capacitor', value: '104' }), 1);
+		expect(r.line!.value).toBeCloseTo(1e-7, 18);
+		expect(r.line!.checks.map((c) => [c.id, c.level])).toEqual([['part.value-read-as-code', 'note']]);
+	});
+});
+
+describe('AC voltage ratings (X/Y capacitors)', () => {
+	it('accepts 275 V AC, 275VAC and 275 Vac and keeps them AC', () => {
+		for (const t of ['275 V AC', '275VAC', '275 Vac', '275 V~']) {
+			const r = normaliseLine(draft({ designators: 'CX1', kind: 'capacitor', value: '100n', ratingV: t }), 1);
+			expect(r.errors).toEqual([]);
+			expect(r.line).toMatchObject({ ratingV: 275, ratingVAc: true });
+		}
+		const inValue = normaliseLine(draft({ designators: 'CX1', kind: 'capacitor', value: '100n 275VAC' }), 1);
+		expect(inValue.line).toMatchObject({ ratingV: 275, ratingVAc: true });
+		const dc = normaliseLine(draft({ designators: 'C1', kind: 'capacitor', value: '100n', ratingV: '63 VDC' }), 1);
+		expect(dc.line).toMatchObject({ ratingV: 63, ratingVAc: false });
+		expect(lineToDraft({ ...inValue.line! }).ratingV).toBe('275 V AC');
+	});
+
+	it('never compares an AC rating with a DC rail as if it were DC, and says so', () => {
+		// 275 V AC below a 400 V DC rail would read as "below the rail" if AC were taken for DC.
+		const ac = normaliseLine(draft({ designators: 'CX1', kind: 'capacitor', value: '100n', ratingV: '275 V AC' }), 1, { railV: 400 });
+		expect(ac.line!.checks.map((c) => [c.id, c.level])).toEqual([['part.ac-rating', 'note']]);
+		expect(ac.line!.checks[0].message).toContain('is not compared with the 400 V DC rail as if it were DC');
+		// The same number as DC, substituted below a DC design rating, still gets the usual caution.
+		const dc = normaliseLine(draft({ designators: 'C1', kind: 'capacitor', value: '100n', ratingV: '275', designValue: '100n/400V', reason: 'on hand' }), 1, { railV: 350 });
+		expect(dc.line!.checks.map((c) => c.id)).toContain('part.rating-below-rail');
+		// AC fitted where the design gives AC: compared AC with AC.
+		const both = normaliseLine(draft({ designators: 'CY1', kind: 'capacitor', value: '4n7', ratingV: '250 V AC', designValue: '4n7 300VAC', reason: 'on hand' }), 1);
+		expect(both.line!.checks.find((c) => c.id === 'part.rating-below-rail')?.message).toContain('250 V AC, lower than the design’s 300 V AC'.replace('’', "'"));
+	});
+});
+
+describe('formatPartValue and valueAsTyped: one display, 3 significant figures', () => {
+	it('keeps 3 significant figures with trailing zeros (checked against Number.prototype.toPrecision)', () => {
+		const cases: [number, string, string][] = [
+			[4700, 'ohm', '4.70 kΩ'],
+			[0.22, 'ohm', '220 mΩ'],
+			[5e-7, 'F', '500 nF'],
+			[0.01, 'F', '10.0 mF'],
+			[999.6, 'ohm', '1.00 kΩ'],
+			[1e-5, 'H', '10.0 µH'],
+			[0, 'ohm', '0 Ω']
+		];
+		for (const [v, u, want] of cases) expect(formatPartValue(v, u)).toBe(want);
+		// Oracle: the mantissa is the JavaScript engine's own 3-significant-figure rounding of the value.
+		expect(formatPartValue(123456, 'ohm')).toBe(`${(123456 / 1000).toPrecision(3)} kΩ`);
+	});
+
+	it('shows a value as typed with its SI reading beside it', () => {
+		expect(valueAsTyped({ valueText: '4k7', value: 4700, unit: 'ohm' })).toEqual({ typed: '4k7', si: '4.70 kΩ' });
+		expect(valueAsTyped({ valueText: '0R22', value: 0.22, unit: 'ohm' })).toEqual({ typed: '0R22', si: '220 mΩ' });
+		expect(valueAsTyped({ valueText: '10000u', value: 0.01, unit: 'F' })).toEqual({ typed: '10000u', si: '10.0 mF' });
+		expect(valueAsTyped({ valueText: '500 nF', value: 5e-7, unit: 'F' })).toEqual({ typed: '500 nF', si: null });
+		expect(valueAsTyped({ valueText: 'NPN power transistor', value: null, unit: null })).toEqual({ typed: 'NPN power transistor', si: null });
 	});
 });

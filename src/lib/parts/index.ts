@@ -7,3 +7,4 @@ export * from './kinds';
 export * from './values';
 export * from './lines';
 export * from './checks';
+export * from './cost';

@@ -6,8 +6,9 @@
  */
 import { decodeMarking } from '$lib/engineering';
 import { PART_KINDS, normaliseKind, valueKindOf, type PartKind } from './kinds';
-import { deviationPct, designRatingOf, parsePartValue, parsePercent, parseVolts, parseWatts } from './values';
+import { AmbiguousPlusError, deviationPct, designRatingOf, parsePartValue, parsePercent, parseVoltageRating, parseWatts, voltageRatingText } from './values';
 import { partChecks } from './checks';
+import { parseCurrency, parseFlag, parseUnitPrice, priceText } from './cost';
 
 /** A potentiometer marking: taper letter and a 3-digit value code ("B104"). */
 const POT_MARKING = /^[A-Z]\d{3}$/i;
@@ -25,6 +26,16 @@ export interface PartLineDraft {
 	notes: string;
 	designValue: string;
 	reason: string;
+	/** Manufacturer part number (free text). */
+	mpn: string;
+	/** Supplier (free text). */
+	supplier: string;
+	/** Unit price as typed ("0.12"); exact decimal, currency in its own field. */
+	unitPrice: string;
+	/** ISO 4217 code ("EUR"). */
+	currency: string;
+	/** "yes" when the quantity is per channel (multiplied by the build's channel count), else "". */
+	perChannel: string;
 }
 
 /** Fields of a draft line, in column order. */
@@ -39,12 +50,17 @@ export const DRAFT_FIELDS = [
 	'package',
 	'notes',
 	'designValue',
-	'reason'
+	'reason',
+	'mpn',
+	'supplier',
+	'unitPrice',
+	'currency',
+	'perChannel'
 ] as const satisfies readonly (keyof PartLineDraft)[];
 
 /** An empty draft line (quantity 1, kind resistor). */
 export function emptyDraft(): PartLineDraft {
-	return { designators: '', quantity: '1', kind: 'resistor', value: '', tolerance: '', ratingV: '', ratingW: '', package: '', notes: '', designValue: '', reason: '' };
+	return { designators: '', quantity: '1', kind: 'resistor', value: '', tolerance: '', ratingV: '', ratingW: '', package: '', notes: '', designValue: '', reason: '', mpn: '', supplier: '', unitPrice: '', currency: '', perChannel: '' };
 }
 
 /** A check on a line, stored with it (same shape as a spec block's checks). */
@@ -66,6 +82,8 @@ export interface PartLineFields {
 	unit: string | null;
 	tolerancePct: number | null;
 	ratingV: number | null;
+	/** The voltage rating is an AC rating (X/Y capacitors: "275 V AC"), never compared with a DC rail as if DC. */
+	ratingVAc: boolean;
 	ratingW: number | null;
 	package: string;
 	notes: string;
@@ -73,6 +91,12 @@ export interface PartLineFields {
 	designValue: number | null;
 	substitutionReason: string | null;
 	deviationPct: number | null;
+	mpn: string;
+	supplier: string;
+	/** Exact decimal with 4 places as stored ("0.0120"), or null. */
+	unitPrice: string | null;
+	currency: string | null;
+	perChannel: boolean;
 }
 
 /** A validated line, ready to store. */
@@ -86,6 +110,8 @@ export interface LineError {
 	line: number;
 	field: keyof PartLineDraft | 'line';
 	message: string;
+	/** Rewrites the maker can pick instead ("2×1u series", "1u||1u" for a bare "1u+1u"). */
+	choices?: string[];
 }
 
 /** What the checks on a line need to know about the build. */
@@ -95,7 +121,7 @@ export interface PartContext {
 }
 
 /** Limits of a parts list. */
-export const PARTS_LIMITS = { lines: 1000, designators: 500, value: 200, package: 100, notes: 2000, reason: 1000 } as const;
+export const PARTS_LIMITS = { lines: 1000, designators: 500, value: 200, package: 100, notes: 2000, reason: 1000, mpn: 100, supplier: 200 } as const;
 
 /**
  * Validate and normalise one draft line. `line` is its number for messages (editor row or CSV line).
@@ -104,7 +130,8 @@ export const PARTS_LIMITS = { lines: 1000, designators: 500, value: 200, package
  */
 export function normaliseLine(draft: PartLineDraft, line: number, ctx: PartContext = {}): { line?: NormalisedPartLine; errors: LineError[] } {
 	const errors: LineError[] = [];
-	const err = (field: LineError['field'], message: string) => errors.push({ line, field, message });
+	const err = (field: LineError['field'], message: string, choices?: string[]) =>
+		errors.push({ line, field, message, ...(choices ? { choices } : {}) });
 	const text = (s: unknown) => (typeof s === 'string' ? s.trim() : '');
 
 	const designators = text(draft.designators);
@@ -151,11 +178,16 @@ export function normaliseLine(draft: PartLineDraft, line: number, ctx: PartConte
 		(t) => `tolerance "${t}" must be a percentage, e.g. 5 or ±1 %`,
 		'tolerance must be above 0 % and at most 100 %'
 	);
+	let ratingVAc = false;
 	let ratingV = optionalNumber(
 		'ratingV',
-		parseVolts,
+		(t) => {
+			const r = parseVoltageRating(t);
+			if (r) ratingVAc = r.ac;
+			return r?.volts ?? null;
+		},
 		100_000,
-		(t) => `voltage rating "${t}" must be volts, e.g. 63 or 63 V`,
+		(t) => `voltage rating "${t}" must be volts, e.g. 63, 63 V, or 275 V AC for an X/Y capacitor`,
 		'voltage rating must be above 0 V and at most 100 kV'
 	);
 	const ratingW = optionalNumber(
@@ -173,11 +205,33 @@ export function normaliseLine(draft: PartLineDraft, line: number, ctx: PartConte
 	const reason = text(draft.reason);
 	if (reason.length > PARTS_LIMITS.reason) err('reason', `the reason is at most ${PARTS_LIMITS.reason} characters`);
 	if (reason !== '' && designText === '') err('designValue', 'a substitution reason needs the design value it replaces');
+	const mpn = text(draft.mpn);
+	if (mpn.length > PARTS_LIMITS.mpn) err('mpn', `the manufacturer part number is at most ${PARTS_LIMITS.mpn} characters`);
+	const supplier = text(draft.supplier);
+	if (supplier.length > PARTS_LIMITS.supplier) err('supplier', `the supplier is at most ${PARTS_LIMITS.supplier} characters`);
+	let unitPrice: string | null = null;
+	try {
+		unitPrice = parseUnitPrice(text(draft.unitPrice));
+	} catch (e) {
+		err('unitPrice', (e as Error).message);
+	}
+	let currency: string | null = null;
+	try {
+		currency = parseCurrency(text(draft.currency));
+	} catch (e) {
+		err('currency', (e as Error).message);
+	}
+	if (unitPrice !== null && currency === null && text(draft.currency) === '')
+		err('currency', `a unit price needs its currency: add a three-letter code such as EUR or USD`);
+	const perChannel = parseFlag(text(draft.perChannel));
+	if (perChannel === null) err('perChannel', `"per channel" is yes or no, not "${text(draft.perChannel)}"`);
 
 	let value: number | null = null;
 	let unit: string | null = null;
 	let designValue: number | null = null;
 	let designRatingV: number | null = null;
+	let designRatingAc = false;
+	let codeReading: string | null = null;
 	const vk = kind ? valueKindOf(kind) : null;
 	if (kind && vk) {
 		if (kind === 'jumper') {
@@ -194,10 +248,16 @@ export function normaliseLine(draft: PartLineDraft, line: number, ctx: PartConte
 				if (kind === 'potentiometer' && p.value === 0) throw new RangeError('a potentiometer must be greater than 0 Ω');
 				value = p.value;
 				unit = p.unit;
+				codeReading = 'codeReading' in p ? (p.codeReading ?? null) : null;
 				if (p.ratingV !== undefined) {
-					if (ratingV !== null && ratingV !== p.ratingV)
-						err('ratingV', `the voltage rating is given twice: ${p.ratingV} V in the value and ${ratingV} V in the rating column`);
+					const pAc = 'ratingAc' in p && !!p.ratingAc;
+					if (ratingV !== null && (ratingV !== p.ratingV || ratingVAc !== pAc))
+						err(
+							'ratingV',
+							`the voltage rating is given twice: ${voltageRatingText(p.ratingV, pAc)} in the value and ${voltageRatingText(ratingV, ratingVAc)} in the rating column`
+						);
 					ratingV = p.ratingV;
+					ratingVAc = pAc;
 				}
 				if (p.tolerancePct !== undefined) {
 					if (tolerancePct !== null && tolerancePct !== p.tolerancePct)
@@ -205,7 +265,8 @@ export function normaliseLine(draft: PartLineDraft, line: number, ctx: PartConte
 					tolerancePct = p.tolerancePct;
 				}
 			} catch (e) {
-				err('value', `cannot read the value: ${(e as Error).message}`);
+				if (e instanceof AmbiguousPlusError) err('value', e.message, [...e.choices]);
+				else err('value', `cannot read the value: ${(e as Error).message}`);
 			}
 		}
 		if (designText !== '') {
@@ -213,14 +274,15 @@ export function normaliseLine(draft: PartLineDraft, line: number, ctx: PartConte
 				const d = parsePartValue(designText, vk);
 				designValue = d.value;
 				designRatingV = d.ratingV ?? null;
+				designRatingAc = !!d.ratingAc;
 			} catch (e) {
 				// A jumper may stand where the design had a fuse or other non-resistor part: keep that as text.
-				if (kind === 'jumper') designRatingV = designRatingOf(designText);
+				if (kind === 'jumper') ({ volts: designRatingV, ac: designRatingAc } = designRatingOf(designText));
 				else err('designValue', `cannot read the design value: ${(e as Error).message}`);
 			}
 		}
 	} else if (kind) {
-		designRatingV = designRatingOf(designText);
+		({ volts: designRatingV, ac: designRatingAc } = designRatingOf(designText));
 	}
 
 	if (errors.length || !kind) return { errors };
@@ -233,15 +295,25 @@ export function normaliseLine(draft: PartLineDraft, line: number, ctx: PartConte
 		unit,
 		tolerancePct,
 		ratingV,
+		ratingVAc: ratingV !== null && ratingVAc,
 		ratingW,
 		package: pkg,
 		notes,
 		designValueText: designText === '' ? null : designText,
 		designValue,
 		substitutionReason: reason === '' ? null : reason,
-		deviationPct: designText === '' ? null : deviationPct(value, designValue)
+		deviationPct: designText === '' ? null : deviationPct(value, designValue),
+		mpn,
+		supplier,
+		unitPrice,
+		currency,
+		perChannel: perChannel === true
 	};
-	return { line: { ...base, checks: partChecks(base, designRatingV, ctx) }, errors };
+	const checks = partChecks(base, { volts: designRatingV, ac: designRatingAc }, ctx);
+	// Bare digits read as a marking code ("104"): say how, so a misreading shows.
+	if (codeReading)
+		checks.push({ id: 'part.value-read-as-code', level: 'note', message: `${designators || 'A line'}: ${codeReading}`, values: { designators, valueText } });
+	return { line: { ...base, checks }, errors };
 }
 
 /**
@@ -270,8 +342,19 @@ export function normaliseLines(
 export function lineToDraft(
 	row: Pick<
 		PartLineFields,
-		'designators' | 'quantity' | 'kind' | 'valueText' | 'tolerancePct' | 'ratingV' | 'ratingW' | 'package' | 'notes' | 'designValueText' | 'substitutionReason'
-	>
+		| 'designators'
+		| 'quantity'
+		| 'kind'
+		| 'valueText'
+		| 'tolerancePct'
+		| 'ratingV'
+		| 'ratingW'
+		| 'package'
+		| 'notes'
+		| 'designValueText'
+		| 'substitutionReason'
+	> &
+		Partial<Pick<PartLineFields, 'ratingVAc' | 'mpn' | 'supplier' | 'unitPrice' | 'currency' | 'perChannel'>>
 ): PartLineDraft {
 	const num = (x: number | null) => (x === null || x === undefined ? '' : String(x));
 	return {
@@ -280,11 +363,16 @@ export function lineToDraft(
 		kind: row.kind,
 		value: row.valueText,
 		tolerance: num(row.tolerancePct),
-		ratingV: num(row.ratingV),
+		ratingV: row.ratingV === null || row.ratingV === undefined ? '' : row.ratingVAc ? voltageRatingText(row.ratingV, true) : String(row.ratingV),
 		ratingW: num(row.ratingW),
 		package: row.package,
 		notes: row.notes,
 		designValue: row.designValueText ?? '',
-		reason: row.substitutionReason ?? ''
+		reason: row.substitutionReason ?? '',
+		mpn: row.mpn ?? '',
+		supplier: row.supplier ?? '',
+		unitPrice: priceText(row.unitPrice),
+		currency: row.currency ?? '',
+		perChannel: row.perChannel ? 'yes' : ''
 	};
 }

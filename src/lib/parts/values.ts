@@ -5,13 +5,16 @@
  * Value notation (shown in the editor):
  * - one part: SI prefix or RKM code — `4k7`, `4.7k`, `2R2`, `0R22`, `100n`, `0.47u`, `4u7`, `10uH`, `1M0`;
  * - a network of fitted parts: `+` joins parts in SERIES, `||` joins parts in PARALLEL, and `||` binds
- *   tighter than `+` (as in circuit notes): `1u+1u` (two 1 µF in series = 500 nF), `10k||10k` (5 kΩ),
- *   `1k + 10k||10k` (6 kΩ);
- * - an optional voltage rating after a space or slash — `100u/63V`, `100u 63V` — and a tolerance —
- *   `4k7 ±1%`, `100n 10%`;
+ *   tighter than `+` (as in circuit notes): `10k+10k` (20 kΩ), `10k||10k` (5 kΩ), `1k + 10k||10k` (6 kΩ);
+ *   on a capacitor line a bare `+` is asked about (builders read `1u+1u` both ways): write `2×1u series`,
+ *   `1u+2u series` or `1u||1u` / `2×1u parallel`;
+ * - bare digits: `104` on a capacitor line is the 3-digit code (100 nF), on a resistor line the IEC 60062
+ *   3-digit code (100 kΩ) when the last digit is 1–6; a bare number on a capacitor line is otherwise refused;
+ * - an optional voltage rating after a space or slash — `100u/63V`, `100u 63V`, `100n 275VAC` (an AC rating,
+ *   X/Y capacitors) — and a tolerance — `4k7 ±1%`, `100n 10%`;
  * - a resistor position bridged by a wire: kind "jumper", or value `0R`, `0`, `link`, `jumper`.
  */
-import { formatValue, networkValue, parseValue, type NetworkPart, type ValueKind, type ValueUnit } from '$lib/engineering';
+import { cleanNumber, networkValue, parseValue, type NetworkPart, type ValueKind, type ValueUnit } from '$lib/engineering';
 import { decodeCapacitorCode, decodeVoltageCodedMarking, expandCount } from '$lib/engineering/trade-notation';
 
 const NETWORK_PART: Record<ValueKind, NetworkPart> = { resistance: 'resistor', capacitance: 'capacitor', inductance: 'inductor' };
@@ -28,12 +31,18 @@ export interface ParsedPartValue {
 	arrangement?: 'series' | 'parallel' | 'mixed';
 	/** Voltage rating written after the value ("100u/63V"). */
 	ratingV?: number;
+	/** The rating written after the value is an AC rating ("100n 275VAC"). */
+	ratingAc?: boolean;
+	/** The reading as a sentence: "two 1 µF in series = 500 nF", or how bare digits were read. */
+	reading?: string;
+	/** Bare digits read as a 3-digit code ("104"): the sentence that says so (stored as a note on the line). */
+	codeReading?: string;
 	/** Tolerance written after the value ("4k7 1%"). */
 	tolerancePct?: number;
 }
 
 const JUMPER_WORDS = /^(jumper|link|wire|wire link|bridge|0r|0r0|0|0 ?[ωΩ]|0 ?ohms?)$/i;
-const RATING_TAIL = /(?:\s*\/\s*|\s+)(\d+(?:\.\d+)?)\s*(k?)V(?:DC)?$/i;
+const RATING_TAIL = /(?:\s*\/\s*|\s+)(\d+(?:\.\d+)?)\s*(k?)V\s*(?:(AC|a\.c\.|~)|DC|d\.c\.)?$/i;
 const TOLERANCE_TAIL = /(?:\s+|\s*(?:±|\+\/-|\+-)\s*)(\d+(?:\.\d+)?)\s*%$/;
 
 /**
@@ -44,7 +53,7 @@ function readTradeNotation(
 	core: string,
 	kind: ValueKind,
 	text: string
-): { value: number; ratingV?: number; tolerancePct?: number } | { core: string } | null {
+): { value: number; ratingV?: number; tolerancePct?: number } | { core: string; arrangement: 'series' | 'parallel' } | null {
 	if (kind === 'capacitance') {
 		const coded = decodeVoltageCodedMarking(core);
 		if (coded) return { value: coded.value, ratingV: coded.ratingV, tolerancePct: coded.tolerancePct };
@@ -53,21 +62,23 @@ function readTradeNotation(
 	}
 	try {
 		const counted = expandCount(core);
-		return counted ? { core: counted.text } : null;
+		return counted ? { core: counted.text, arrangement: counted.arrangement } : null;
 	} catch (e) {
 		throw new RangeError(`"${text}": ${(e as Error).message.replace(/^"[^"]*": /, '')}`);
 	}
 }
 
 /** Split "100u/63V 10%" into the value text and its rating and tolerance tails. */
-function splitTails(text: string): { core: string; ratingV?: number; tolerancePct?: number } {
+function splitTails(text: string): { core: string; ratingV?: number; ratingAc?: boolean; tolerancePct?: number } {
 	let core = text.trim();
 	let ratingV: number | undefined;
+	let ratingAc: boolean | undefined;
 	let tolerancePct: number | undefined;
 	for (let i = 0; i < 2; i++) {
 		const r = RATING_TAIL.exec(core);
 		if (r && ratingV === undefined) {
 			ratingV = Number(r[1]) * (r[2] ? 1000 : 1);
+			if (r[3]) ratingAc = true;
 			core = core.slice(0, r.index).trim();
 			continue;
 		}
@@ -78,47 +89,143 @@ function splitTails(text: string): { core: string; ratingV?: number; tolerancePc
 			continue;
 		}
 	}
-	return { core, ratingV, tolerancePct };
+	return { core, ratingV, ...(ratingAc ? { ratingAc } : {}), tolerancePct };
 }
 
 /**
+ * A capacitor value joined by a bare "+": many builders read 1u+1u as parallel (the capacitances add), others as
+ * series, so it is not guessed. The message names both ways of writing it; `choices` are the rewrites
+ * (series first), `readings` what each gives.
+ */
+export class AmbiguousPlusError extends RangeError {
+	readonly choices: [string, string];
+	readonly readings: [string, string];
+	constructor(message: string, choices: [string, string], readings: [string, string]) {
+		super(message);
+		this.name = 'AmbiguousPlusError';
+		this.choices = choices;
+		this.readings = readings;
+	}
+}
+
+const NUMBER_WORDS = ['zero', 'one', 'two', 'three', 'four', 'five', 'six', 'seven', 'eight', 'nine', 'ten'];
+
+/** "two 1 µF in series = 500 nF", "10 kΩ and 4.7 kΩ in parallel = 3.2 kΩ": a network as a sentence. */
+function networkReading(values: number[], unit: ValueUnit, arrangement: 'series' | 'parallel' | 'mixed', total: number): string {
+	const each = values.map((v) => formatPartValue(v, unit));
+	const same = each.every((e) => e === each[0]);
+	const parts = same ? `${NUMBER_WORDS[values.length] ?? values.length} ${each[0]}` : `${each.slice(0, -1).join(', ')} and ${each.at(-1)}`;
+	const how = arrangement === 'mixed' ? 'in series and parallel' : `in ${arrangement}`;
+	return `${parts} ${how} = ${formatPartValue(total, unit)}`;
+}
+
+/**
+ * Bare digits on a line of a known kind ("104", "470", "0.1"), read per IEC 60062 where they are a marking:
+ * - capacitor: 3 digits not ending in 0 are the 3-digit code in pF ("104" = 10 × 10⁴ pF = 100 nF; 8 and 9 as
+ *   the last digit are ×0.01 and ×0.1); anything else bare ("470", "10", "0.1") is refused, since makers mean pF,
+ *   µF or the code and the unit decides;
+ * - resistor: 3 digits whose last digit is 1–6 are the 3-digit code in Ω ("104" = 100 kΩ, "472" = 4.7 kΩ); other
+ *   bare numbers ("100", "47", "1000") stay ohms as written;
+ * - inductor: left to parseValue.
+ * → the value and the sentence that says how it was read, or null when the text is not bare digits.
+ */
+function readBareDigits(core: string, kind: ValueKind): { value: number; codeReading?: string } | null {
+	if (!/^\d+(?:[.,]\d+)?$/.test(core)) return null;
+	const code = /^\d{3}$/.test(core) ? { sig: Number(core.slice(0, 2)), exp: Number(core[2]) } : null;
+	const codeValue = (scale: number) => {
+		const e = code!.exp;
+		return cleanNumber((e === 8 ? code!.sig / 100 : e === 9 ? code!.sig / 10 : code!.sig * 10 ** e) * scale);
+	};
+	const power = (e: number) => (e === 8 ? '10⁻²' : e === 9 ? '10⁻¹' : `10${'⁰¹²³⁴⁵⁶⁷'[e]}`);
+	if (kind === 'capacitance') {
+		if (code && code.exp !== 0) {
+			const value = codeValue(1e-12);
+			return { value, codeReading: `"${core}" is read as the 3-digit capacitor code: ${code.sig} × ${power(code.exp)} pF = ${formatPartValue(value, 'F')}.` };
+		}
+		const asCode = code ? ` (as a 3-digit code "${core}" would be ${formatPartValue(codeValue(1e-12), 'F')})` : '';
+		throw new RangeError(`"${core}" on a capacitor line has no unit${asCode}: write it with one, e.g. ${core}p, ${core}n or ${core}u`);
+	}
+	if (kind === 'resistance' && code && code.exp >= 1 && code.exp <= 6) {
+		const value = codeValue(1);
+		return {
+			value,
+			codeReading: `"${core}" is read as the 3-digit resistor code (IEC 60062): ${code.sig} × ${power(code.exp)} Ω = ${formatPartValue(value, 'ohm')}; for ${core} Ω write ${core}R.`
+		};
+	}
+	return null;
+}
+
+/** One part of a value (a network's branch or the whole value): bare digits as above, else parseValue. */
+function parseOne(b: string, kind: ValueKind): { value: number; tolerancePct?: number; codeReading?: string } {
+	const bare = readBareDigits(b, kind);
+	if (bare) return bare;
+	return parseValue(b, kind);
+}
+
+/** A network's arrangement word at the end ("1u+2u series", "1u+1u parallel"). */
+const ARRANGEMENT_TAIL = /\s+(?:in\s+)?(series|parallel)$/i;
+
+/**
  * Parse a part value as the trade writes it, for a value kind (see the notation above).
- * parsePartValue('1u+1u', 'capacitance') → { value: 5e-7, unit: 'F', parts: 2, arrangement: 'series' };
- * parsePartValue('100u/63V', 'capacitance') → { value: 1e-4, ratingV: 63, parts: 1 }. Throws RangeError with a
- * sentence a maker can act on.
+ * parsePartValue('2×1u series', 'capacitance') → { value: 5e-7, unit: 'F', parts: 2, arrangement: 'series',
+ * reading: 'two 1 µF in series = 500 nF' }; parsePartValue('100u/63V', 'capacitance') → { value: 1e-4, ratingV: 63,
+ * parts: 1 }; parsePartValue('104', 'capacitance') → 100 nF with a codeReading. A bare "+" between capacitor values
+ * throws AmbiguousPlusError; anything unreadable a RangeError with a sentence a maker can act on.
  */
 export function parsePartValue(text: string, kind: ValueKind): ParsedPartValue {
 	const tails = splitTails(text);
 	const { ratingV, tolerancePct } = tails;
+	const acTail = tails.ratingAc ? { ratingAc: true } : {};
 	// More of the trade's notation ($lib/engineering/trade-notation): "2A104J", "472J 100V", "2×10000u".
 	const trade = readTradeNotation(tails.core, kind, text);
 	if (trade && 'value' in trade) {
 		const rV = ratingV ?? trade.ratingV;
 		const tol = tolerancePct ?? trade.tolerancePct;
-		return { value: trade.value, unit: 'F', parts: 1, ...(rV !== undefined ? { ratingV: rV } : {}), ...(tol !== undefined ? { tolerancePct: tol } : {}) };
+		return {
+			value: trade.value,
+			unit: 'F',
+			parts: 1,
+			...(rV !== undefined ? { ratingV: rV, ...(ratingV !== undefined ? acTail : {}) } : {}),
+			...(tol !== undefined ? { tolerancePct: tol } : {})
+		};
 	}
-	const core = trade?.core ?? tails.core;
+	let core = trade?.core ?? tails.core;
+	// Said outright: a count with a word ("2×1u series") or a network followed by one ("1u+2u series").
+	let explicit = trade?.arrangement;
+	const word = ARRANGEMENT_TAIL.exec(core);
+	if (!explicit && word && /\+(?![/-])|\|\||∥/.test(core.slice(0, word.index))) {
+		explicit = word[1].toLowerCase() as 'series' | 'parallel';
+		core = core.slice(0, word.index).trim();
+		if (explicit === 'parallel') {
+			if (/\|\||∥/.test(core)) throw new RangeError(`"${text}": "parallel" after a network that already uses || is unclear; write it with || only`);
+			core = core.replace(/\s*\+(?![/-])\s*/g, '||');
+		} else if (/\|\||∥/.test(core)) throw new RangeError(`"${text}": "series" after a network that uses || is unclear; write it with + and || only`);
+	}
 	if (tolerancePct !== undefined && !(tolerancePct > 0 && tolerancePct <= 100))
 		throw new RangeError(`"${text}": a tolerance must be above 0 % and at most 100 %`);
 	if (ratingV !== undefined && !(ratingV > 0 && ratingV <= 100_000))
 		throw new RangeError(`"${text}": a voltage rating must be above 0 V and at most 100 kV`);
 	if (core === '') throw new RangeError('the value is empty');
-	const extra = { ...(ratingV !== undefined ? { ratingV } : {}), ...(tolerancePct !== undefined ? { tolerancePct } : {}) };
+	const extra: { ratingV?: number; ratingAc?: boolean; tolerancePct?: number } = {
+		...(ratingV !== undefined ? { ratingV, ...acTail } : {}),
+		...(tolerancePct !== undefined ? { tolerancePct } : {})
+	};
 	if (kind === 'resistance' && JUMPER_WORDS.test(core)) return { value: 0, unit: 'ohm', parts: 1, ...extra };
 
 	// "+" joins in series (but not the "+/-" of a tolerance); "||" joins in parallel and binds tighter.
 	const seriesTerms = core.split(/\+(?![/-])/).map((s) => s.trim());
 	const isNetwork = seriesTerms.length > 1 || core.includes('||') || core.includes('∥');
 	if (!isNetwork) {
-		const p = parseValue(core, kind);
+		const p = parseOne(core, kind);
 		if (p.tolerancePct !== undefined && extra.tolerancePct === undefined) extra.tolerancePct = p.tolerancePct;
-		return { value: p.value, unit: p.unit, parts: 1, ...extra };
+		return { value: p.value, unit: UNIT_OF[kind], parts: 1, ...extra, ...(p.codeReading ? { reading: p.codeReading, codeReading: p.codeReading } : {}) };
 	}
 	if (seriesTerms.some((t) => t === ''))
-		throw new RangeError(`"${text}": a "+" needs a value on both sides, e.g. 1u+1u for two parts in series`);
+		throw new RangeError(`"${text}": a "+" needs a value on both sides, e.g. 2×1u series for two parts in series`);
 	const part = NETWORK_PART[kind];
 	let parts = 0;
 	let hasParallel = false;
+	const all: number[] = [];
 	const termValues = seriesTerms.map((term) => {
 		const branches = term.split(/\|\||∥/).map((s) => s.trim());
 		if (branches.some((b) => b === ''))
@@ -126,12 +233,13 @@ export function parsePartValue(text: string, kind: ValueKind): ParsedPartValue {
 		const values = branches.map((b) => {
 			let p;
 			try {
-				p = parseValue(b, kind);
+				p = parseOne(b, kind);
 			} catch (err) {
 				throw new RangeError(`"${text}": part "${b}" — ${(err as Error).message}`);
 			}
 			if (p.value <= 0) throw new RangeError(`"${text}": every part of a network must be greater than zero ("${b}")`);
 			if (p.tolerancePct !== undefined && extra.tolerancePct === undefined) extra.tolerancePct = p.tolerancePct;
+			all.push(p.value);
 			return p.value;
 		});
 		parts += values.length;
@@ -139,9 +247,24 @@ export function parsePartValue(text: string, kind: ValueKind): ParsedPartValue {
 		return values.length > 1 ? networkValue(part, 'parallel', values) : values[0];
 	});
 	if (parts > 50) throw new RangeError(`"${text}": a network of at most 50 parts`);
-	const value = termValues.length > 1 ? networkValue(part, 'series', termValues) : termValues[0];
+	const value = Number((termValues.length > 1 ? networkValue(part, 'series', termValues) : termValues[0]).toPrecision(12));
 	const arrangement = termValues.length > 1 ? (hasParallel ? 'mixed' : 'series') : 'parallel';
-	return { value: Number(value.toPrecision(12)), unit: UNIT_OF[kind], parts, arrangement, ...extra };
+	const unit = UNIT_OF[kind];
+	// Capacitors: a "+" nobody spelled out is asked about, never guessed.
+	if (kind === 'capacitance' && seriesTerms.length > 1 && explicit !== 'series') {
+		const same = !hasParallel && seriesTerms.every((t) => t === seriesTerms[0]);
+		const seriesForm = same ? `${seriesTerms.length}×${seriesTerms[0]} series` : `${core} series`;
+		const parallelForm = core.replace(/\s*\+(?![/-])\s*/g, '||');
+		const parallelValue = Number(networkValue(part, 'parallel', all).toPrecision(12));
+		const seriesReading = networkReading(all, unit, arrangement, value);
+		const parallelReading = networkReading(all, unit, 'parallel', parallelValue);
+		throw new AmbiguousPlusError(
+			`"${text}": a "+" between capacitors is read both ways by builders. Write ${seriesForm} (${seriesReading}) or ${parallelForm} (${parallelReading}).`,
+			[seriesForm, parallelForm],
+			[seriesReading, parallelReading]
+		);
+	}
+	return { value, unit, parts, arrangement, ...extra, reading: networkReading(all, unit, arrangement, value) };
 }
 
 /**
@@ -169,22 +292,61 @@ export function formatDeviation(deviation: number): string {
 	return `${sign}${abs.toFixed(digits)} %`;
 }
 
-/** A part value for display: "4.7 kΩ", "500 nF"; text kinds as written. */
-export function formatPartValue(value: number | null | undefined, unit: string | null | undefined, text = ''): string {
-	if (typeof value === 'number' && unit) {
-		try {
-			return formatValue(value, unit);
-		} catch {
-			return text;
-		}
-	}
-	return text;
+const SI_PREFIXES: readonly [number, string][] = [
+	[-15, 'f'],
+	[-12, 'p'],
+	[-9, 'n'],
+	[-6, 'µ'],
+	[-3, 'm'],
+	[0, ''],
+	[3, 'k'],
+	[6, 'M'],
+	[9, 'G']
+];
+
+/**
+ * THE display of a part value (Ω, F, H) wherever parts are shown: an engineering prefix and `digits` significant
+ * figures, trailing zeros kept (3 unless a field says otherwise), µ as U+00B5, Ω as U+03A9, one space.
+ * formatPartValue(4700, 'ohm') → "4.70 kΩ"; formatPartValue(0.22, 'ohm') → "220 mΩ"; formatPartValue(5e-7, 'F') →
+ * "500 nF"; text kinds (no number) → `text` as written.
+ */
+export function formatPartValue(value: number | null | undefined, unit: string | null | undefined, text = '', digits = 3): string {
+	if (typeof value !== 'number' || !unit || !Number.isFinite(value)) return text;
+	const symbol = unit === 'ohm' ? 'Ω' : unit;
+	if (value === 0) return `0 ${symbol}`;
+	const rounded = Number(Math.abs(value).toPrecision(digits));
+	const exp3 = Math.min(9, Math.max(-15, Math.floor(Math.floor(Math.log10(rounded) + 1e-9) / 3) * 3));
+	const prefix = SI_PREFIXES.find(([e]) => e === exp3)![1];
+	const mantissa = (rounded / 10 ** exp3).toPrecision(digits);
+	// toPrecision may fall back to exponent form for mantissas ≥ 10^digits (e.g. 1000 GΩ): keep it plain.
+	const plain = mantissa.includes('e') ? String(Number(mantissa)) : mantissa;
+	return `${value < 0 ? '-' : ''}${plain} ${prefix}${symbol}`;
 }
 
-/** The design voltage rating written in a design value ("100u/63V" → 63), or null. */
-export function designRatingOf(designValueText: string | null | undefined): number | null {
-	if (!designValueText) return null;
-	return splitTails(designValueText).ratingV ?? null;
+/**
+ * A value as the maker typed it and its SI reading, for the parts list, compare, review and revision pages:
+ * valueAsTyped({ valueText: '4k7', value: 4700, unit: 'ohm' }) → { typed: '4k7', si: '4.70 kΩ' }; si is null for
+ * text kinds and when the typed text already says the same ("4.70 kΩ").
+ */
+export function valueAsTyped(l: { valueText: string | null; value: number | null; unit: string | null }): { typed: string; si: string | null } {
+	const typed = (l.valueText ?? '').trim();
+	const si = formatPartValue(l.value, l.unit);
+	if (!si) return { typed: typed || '—', si: null };
+	if (!typed) return { typed: si, si: null };
+	const same = typed.replace(/\s+/g, '').replace(/[uμ]/g, 'µ').toLowerCase() === si.replace(/\s+/g, '').toLowerCase();
+	return { typed, si: same ? null : si };
+}
+
+/** The design voltage rating written in a design value ("100u/63V" → 63 V DC, "100n 275VAC" → 275 V AC), volts null when none. */
+export function designRatingOf(designValueText: string | null | undefined): { volts: number | null; ac: boolean } {
+	if (!designValueText) return { volts: null, ac: false };
+	const t = splitTails(designValueText);
+	return { volts: t.ratingV ?? null, ac: !!t.ratingAc };
+}
+
+/** A voltage rating for display and the editor: voltageRatingText(275, true) → "275 V AC", voltageRatingText(63, false) → "63 V". */
+export function voltageRatingText(volts: number, ac: boolean): string {
+	return `${volts} V${ac ? ' AC' : ''}`;
 }
 
 /** Read a percent: "5", "5%", "±5 %", "+/-5%" → 5. */
@@ -193,10 +355,13 @@ export function parsePercent(text: string): number | null {
 	return m ? Number(m[1].replace(',', '.')) : null;
 }
 
-/** Read a voltage rating: "63", "63V", "63 VDC", "1.5kV" → volts. */
-export function parseVolts(text: string): number | null {
-	const m = /^(\d+(?:[.,]\d+)?)\s*(k?)\s*(?:V|VDC|V DC|Vdc)?$/i.exec(text.trim());
-	return m ? Number(m[1].replace(',', '.')) * (m[2] ? 1000 : 1) : null;
+/**
+ * Read a voltage rating: "63", "63V", "63 VDC", "1.5kV" → { volts, ac: false }; "275 V AC", "275VAC", "275 Vac",
+ * "275 V~", "275 V a.c." → { volts: 275, ac: true } (X/Y capacitors are rated in V AC). Null when unreadable.
+ */
+export function parseVoltageRating(text: string): { volts: number; ac: boolean } | null {
+	const m = /^(\d+(?:[.,]\d+)?)\s*(k?)\s*(?:V\s*(?:(AC|a\.c\.|~)|DC|d\.c\.)?)?$/i.exec(text.trim());
+	return m ? { volts: Number(m[1].replace(',', '.')) * (m[2] ? 1000 : 1), ac: !!m[3] } : null;
 }
 
 /** Read a power rating: "0.25", "1/4", "1/4 W", "250mW" → watts. */

@@ -86,6 +86,13 @@ export async function loadPublishedContent(b: schema.Build, dbx: DbLike = db): P
 				designValue: p.designValue ?? null,
 				substitutionReason: p.substitutionReason ?? null,
 				deviationPct: p.deviationPct ?? null,
+				// Costed-list fields (issue 13): absent from snapshots taken before them.
+				ratingVAc: p.ratingVAc ?? false,
+				mpn: p.mpn ?? '',
+				supplier: p.supplier ?? '',
+				unitPrice: p.unitPrice ?? null,
+				currency: p.currency ?? null,
+				perChannel: p.perChannel ?? false,
 				id: p.id,
 				buildId: b.id,
 				position: i,

@@ -104,11 +104,15 @@ const PART_FIELDS: [keyof SnapshotPart, string][] = [
 	['package', 'package'],
 	['notes', 'notes'],
 	['designValueText', 'design value'],
-	['substitutionReason', 'substitution reason']
+	['substitutionReason', 'substitution reason'],
+	['mpn', 'manufacturer part number'],
+	['supplier', 'supplier'],
+	['unitPrice', 'unit price'],
+	['currency', 'currency']
 ];
 
 const partLabel = (p: SnapshotPart) => [p.designators, p.valueText || p.kind].filter(Boolean).join(' ') || p.kind;
-const partContent = (p: SnapshotPart) => stableJson(PART_FIELDS.map(([k]) => p[k] ?? null));
+const partContent = (p: SnapshotPart) => stableJson(PART_FIELDS.map(([k]) => (p[k] === '' ? null : p[k]) ?? null));
 const stepContent = (s: SnapshotStep) => stableJson([s.title, s.bodyMd]);
 const specContent = (b: SnapshotSpecBlock) => stableJson([b.kind, b.title, b.data]);
 

@@ -73,6 +73,12 @@ export async function takeSnapshot(tx: DbLike, buildId: string): Promise<BuildSn
 			designValue: p.designValue,
 			substitutionReason: p.substitutionReason,
 			deviationPct: p.deviationPct,
+			ratingVAc: p.ratingVAc,
+			mpn: p.mpn,
+			supplier: p.supplier,
+			unitPrice: p.unitPrice,
+			currency: p.currency,
+			perChannel: p.perChannel,
 			checks: p.checks
 		}))
 	};

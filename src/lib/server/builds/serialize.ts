@@ -118,8 +118,14 @@ export function serializeBuildDetail({ build: b, maker: m, content, lineage, rev
 			tolerancePct: p.tolerancePct,
 			ratingV: p.ratingV,
 			ratingW: p.ratingW,
+			ratingVAc: p.ratingVAc,
 			package: p.package,
 			notes: p.notes,
+			mpn: p.mpn,
+			supplier: p.supplier,
+			unitPrice: p.unitPrice,
+			currency: p.currency,
+			perChannel: p.perChannel,
 			substitution:
 				p.designValueText != null && p.designValueText !== ''
 					? {

@@ -32,7 +32,10 @@ export interface SnapshotSpecBlock {
 	checks: unknown[];
 }
 
-export interface SnapshotPart extends PartLineFields {
+/** Part-line fields added after the first revisions were taken (issue 13): absent from older snapshots. */
+type LaterPartFields = 'ratingVAc' | 'mpn' | 'supplier' | 'unitPrice' | 'currency' | 'perChannel';
+
+export interface SnapshotPart extends Omit<PartLineFields, LaterPartFields>, Partial<Pick<PartLineFields, LaterPartFields>> {
 	id: string;
 	/** Checks stored with the line at that time (not compared by the diff: they follow from the fields). */
 	checks?: unknown[];
@@ -141,7 +144,11 @@ const partContent = (p: SnapshotPart) =>
 		p.package,
 		p.notes,
 		p.designValueText,
-		p.substitutionReason
+		p.substitutionReason,
+		// Costed-list fields (issue 13) count only when set, so snapshots from before them compare equal.
+		...(p.ratingVAc || p.mpn || p.supplier || (p.unitPrice ?? null) !== null || (p.currency ?? null) !== null || p.perChannel
+			? [!!p.ratingVAc, p.mpn ?? '', p.supplier ?? '', p.unitPrice ?? null, p.currency ?? null, !!p.perChannel]
+			: [])
 	]);
 
 const FIELD_NAMES: [keyof SnapshotBuild, string][] = [

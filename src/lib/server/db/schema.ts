@@ -6,6 +6,7 @@ import {
 	boolean,
 	integer,
 	doublePrecision,
+	numeric,
 	jsonb,
 	uuid,
 	index,
@@ -171,9 +172,19 @@ export const partLine = pgTable(
 		designValue: doublePrecision('design_value'),
 		substitutionReason: text('substitution_reason'),
 		deviationPct: doublePrecision('deviation_pct'),
-		checks: jsonb('checks').$type<StoredCheck[]>().default([]).notNull()
+		checks: jsonb('checks').$type<StoredCheck[]>().default([]).notNull(),
+		// Costed parts list and AC ratings (issue 13; $lib/parts/cost.ts). Money is exact: numeric, never a float.
+		ratingVAc: boolean('rating_v_ac').default(false).notNull(),
+		mpn: text('mpn').default('').notNull(),
+		supplier: text('supplier').default('').notNull(),
+		unitPrice: numeric('unit_price', { precision: 14, scale: 4 }),
+		currency: text('currency'),
+		perChannel: boolean('per_channel').default(false).notNull()
 	},
-	(t) => [index('part_line_build_idx').on(t.buildId, t.position)]
+	(t) => [
+		index('part_line_build_idx').on(t.buildId, t.position),
+		check('part_line_price_check', sql`${t.unitPrice} is null or (${t.unitPrice} >= 0 and ${t.currency} ~ '^[A-Z]{3}$')`)
+	]
 );
 
 /** Snapshot of a published build at each revision the maker publishes: Rev A, Rev B, … with the maker's change note. */

@@ -92,7 +92,11 @@ export function recomputeChecks(
 	blocks: readonly BlockRow[],
 	rows: readonly StoredLine[]
 ): { blocks: { derived: Record<string, unknown>; checks: StoredCheck[] }[]; lines: StoredCheck[][] } {
-	const result = checkBuildRows(blocks, rows as never);
+	// An AC rating (X/Y capacitors) is not a DC rating: the cross checks compare ratings with DC rails, so it is left out.
+	const result = checkBuildRows(
+		blocks,
+		rows.map((r) => ((r as { ratingVAc?: number | null }).ratingVAc ? { ...r, ratingV: null } : r)) as never
+	);
 	const railV = railFromBlocks(blocks.map((b, i) => ({ ...b, derived: result.blocks[i].derived })));
 	const { byBlock, byLine } = placeCrossChecks(blocks, rows as never, result.crossRaw);
 	return {

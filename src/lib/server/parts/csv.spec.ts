@@ -13,16 +13,20 @@ function normalised(drafts: PartLineDraft[]) {
 
 const tricky = normalised([
 	draft({ designators: 'R1, R2', quantity: '2', kind: 'resistor', value: '4k7', tolerance: '1', ratingW: '0.25', package: '0207', notes: 'metal film, "low noise"' }),
-	draft({ designators: 'C3', kind: 'capacitor', value: '1u+1u', designValue: '0.47u', tolerance: '10', reason: 'had two 1 µF film caps,\nsame box' }),
+	draft({ designators: 'C3', kind: 'capacitor', value: '2×1u series', designValue: '0.47u', tolerance: '10', reason: 'had two 1 µF film caps,\nsame box' }),
 	draft({ designators: 'C10', kind: 'capacitor', value: '10000u/50V', package: 'snap-in', notes: 'line one\nline two, with a comma' }),
 	draft({ designators: 'U1', kind: 'ic', value: '5-pin monolithic power amplifier IC', notes: '=SUM(A1:A2) is not a formula here' }),
-	draft({ designators: 'R8', kind: 'jumper', value: '', designValue: '2R2', reason: 'stability is fine without it' })
+	draft({ designators: 'R8', kind: 'jumper', value: '', designValue: '2R2', reason: 'stability is fine without it' }),
+	// Costed columns: an exact sub-cent price, a supplier with a comma and quotes, a per-channel flag, an AC rating.
+	draft({ designators: 'R9, R10', quantity: '2', kind: 'resistor', value: '0R22', ratingW: '5', mpn: 'WR-5W-0R22', supplier: 'Bench "B", Ltd', unitPrice: '0.0125', currency: 'eur', perChannel: 'yes' }),
+	draft({ designators: 'CX1', kind: 'capacitor', value: '100n', ratingV: '275 V AC', unitPrice: '0,35', currency: 'GBP' }),
+	draft({ designators: 'Q1', kind: 'transistor', value: 'NPN power transistor', unitPrice: '1200', currency: 'JPY', perChannel: 'y' })
 ]);
 
 describe('partsToCsv', () => {
 	it('writes RFC 4180: CRLF after every record, quotes around commas, quotes and line breaks, doubled quotes', () => {
 		const csv = partsToCsv(tricky);
-		expect(csv.startsWith('designators,quantity,kind,value,tolerance_pct,rating_v,rating_w,package,notes,design_value,substitution_reason,value_si,unit,deviation_pct\r\n')).toBe(true);
+		expect(csv.startsWith('designators,quantity,kind,value,tolerance_pct,rating_v,rating_w,package,notes,design_value,substitution_reason,mpn,supplier,unit_price,currency,per_channel,value_si,unit,deviation_pct\r\n')).toBe(true);
 		expect(csv.endsWith('\r\n')).toBe(true);
 		// Every record break is CRLF; the only bare LFs are inside quoted fields.
 		const outside = csv.replace(/"(?:[^"]|"")*"/g, '""');
@@ -34,6 +38,15 @@ describe('partsToCsv', () => {
 
 	it('defuses spreadsheet formulas with a leading apostrophe', () => {
 		expect(partsToCsv(tricky)).toContain(",'=SUM(A1:A2) is not a formula here,");
+	});
+
+	it('writes the costed columns as the editor shows them and an AC rating with its AC', () => {
+		const csv = partsToCsv(tricky);
+		// RFC 4180 §2.7: a quote inside a quoted field is doubled; §2.6: a field with a comma is quoted.
+		expect(csv).toContain('WR-5W-0R22,"Bench ""B"", Ltd",0.0125,EUR,yes,');
+		expect(csv).toContain(',275 V AC,');
+		expect(csv).toContain(',0.35,GBP,,');
+		expect(csv).toContain(',1200.00,JPY,yes,');
 	});
 
 	it('export → import gives the same lines', () => {
@@ -81,7 +94,7 @@ describe('readPartsCsv', () => {
 
 describe('previewPartsCsv', () => {
 	it('shows every line with its own errors and the CSV line number; not ok while one line is bad', () => {
-		const text = 'designators,kind,value\nR1,resistor,4k7\nC2,capacitor,10 bananas\nC3,capacitor,1u+1u\n';
+		const text = 'designators,kind,value\nR1,resistor,4k7\nC2,capacitor,10 bananas\nC3,capacitor,2×1u series\n';
 		const p = previewPartsCsv(text, null);
 		expect(p.ok).toBe(false);
 		expect(p.rows.map((r) => r.errors.length)).toEqual([0, 1, 0]);

@@ -5,7 +5,7 @@
  * numbers, and saves nothing itself.
  */
 import Papa from 'papaparse';
-import { DRAFT_FIELDS, emptyDraft, normaliseKind, type PartLineDraft, type PartLineFields } from '$lib/parts';
+import { DRAFT_FIELDS, emptyDraft, lineToDraft, normaliseKind, type PartLineDraft, type PartLineFields } from '$lib/parts';
 
 /** Largest CSV accepted, bytes. */
 export const CSV_MAX_BYTES = 1_000_000;
@@ -23,6 +23,11 @@ export const CSV_COLUMNS: readonly (readonly [string, keyof PartLineDraft | null
 	['notes', 'notes'],
 	['design_value', 'designValue'],
 	['substitution_reason', 'reason'],
+	['mpn', 'mpn'],
+	['supplier', 'supplier'],
+	['unit_price', 'unitPrice'],
+	['currency', 'currency'],
+	['per_channel', 'perChannel'],
 	// Computed by the server; written for spreadsheets, ignored on import.
 	['value_si', null],
 	['unit', null],
@@ -78,6 +83,23 @@ const HEADER_SYNONYMS: Record<string, keyof PartLineDraft | null> = {
 	substitutionreason: 'reason',
 	reason: 'reason',
 	why: 'reason',
+	mpn: 'mpn',
+	manufacturerpartnumber: 'mpn',
+	manufacturerpn: 'mpn',
+	partnumber: 'mpn',
+	pn: 'mpn',
+	supplier: 'supplier',
+	vendor: 'supplier',
+	source: 'supplier',
+	shop: 'supplier',
+	unitprice: 'unitPrice',
+	price: 'unitPrice',
+	priceeach: 'unitPrice',
+	each: 'unitPrice',
+	currency: 'currency',
+	cur: 'currency',
+	perchannel: 'perChannel',
+	channel: 'perChannel',
 	valuesi: null,
 	unit: null,
 	deviationpct: null,
@@ -105,24 +127,17 @@ export type CsvLine = Omit<PartLineFields, 'designValue'>;
  */
 export function partsToCsv(lines: readonly CsvLine[]): string {
 	const num = (x: number | null) => (x === null || x === undefined ? '' : String(x));
-	const data = lines.map((l) =>
-		[
-			l.designators,
-			String(l.quantity),
-			l.kind,
-			l.valueText,
-			num(l.tolerancePct),
-			num(l.ratingV),
-			num(l.ratingW),
-			l.package,
-			l.notes,
-			l.designValueText ?? '',
-			l.substitutionReason ?? '',
+	const typed = CSV_COLUMNS.filter(([, f]) => f !== null).length;
+	const data = lines.map((l) => {
+		// The typed columns exactly as the editor shows them (lineToDraft), so export → import is the same list.
+		const d = lineToDraft(l);
+		return [
+			...CSV_COLUMNS.slice(0, typed).map(([, f]) => d[f as keyof PartLineDraft]),
 			num(l.value),
 			l.unit ?? '',
 			num(l.deviationPct)
-		].map((f, i) => (i >= 11 ? f : quoteFormula(f)))
-	);
+		].map((f, i) => (i >= typed ? f : quoteFormula(f)));
+	});
 	const body = Papa.unparse({ fields: CSV_COLUMNS.map(([h]) => h), data }, { newline: '\r\n', quotes: false, escapeFormulae: false });
 	return `${body}\r\n`;
 }

@@ -40,7 +40,7 @@ export async function buildRailV(buildId: string, dbx: DbLike = db): Promise<num
 
 /** True when every field of a draft is blank (an empty editor row), so it is skipped rather than refused. */
 export function isBlankDraft(d: PartLineDraft): boolean {
-	return [d.designators, d.value, d.notes, d.designValue, d.reason, d.package, d.tolerance, d.ratingV, d.ratingW].every(
+	return [d.designators, d.value, d.notes, d.designValue, d.reason, d.package, d.tolerance, d.ratingV, d.ratingW, d.mpn, d.supplier, d.unitPrice, d.currency].every(
 		(s) => (s ?? '').trim() === ''
 	);
 }
@@ -54,7 +54,24 @@ export function partsListVersion(lines: readonly schema.PartLine[]): string {
 	const h = createHash('sha256');
 	for (const l of lines) {
 		h.update(
-			JSON.stringify([l.id, l.designators, l.quantity, l.kind, l.valueText, l.tolerancePct, l.ratingV, l.ratingW, l.package, l.notes, l.designValueText, l.substitutionReason])
+			JSON.stringify([
+				l.id,
+				l.designators,
+				l.quantity,
+				l.kind,
+				l.valueText,
+				l.tolerancePct,
+				l.ratingV,
+				l.ratingW,
+				l.package,
+				l.notes,
+				l.designValueText,
+				l.substitutionReason,
+				// Costed-list fields join the hash only when set, so a list saved before they existed keeps its version.
+				...(l.ratingVAc || l.mpn || l.supplier || l.unitPrice !== null || l.currency !== null || l.perChannel
+					? [l.ratingVAc, l.mpn, l.supplier, l.unitPrice, l.currency, l.perChannel]
+					: [])
+			])
 		);
 		h.update('\n');
 	}

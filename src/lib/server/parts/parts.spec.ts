@@ -29,13 +29,51 @@ afterAll(async () => {
 const draft = (over: Partial<PartLineDraft>): PartLineDraft => ({ ...emptyDraft(), ...over });
 const LIST = [
 	draft({ designators: 'R1, R2', quantity: '2', kind: 'resistor', value: '4k7', tolerance: '1', ratingW: '1/4' }),
-	draft({ designators: 'C3', kind: 'capacitor', value: '1u+1u', designValue: '0.47u', tolerance: '10', ratingV: '63', reason: 'two 1 µF film caps on hand' }),
+	draft({ designators: 'C3', kind: 'capacitor', value: '2×1u series', designValue: '0.47u', tolerance: '10', ratingV: '63', reason: 'two 1 µF film caps on hand' }),
 	draft({ designators: 'U1', kind: 'ic', value: '5-pin monolithic power amplifier IC', package: 'TO-220' })
 ];
 
 async function stored(buildId: string) {
 	return db.select().from(schema.partLine).where(eq(schema.partLine.buildId, buildId)).orderBy(asc(schema.partLine.position));
 }
+
+describe('the costed parts list in PostgreSQL', () => {
+	it('stores prices exactly (numeric), AC ratings and per-channel flags; the CSV round trip keeps them; AC is left out of the DC cross checks', async () => {
+		const b = await testBuild(maker.id);
+		await saveSpecBlock(maker, b.id, { kind: 'supply', data: SUPPLY });
+		const costed = [
+			draft({ designators: 'R1, R2', quantity: '2', value: '0R22', unitPrice: '0.0125', currency: 'eur', perChannel: 'yes', mpn: 'WW5', supplier: 'Bench "B", Ltd' }),
+			// 25 V AC: as DC it would be below the supply's ≈ 33.5 V off-load rail and raise cross.cap-below-rail.
+			draft({ designators: 'CX1', kind: 'capacitor', value: '100n', ratingV: '25 V AC', unitPrice: '0.1', currency: 'EUR' })
+		];
+		const r = await savePartsList(maker, b.id, costed);
+		expect(r.ok).toBe(true);
+		const rows = await stored(b.id);
+		// numeric(14,4) comes back as the exact decimal text, not a float.
+		expect(rows[0]).toMatchObject({ unitPrice: '0.0125', currency: 'EUR', perChannel: true, mpn: 'WW5', supplier: 'Bench "B", Ltd' });
+		expect(rows[1]).toMatchObject({ ratingV: 25, ratingVAc: true, unitPrice: '0.1000' });
+		const ids = rows[1].checks.map((c) => c.id);
+		expect(ids).toContain('part.ac-rating');
+		expect(ids).not.toContain('cross.cap-below-rail');
+		// The same part rated 25 V DC does get the cross check: the AC flag is what keeps it out.
+		await savePartsList(maker, b.id, [{ ...costed[1], ratingV: '25' }]);
+		expect((await stored(b.id))[0].checks.map((c) => c.id)).toContain('cross.cap-below-rail');
+
+		await savePartsList(maker, b.id, costed);
+		const csv = partsToCsv(await stored(b.id));
+		const again = await importPartsCsv(maker, b.id, csv, 'replace');
+		expect(again.ok).toBe(true);
+		expect(partsToCsv(await stored(b.id))).toBe(csv);
+	});
+
+	it('refuses a negative price or a currency that is not a code at the database too (check constraint), not only in the form', async () => {
+		const b = await testBuild(maker.id);
+		await expect(
+			db.insert(schema.partLine).values({ buildId: b.id, position: 0, kind: 'resistor', unitPrice: '-1', currency: 'EUR' })
+		).rejects.toThrow();
+		await expect(db.insert(schema.partLine).values({ buildId: b.id, position: 0, kind: 'resistor', unitPrice: '1', currency: 'euro' })).rejects.toThrow();
+	});
+});
 
 describe('savePartsList', () => {
 	it('stores normalised lines in order, with the substitution deviation', async () => {
@@ -54,7 +92,7 @@ describe('savePartsList', () => {
 		expect(rows[1]).toMatchObject({ designValueText: '0.47u', substitutionReason: 'two 1 µF film caps on hand' });
 		expect(rows[2]).toMatchObject({ value: null, unit: null, valueText: '5-pin monolithic power amplifier IC' });
 		const [bb] = await db.select({ searchText: schema.build.searchText }).from(schema.build).where(eq(schema.build.id, b.id));
-		expect(bb.searchText).toContain('1u+1u');
+		expect(bb.searchText).toContain('2×1u series');
 	});
 
 	it('refuses a list with a bad line, naming the line, and keeps the stored list as it was', async () => {
@@ -208,7 +246,7 @@ describe('checks that need the spec blocks', () => {
 
 describe('importPartsCsv', () => {
 	const header = 'designators,quantity,kind,value,tolerance_pct,rating_v,notes,design_value,substitution_reason';
-	const good = [header, '"R1, R2",2,resistor,4k7,1,,"metal film, ""low noise""",,', 'C3,1,capacitor,1u+1u,10,63,,0.47u,on hand'];
+	const good = [header, '"R1, R2",2,resistor,4k7,1,,"metal film, ""low noise""",,', 'C3,1,capacitor,2×1u series,10,63,,0.47u,on hand'];
 
 	it('saves nothing while one line is bad and reports that line; saves once it is fixed', async () => {
 		const b = await testBuild(maker.id);
@@ -263,7 +301,7 @@ describe('GET /api/v1/builds/:slug/parts.csv', () => {
 		expect(res.headers.get('content-disposition')).toBe(`attachment; filename="${b.slug}-parts.csv"`);
 		const text = await res.text();
 		expect(text.split('\r\n')).toHaveLength(5);
-		expect(text).toContain('C3,1,capacitor,1u+1u');
+		expect(text).toContain('C3,1,capacitor,2×1u series');
 		for (const who of [other, null]) {
 			const r = await call(b.slug, who);
 			expect(r.status).toBe(404);

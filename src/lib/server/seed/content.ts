@@ -184,7 +184,7 @@ export const DEMO_BUILDS: DemoBuild[] = [
 			{ designators: 'R3, R4', quantity: 2, kind: 'resistor', value: '1k', tolerancePct: 1, ratingW: 0.25, package: 'axial', notes: 'Feedback Ri' },
 			{ designators: 'R5, R6', quantity: 2, kind: 'resistor', value: '22k', tolerancePct: 1, ratingW: 0.25, package: 'axial', notes: 'Input to ground' },
 			{ designators: 'C1, C2', quantity: 2, kind: 'capacitor', value: '1u', tolerancePct: 10, ratingV: 63, package: 'film 5 mm', notes: 'Input coupling' },
-			{ designators: 'C3a, C3b, C4a, C4b', quantity: 4, kind: 'capacitor', value: '1u+1u', designValue: '470n', tolerancePct: 10, ratingV: 63, package: 'film 5 mm', notes: 'Two in series per channel', reason: 'Had 1 µF film on hand; two in series give 0.5 µF' },
+			{ designators: 'C3a, C3b, C4a, C4b', quantity: 4, kind: 'capacitor', value: '2×1u series', designValue: '470n', tolerancePct: 10, ratingV: 63, package: 'film 5 mm', notes: 'Two in series per channel', reason: 'Had 1 µF film on hand; two in series give 0.5 µF' },
 			{ designators: 'C5, C6', quantity: 2, kind: 'capacitor', value: '10000u', tolerancePct: 20, ratingV: 50, package: 'snap-in 30 mm', notes: 'Reservoirs, one per rail' },
 			{ designators: 'C7–C10', quantity: 4, kind: 'capacitor', value: '100n', tolerancePct: 10, ratingV: 100, package: 'film 5 mm', notes: 'Local bypass' },
 			{ designators: 'R7, R8', quantity: 2, kind: 'resistor', value: '2R2', designValue: '2R7', tolerancePct: 5, ratingW: 1, package: 'axial', notes: 'Zobel resistor', reason: 'Closest value in the drawer' },

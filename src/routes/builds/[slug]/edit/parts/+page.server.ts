@@ -17,6 +17,9 @@ export const load: PageServerLoad = async ({ params }) => {
 	};
 };
 
+/** Fields added to the editor with the costed parts list (issue 13). */
+const LATER_FIELDS = ['mpn', 'supplier', 'unitPrice', 'currency', 'perChannel'] as const;
+
 /**
  * The editor's rows from a posted form: one value per row for each field, in DOM order, with the id each
  * row was loaded with (`lineId`, empty for a new row; forms from before ids were posted send none).
@@ -25,6 +28,8 @@ function postedRows(data: FormData): { rows: PartLineDraft[]; ids: string[] } | 
 	const cols = Object.fromEntries(DRAFT_FIELDS.map((f) => [f, data.getAll(f).map((v) => (typeof v === 'string' ? v : ''))]));
 	const count = cols.kind.length;
 	if (count > PARTS_LIMITS.lines) return null;
+	// The costed-list columns are optional: a form from before them (or a script) may leave them out entirely.
+	for (const f of LATER_FIELDS) if (cols[f].length === 0) cols[f] = Array(count).fill('');
 	if (DRAFT_FIELDS.some((f) => cols[f].length !== count)) return null;
 	const postedIds = data.getAll('lineId').map((v) => (isUuid(v) ? v : ''));
 	if (postedIds.length !== 0 && postedIds.length !== count) return null;
@@ -84,7 +89,7 @@ export const actions: Actions = {
 		await requireEditableBuild(params.slug);
 		const data = await request.formData();
 		const { rows, ids } = postedRows(data) ?? { rows: [], ids: [] };
-		const [op, at] = String(data.get('op') ?? '').split(':');
+		const [op, at, ...rest] = String(data.get('op') ?? '').split(':');
 		const i = Number(at);
 		const swap = (a: number, b: number) => {
 			[rows[a], rows[b]] = [rows[b], rows[a]];
@@ -99,6 +104,8 @@ export const actions: Actions = {
 				ids.splice(i, 1);
 			}
 			if (op === 'up' && i > 0) swap(i - 1, i);
+			// One of the two rewrites offered for a bare "+" between capacitors ("2×1u series", "1u||1u").
+			if (op === 'choose') rows[i].value = rest.join(':').slice(0, PARTS_LIMITS.value);
 			if (op === 'down' && i < rows.length - 1) swap(i, i + 1);
 		}
 		return { rows, ids, version: postedVersion(data), unsaved: true };
