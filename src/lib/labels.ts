@@ -1,5 +1,5 @@
 /** Human labels for the values stored on builds; shared by pages, lists and the API's display fields. */
-import type { BuildStatus, Category, Licence, Topology } from '$lib/schemas/build';
+import type { BuildProgress, BuildStatus, Category, Licence, Topology } from '$lib/schemas/build';
 
 export const CATEGORY_LABELS: Record<Category, string> = {
 	'power-amp': 'Power amp',
@@ -26,6 +26,13 @@ export const STATUS_LABELS: Record<BuildStatus, string> = {
 	draft: 'Draft',
 	published: 'Published',
 	archived: 'Archived'
+};
+
+/** The maker's build status (BUILD_PROGRESS), as cards, the build page and the filter show it. */
+export const PROGRESS_LABELS: Record<BuildProgress, string> = {
+	'in-progress': 'In progress',
+	working: 'Working',
+	abandoned: 'Abandoned'
 };
 
 export const LICENCE_LABELS: Record<Licence, string> = {

@@ -37,6 +37,17 @@ export type Licence = (typeof LICENCES)[number];
 export const STATUSES = ['draft', 'published', 'archived'] as const;
 export type BuildStatus = (typeof STATUSES)[number];
 
+/**
+ * The maker's build status, set in the build editor and shown on cards and the build page: still being
+ * built, built and working, or given up. Separate from the publishing life above (code: `progress`;
+ * the list's query parameter: `status`).
+ */
+export const BUILD_PROGRESS = ['in-progress', 'working', 'abandoned'] as const;
+export type BuildProgress = (typeof BUILD_PROGRESS)[number];
+export const progressSchema = z.object({
+	progress: z.enum(BUILD_PROGRESS, { error: 'Choose a build status: in progress, working or abandoned.' })
+});
+
 export const TITLE_MIN = 3;
 export const TITLE_MAX = 120;
 export const SUMMARY_MAX = 600;

@@ -3,7 +3,7 @@
  * query and the pages' forms, and the query string's schema. Labels are the product's words.
  */
 import { z } from 'zod';
-import { CATEGORIES, TOPOLOGIES } from './build';
+import { BUILD_PROGRESS, CATEGORIES, TOPOLOGIES } from './build';
 
 /** Orders of a list. `relevance` needs a search text `q` and is its default. */
 export const LIST_SORTS = ['recent', 'most-derived', 'recently-reviewed', 'relevance'] as const;
@@ -45,6 +45,11 @@ export const listQuerySchema = z.object({
 	topology: z.enum(TOPOLOGIES, oneOf(TOPOLOGIES)).optional(),
 	review: z.enum(REVIEW_FILTERS, oneOf(REVIEW_FILTERS)).optional(),
 	mains: z.enum(['true', 'false'], oneOf(['true', 'false'])).optional(),
+	/** The maker's build status (the list item's `progress`). */
+	status: z
+		.enum(BUILD_PROGRESS, oneOf(BUILD_PROGRESS))
+		.optional()
+		.describe('The maker’s build status (each item’s `progress`): in-progress, working or abandoned'),
 	maker: z
 		.string()
 		.trim()

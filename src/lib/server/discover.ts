@@ -34,6 +34,7 @@ export function toCard(r: BuildListRow, review: ReviewState | null, hl?: SearchH
 		topology: r.topology,
 		topologyLabel: labelOf(TOPOLOGY_LABELS, r.topology),
 		mainsPowered: r.mainsPowered,
+		progress: r.progress,
 		derivedCount: r.derivedCount,
 		publishedAt: r.publishedAt ? r.publishedAt.toISOString() : null,
 		maker: { name: r.makerName, handle: r.makerHandle },
@@ -134,7 +135,7 @@ export async function listPage(url: URL, pageSize: number) {
 	const highlights = query.q ? await highlightBuilds(result.rows.map((r) => r.id), query.q) : undefined;
 	const builds = await toCards(result.rows, highlights);
 	const params = new URLSearchParams();
-	for (const key of ['q', 'category', 'topology', 'review', 'mains', 'maker', 'sort'] as const) {
+	for (const key of ['q', 'category', 'topology', 'review', 'mains', 'status', 'maker', 'sort'] as const) {
 		const v = query[key];
 		if (v) params.set(key, v);
 	}
@@ -153,6 +154,7 @@ export async function listPage(url: URL, pageSize: number) {
 			topology: query.topology ?? '',
 			review: query.review ?? '',
 			mains: query.mains ?? '',
+			status: query.status ?? '',
 			maker: query.maker ?? '',
 			sort: effectiveSort(query)
 		},

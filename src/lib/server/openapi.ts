@@ -24,6 +24,7 @@ import { commentEditSchema, commentSchema, reportSchema } from '$lib/schemas/rev
 import { suggestQuery } from '$lib/schemas/search';
 import { SPEC_KINDS, specSchemas } from '$lib/specs';
 import { listQuerySchema } from '$lib/schemas/list';
+import { BUILD_PROGRESS } from '$lib/schemas/build';
 
 type Method = 'get' | 'post' | 'put' | 'patch' | 'delete';
 type JsonSchema = Record<string, unknown>;
@@ -166,6 +167,8 @@ const listItem = z.object({
 	mainsPowered: z.boolean(),
 	licence: z.string().describe('SPDX identifier'),
 	status: z.enum(['published', 'archived']),
+	progress: z.enum(BUILD_PROGRESS).describe('The maker’s build status: in-progress (still being built), working (built and working), abandoned (given up); filter with `status=`'),
+	progressLabel: z.string().describe('The build status in words: In progress, Working, Abandoned'),
 	revision: z.number().int(),
 	derivedCount: z.number().int().describe('How many builds were started from this one (builds based on it)'),
 	locked: z.boolean(),
@@ -197,6 +200,8 @@ const detailOut = z.looseObject({
 	topology: z.string(),
 	mainsPowered: z.boolean(),
 	status: z.enum(['draft', 'published', 'archived']),
+	progress: z.enum(BUILD_PROGRESS).describe('The maker’s build status: in-progress, working, abandoned'),
+	progressLabel: z.string(),
 	revision: z.number().int(),
 	maker: makerOut,
 	cover: photoOut.nullable(),

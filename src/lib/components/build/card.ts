@@ -12,6 +12,8 @@ export interface BuildCardData {
 	topology: string;
 	topologyLabel: string;
 	mainsPowered: boolean;
+	/** The maker's build status: in-progress, working, abandoned. */
+	progress: string;
 	derivedCount: number;
 	/** ISO 8601, UTC. */
 	publishedAt: string | null;

@@ -3,7 +3,7 @@ import { error } from '@sveltejs/kit';
 import { count, eq, like, or } from 'drizzle-orm';
 import * as schema from '../db/schema';
 import type { Tx } from '../db';
-import { buildSchema, type BuildInput } from '$lib/schemas/build';
+import { buildSchema, progressSchema, type BuildInput, type BuildProgress } from '$lib/schemas/build';
 import { allowedLicencesFor } from '$lib/licences';
 import { LICENCE_LABELS, labelOf } from '$lib/labels';
 import type { Actor } from '../actor';
@@ -144,6 +144,24 @@ export async function publish(actor: Actor, buildId: string, tx?: Tx, note = '')
 		await refreshSearchText(t, buildId);
 		const rev = await createRevision(t, buildId, actor.id, note);
 		return rev?.number ?? b.revision;
+	});
+}
+
+/**
+ * Set the maker's build status (in progress / working / abandoned) of a draft, published or archived build
+ * (owner or admin; not while locked). It says how the build is going, not what it is: it takes effect at
+ * once and is not part of a revision. Bad values → 422 with a sentence. → the status now stored.
+ */
+export async function setBuildProgress(actor: Actor, buildId: string, progress: unknown, tx?: Tx): Promise<BuildProgress> {
+	const parsed = progressSchema.safeParse({ progress });
+	if (!parsed.success) error(422, 'Choose a build status: in progress, working or abandoned.');
+	return inTx(tx, async (t) => {
+		const b = await lockBuild(t, buildId);
+		assertCanEdit(actor, b);
+		if (b.progress !== parsed.data.progress) {
+			await t.update(schema.build).set({ progress: parsed.data.progress, updatedAt: new Date() }).where(eq(schema.build.id, buildId));
+		}
+		return parsed.data.progress;
 	});
 }
 

@@ -12,7 +12,7 @@ import { db } from '../db';
 import type { DbLike } from '../db/tx';
 import { reviewLabelCondition } from '../reviews/state';
 import { searchQuery, searchRank } from '../search';
-import type { Category, Topology } from '$lib/schemas/build';
+import type { BuildProgress, Category, Topology } from '$lib/schemas/build';
 import { LIST_LIMIT_DEFAULT, LIST_LIMIT_MAX, LIST_SORTS, type ListQuery, type ListSort, type ReviewFilter } from '$lib/schemas/list';
 import { isUuid } from '$lib/uuid';
 
@@ -74,6 +74,8 @@ export interface ListFilters {
 	ownerId?: string;
 	/** Only builds that others have started from (derived at least once). */
 	derivedOnly?: boolean;
+	/** The maker's build status (`progress`): in progress, working, abandoned. */
+	progress?: BuildProgress;
 }
 
 export interface ListOptions {
@@ -101,6 +103,7 @@ export const listColumns = {
 	mainsPowered: schema.build.mainsPowered,
 	licence: schema.build.licence,
 	status: schema.build.status,
+	progress: schema.build.progress,
 	revision: schema.build.revision,
 	derivedCount: schema.build.derivedCount,
 	locked: schema.build.locked,
@@ -206,6 +209,7 @@ function filterConditions(q: ListFilters): SQL[] {
 	if (q.maker) out.push(eq(maker.handle, q.maker));
 	if (q.ownerId) out.push(eq(b.ownerId, q.ownerId));
 	if (q.derivedOnly) out.push(gt(b.derivedCount, 0));
+	if (q.progress) out.push(eq(b.progress, q.progress));
 	switch (q.review) {
 		case 'unreviewed':
 		case 'safe':
@@ -253,7 +257,8 @@ export async function queryBuilds(q: ListQuery, dbx: DbLike = db): Promise<ListR
 		topology: q.topology,
 		review: q.review,
 		mains: q.mains === undefined ? undefined : q.mains === 'true',
-		maker: q.maker
+		maker: q.maker,
+		progress: q.status
 	};
 	const { rows, next } = await listPublishedBuilds({ limit: q.limit, cursor, sort, filters }, dbx);
 	return { ok: true, rows, next, sort };

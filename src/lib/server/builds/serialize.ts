@@ -5,7 +5,7 @@
 import type { Build } from '../db/schema';
 import { photoUrl } from '../photos';
 import { reviewStateJson, type ReviewState } from '../reviews/state';
-import { CATEGORY_LABELS, TOPOLOGY_LABELS, labelOf } from '$lib/labels';
+import { CATEGORY_LABELS, PROGRESS_LABELS, TOPOLOGY_LABELS, labelOf } from '$lib/labels';
 import type { PhotoView } from '$lib/media';
 import type { BuildListRow } from './list';
 import type { BuildContent, Lineage, LineageLink } from './queries';
@@ -39,6 +39,8 @@ export function serializeListItem(r: BuildListRow) {
 		mainsPowered: r.mainsPowered,
 		licence: r.licence,
 		status: r.status,
+		progress: r.progress,
+		progressLabel: labelOf(PROGRESS_LABELS, r.progress),
 		revision: r.revision,
 		derivedCount: r.derivedCount,
 		locked: r.locked,
@@ -82,6 +84,8 @@ export function serializeBuildDetail({ build: b, maker: m, content, lineage, rev
 		mainsPowered: b.mainsPowered,
 		licence: b.licence,
 		status: b.status,
+		progress: b.progress,
+		progressLabel: labelOf(PROGRESS_LABELS, b.progress),
 		revision: b.revision,
 		derivedCount: b.derivedCount,
 		locked: b.locked,

@@ -39,6 +39,8 @@ export const build = pgTable(
 		licence: text('licence').default('CC-BY-SA-4.0').notNull(),
 		coverPhotoId: uuid('cover_photo_id'),
 		status: text('status').default('draft').notNull(),
+		/** The maker's build status (on screen "Build status"): in-progress, working, abandoned ($lib/schemas/build BUILD_PROGRESS). */
+		progress: text('progress').default('in-progress').notNull(),
 		locked: boolean('locked').default(false).notNull(),
 		lockedReason: text('locked_reason'),
 		derivedFromId: uuid('derived_from_id').references((): AnyPgColumn => build.id, { onDelete: 'set null' }),

@@ -65,6 +65,7 @@ async function pageData(slug: string, locals: App.Locals, row?: Build) {
 			mainsPowered: b.mainsPowered,
 			licence: b.licence,
 			status: b.status,
+			progress: b.progress,
 			locked: b.locked,
 			lockedReason: b.lockedReason,
 			revision: b.revision,

@@ -15,15 +15,16 @@ import {
 	REVISION_NOTE_MAX,
 	wasSignedOff,
 	requireEditableBuild,
+	setBuildProgress,
 	stepVersion,
 	updateBuild,
 	updateStep
 } from '$lib/server/builds';
 import { attempt } from '$lib/server/http';
-import { buildSchema, stepSchema, type BuildInput } from '$lib/schemas/build';
+import { buildSchema, stepSchema, type BuildInput, type BuildProgress } from '$lib/schemas/build';
 import { revisionLabel } from '$lib/revision-label';
 import { allowedLicencesFor, isShareAlike, needsAttribution } from '$lib/licences';
-import { LICENCE_LABELS, labelOf } from '$lib/labels';
+import { LICENCE_LABELS, PROGRESS_LABELS, labelOf } from '$lib/labels';
 import { actorOf } from '$lib/server/actor';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -52,6 +53,7 @@ export const load: PageServerLoad = async ({ params, url, locals }) => {
 			slug: b.slug,
 			title: b.title,
 			status: b.status,
+			progress: b.progress as BuildProgress,
 			revision: b.revision,
 			locked: b.locked,
 			derivedFromId: b.derivedFromId,
@@ -173,6 +175,15 @@ export const actions: Actions = {
 		const r = await attempt(() => publishRevision(actor, b.id, note));
 		if (!r.ok) return fail(r.status, { error: r.error, note });
 		return { ok: `Published as ${revisionLabel(r.value.number)}: ${r.value.summary}.`, published: r.value.number };
+	},
+
+	/** The maker's build status (in progress / working / abandoned): takes effect at once, no revision. */
+	setProgress: async ({ request, params }) => {
+		const { actor, build: b } = await requireEditableBuild(params.slug);
+		const progress = (await request.formData()).get('progress');
+		const r = await attempt(() => setBuildProgress(actor, b.id, progress));
+		if (!r.ok) return r.failure;
+		return { ok: `Build status set to “${PROGRESS_LABELS[r.value]}”.` };
 	},
 
 	archive: async ({ params }) => {

@@ -1,0 +1,1 @@
+ALTER TABLE "build" ADD COLUMN "progress" text DEFAULT 'in-progress' NOT NULL;
