@@ -18,10 +18,14 @@ import { withOutcome } from '$lib/outcomes';
 import type { Actions, PageServerLoad } from './$types';
 
 /** The review desk: waiting builds in pages (filters, order, claims), the latest verdicts, the reviewer's desk mail. Reviewers and up. */
-export const load: PageServerLoad = async ({ url }) => {
+export const load: PageServerLoad = async ({ url, request }) => {
 	const user = requireRole('reviewer');
 	const query = parseDeskQuery(url.searchParams);
 	const after = url.searchParams.get('after');
+	// One address per desk view: the filter form also sends its defaults and empty fields; drop them.
+	const done = url.searchParams.get('done');
+	const canonical = deskQueryString(query, after) + (done ? `${deskQueryString(query, after) ? '&' : '?'}done=${encodeURIComponent(done)}` : '');
+	if (request.method === 'GET' && url.search !== canonical) redirect(302, `/review-desk${canonical}`);
 	const [page, recent, following] = await Promise.all([
 		listDesk(query, after),
 		after ? Promise.resolve([]) : listRecentlyReviewed(),
