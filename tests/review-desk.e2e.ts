@@ -2,17 +2,12 @@
 // step photo, leaving a note; a reviewer filters the desk to mains builds with DANGER checks, claims the build
 // (another reviewer sees the claim), reviews it with the photo and the mains checklist, is held to the
 // checklist rule, and signs off; the maker sees the checklist with the sign-off on the build page.
-import { test, expect, type Browser, type Page } from '@playwright/test';
+import { test, expect } from '@playwright/test';
 import sharp from 'sharp';
-import { signIn } from './helpers/auth';
+import { signedInPage } from './helpers/auth';
 import { createPublishedBuild, postForm, SUPPLY_FORM, origin } from './helpers/builds';
 
-async function as(browser: Browser, email: string): Promise<Page> {
-	const ctx = await browser.newContext();
-	const page = await ctx.newPage();
-	await signIn(page, email);
-	return page;
-}
+const as = signedInPage;
 
 test('filter the desk to mains + DANGER, claim, review with photo and checklist, sign off; the maker sees the checklist', async ({ browser }) => {
 	test.setTimeout(180_000);

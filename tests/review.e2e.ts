@@ -2,17 +2,12 @@
 // step and the supply block and sends the build back for changes, the maker gets the mail, marks the tags
 // fixed and edits the build, the stamp says it was edited since, and the reviewer clears the tags and signs
 // off the new revision as safe.
-import { test, expect, type Browser, type Page } from '@playwright/test';
-import { signIn } from './helpers/auth';
+import { test, expect } from '@playwright/test';
+import { signedInPage } from './helpers/auth';
 import { waitForMail, linkIn } from './helpers/mail';
 import { createPublishedBuild } from './helpers/builds';
 
-async function as(browser: Browser, email: string): Promise<Page> {
-	const ctx = await browser.newContext();
-	const page = await ctx.newPage();
-	await signIn(page, email);
-	return page;
-}
+const as = signedInPage;
 
 test('ask for review → hazard tags and send-back → mail → fixed and edited → edited since → cleared and signed off', async ({ browser }) => {
 	test.setTimeout(180_000);

@@ -15,7 +15,7 @@ import {
 import { actorOf } from '$lib/server/actor';
 import { attempt } from '$lib/server/http';
 import { withOutcome } from '$lib/outcomes';
-import type { Actions, PageServerLoad } from './$types';
+import type { Action, Actions, PageServerLoad } from './$types';
 
 /** The review desk: waiting builds in pages (filters, order, claims), the latest verdicts, the reviewer's desk mail. Reviewers and up. */
 export const load: PageServerLoad = async ({ url, request }) => {
@@ -55,29 +55,24 @@ function backTo(form: FormData, code: Parameters<typeof withOutcome>[1], anchor 
 
 const buildIdOf = (form: FormData) => String(form.get('buildId') ?? '');
 
-export const actions: Actions = {
-	claim: async ({ request }) => {
+/** Claim or release: the domain call decides; back to the review page or the desk page it came from, saying what happened. */
+const claimAction =
+	(change: 'claim' | 'release'): Action =>
+	async ({ request }) => {
 		const user = actorOf(requireRole('reviewer'));
 		const form = await request.formData();
 		const id = buildIdOf(form);
-		const r = await attempt(() => claimRequest(user, id));
+		const r = await attempt(async () => (change === 'claim' ? await claimRequest(user, id) : (await releaseClaim(user, id), 'released' as const)));
 		if (!r.ok) return fail(r.status, { error: r.error, buildId: id });
 		if (form.get('return') === 'review' && typeof form.get('slug') === 'string') {
 			redirect(303, withOutcome(`/builds/${encodeURIComponent(String(form.get('slug')))}/review`, r.value));
 		}
 		redirect(303, backTo(form, r.value, `#desk-${id}`));
-	},
-	release: async ({ request }) => {
-		const user = actorOf(requireRole('reviewer'));
-		const form = await request.formData();
-		const id = buildIdOf(form);
-		const r = await attempt(() => releaseClaim(user, id));
-		if (!r.ok) return fail(r.status, { error: r.error, buildId: id });
-		if (form.get('return') === 'review' && typeof form.get('slug') === 'string') {
-			redirect(303, withOutcome(`/builds/${encodeURIComponent(String(form.get('slug')))}/review`, 'released'));
-		}
-		redirect(303, backTo(form, 'released', `#desk-${id}`));
-	},
+	};
+
+export const actions: Actions = {
+	claim: claimAction('claim'),
+	release: claimAction('release'),
 	follow: async ({ request }) => {
 		const user = actorOf(requireRole('reviewer'));
 		const form = await request.formData();

@@ -9,7 +9,7 @@ import { stopMail } from '../mail';
 import { addStep, publishRevision } from '../builds';
 import { saveSpecBlock } from '../specs';
 import { createTestUser, removeTestUsers } from '../testing/builds';
-import { createPublishedBuild, queuedMailTo, SUPPLY_DATA } from '../testing/reviews';
+import { createPublishedBuild, emailOf, queuedMailTo, SUPPLY_DATA } from '../testing/reviews';
 import { CHECKLIST_ITEMS } from '$lib/review-checklist';
 import { changesSinceVerdict, getReviewPanel, postFlagMessage, raiseFlag, requestReview, setFlagState, submitReview } from './index';
 
@@ -17,11 +17,6 @@ type U = Awaited<ReturnType<typeof createTestUser>>;
 let maker: U, other: U, reviewer: U, reviewer2: U;
 const users: string[] = [];
 const ALL = CHECKLIST_ITEMS.map((i) => i.key);
-
-async function emailOf(id: string) {
-	const [u] = await db.select({ email: schema.user.email }).from(schema.user).where(eq(schema.user.id, id));
-	return u.email;
-}
 
 beforeAll(async () => {
 	maker = await createTestUser('maker', 'Page maker');

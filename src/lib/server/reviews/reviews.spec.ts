@@ -10,7 +10,7 @@ import { addStep, publishRevision } from '../builds';
 import { saveSpecBlock } from '../specs';
 import { stopMail } from '../mail';
 import { createTestUser, removeTestUsers } from '../testing/builds';
-import { createPublishedBuild, queuedMailTo, SUPPLY_DATA, type TestBuild } from '../testing/reviews';
+import { createPublishedBuild, emailOf, queuedMailTo, SUPPLY_DATA, type TestBuild } from '../testing/reviews';
 import {
 	addressFlag,
 	getFlagMarkers,
@@ -29,11 +29,6 @@ type U = Awaited<ReturnType<typeof createTestUser>>;
 let owner: U, other: U, reviewer: U, reviewer2: U, moderator: U;
 let build: TestBuild;
 const users: string[] = [];
-
-async function emailOf(id: string) {
-	const [u] = await db.select({ email: schema.user.email }).from(schema.user).where(eq(schema.user.id, id));
-	return u.email;
-}
 
 beforeAll(async () => {
 	owner = await createTestUser('maker', 'Owner');
