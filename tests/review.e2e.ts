@@ -2,17 +2,12 @@
 // step and the supply block and sends the build back for changes, the maker gets the mail, marks the tags
 // fixed and edits the build, the stamp says it was edited since, and the reviewer clears the tags and signs
 // off the new revision as safe.
-import { test, expect, type Browser, type Page } from '@playwright/test';
-import { signIn } from './helpers/auth';
+import { test, expect } from '@playwright/test';
+import { signedInPage } from './helpers/auth';
 import { waitForMail, linkIn } from './helpers/mail';
 import { createPublishedBuild } from './helpers/builds';
 
-async function as(browser: Browser, email: string): Promise<Page> {
-	const ctx = await browser.newContext();
-	const page = await ctx.newPage();
-	await signIn(page, email);
-	return page;
-}
+const as = signedInPage;
 
 test('ask for review → hazard tags and send-back → mail → fixed and edited → edited since → cleared and signed off', async ({ browser }) => {
 	test.setTimeout(180_000);
@@ -24,7 +19,10 @@ test('ask for review → hazard tags and send-back → mail → fixed and edited
 	await joss.goto(buildUrl, { waitUntil: 'networkidle' });
 	const reviewBox = joss.locator('#review-state');
 	await expect(reviewBox.locator('[data-review-label]')).toHaveText(/Not reviewed/);
-	await reviewBox.getByRole('button', { name: 'Ask for review' }).click();
+	await reviewBox.getByRole('link', { name: 'Ask for review' }).click();
+	await joss.getByLabel('Note for the reviewer (optional)').fill('Please check the heatsink insulation first.');
+	await joss.getByRole('button', { name: 'Put Rev A on the review desk' }).click();
+	await expect(joss.locator('[data-outcome]')).toHaveText(/Review asked: your build is on the review desk/);
 	await expect(reviewBox.locator('[data-waiting]')).toBeVisible();
 	await expect(reviewBox.locator('[data-review-label]')).toHaveAttribute('data-review-label', 'waiting');
 
@@ -34,6 +32,7 @@ test('ask for review → hazard tags and send-back → mail → fixed and edited
 	const row = maren.locator(`[data-desk-build="${build.slug}"]`);
 	await expect(row).toBeVisible();
 	await expect(row.locator('[data-mains]')).toBeVisible();
+	await expect(row.locator('[data-maker-note]')).toContainText('Please check the heatsink insulation first.');
 	await row.getByRole('link', { name: 'Review' }).click();
 	await expect(maren).toHaveURL(new RegExp(`${buildUrl}/review$`));
 
@@ -63,7 +62,8 @@ test('ask for review → hazard tags and send-back → mail → fixed and edited
 	await expect(maren.getByText(/hazard tags? tagged\. Clear/)).toBeVisible();
 	await maren.getByRole('radio', { name: /^Send back for changes —/ }).check();
 	await maren.getByRole('button', { name: /Record the review of Rev A/ }).click();
-	await expect(maren).toHaveURL(new RegExp(`${buildUrl}(#review-state)?$`));
+	await expect(maren).toHaveURL(new RegExp(`${buildUrl}\\?done=review-rework(#review-state)?$`));
+	await expect(maren.locator('[data-outcome]')).toHaveText(/Review recorded: you sent this revision back for changes/);
 	await expect(maren.locator('#review-state [data-review-label]')).toHaveText(/Sent back for changes at Rev A/);
 
 	// The maker gets the mails (hazard tag and review), with an unsubscribe link.
@@ -85,7 +85,7 @@ test('ask for review → hazard tags and send-back → mail → fixed and edited
 	await anon.goto(unsub, { waitUntil: 'networkidle' });
 	// Opening the link only asks (mail scanners open links too); the button turns the mail off.
 	await anon.getByRole('button', { name: 'Turn these e-mails off' }).click();
-	await expect(anon.locator('[data-unsubscribed="flag"]')).toContainText('tags a hazard');
+	await expect(anon.locator('[data-unsubscribed="flag"]')).toContainText('hazard tag');
 	await anon.getByRole('button', { name: /turn it back on/ }).click();
 	await expect(anon.getByRole('heading', { name: 'Turned back on' })).toBeVisible();
 	const token = new URL(unsub).searchParams.get('token')!;
@@ -104,6 +104,7 @@ test('ask for review → hazard tags and send-back → mail → fixed and edited
 		await flag.getByLabel('What did you change?').fill(i === 0 ? 'Fitted a mica insulator and shoulder washer.' : 'Primary fuse now T2A, sized for the transformer.');
 		await flag.getByRole('button', { name: 'Mark fixed' }).click();
 		await expect(joss.locator('#hazards [data-flag-state="addressed"]')).toHaveCount(i + 1);
+		await expect(joss.getByRole('status').filter({ hasText: 'Hazard tag marked fixed.' })).toHaveCount(i + 1);
 	}
 	await expect(joss.locator('[data-flag-marker]')).toHaveCount(0);
 
@@ -121,19 +122,28 @@ test('ask for review → hazard tags and send-back → mail → fixed and edited
 	await expect(joss.getByText(/Published as Rev B/)).toBeVisible();
 	await joss.goto(buildUrl, { waitUntil: 'networkidle' });
 	await expect(joss.locator('#review-state [data-review-label]')).toHaveText(/Edited since send-back at Rev A/);
-	await joss.locator('#review-state').getByRole('button', { name: 'Ask for review again' }).click();
+	await joss.locator('#review-state').getByRole('link', { name: 'Ask for review again' }).click();
+	await joss.getByRole('button', { name: 'Put Rev B on the review desk' }).click();
+	await expect(joss.locator('[data-outcome]')).toHaveText(/Review asked again/);
 	await expect(joss.locator('#review-state [data-waiting]')).toBeVisible();
 
 	// The reviewer clears both tags and signs off Rev B as safe.
+	// A re-review: the page opens with what changed since the send-back at Rev A.
 	await maren.goto(`${buildUrl}/review`, { waitUntil: 'networkidle' });
+	await expect(maren.locator('[data-since-verdict] h2')).toHaveText('Changed since the send-back at Rev A');
+	await expect(maren.locator('[data-since-verdict] [data-step-diff="added"]')).toContainText('Tab insulation');
 	for (let i = 0; i < 2; i++) {
-		await maren.locator('[data-flag]').filter({ has: maren.locator('[data-flag-state="addressed"]') }).first().getByRole('button', { name: 'Clear the tag' }).click();
+		const tag = maren.locator('[data-flag]').filter({ has: maren.locator('[data-flag-state="addressed"]') }).first();
+		await tag.getByText('Clear the tag…').click();
+		await tag.getByLabel(/^Note on clearing/).fill('Checked the new step and the photo.');
+		await tag.getByRole('button', { name: 'Clear the tag' }).click();
 		await expect(maren.locator('[data-flag-state="resolved"]')).toHaveCount(i + 1);
 	}
 	await maren.getByRole('radio', { name: /^Sign off as safe —/ }).check();
 	await maren.getByLabel(/^Summary/).fill('Tab insulated and the fuse now matches the transformer. Fine to power up.');
+	for (const box of await maren.locator('[data-checklist] input[type="checkbox"]').all()) await box.check();
 	await maren.getByRole('button', { name: /Record the review of Rev B/ }).click();
-	await expect(maren).toHaveURL(new RegExp(`${buildUrl}(#review-state)?$`));
+	await expect(maren).toHaveURL(new RegExp(`${buildUrl}\\?done=review-safe(#review-state)?$`));
 
 	// Everyone, signed out too, sees "Signed off as safe at Rev B" with the peer-opinion sentence.
 	const reader = await browser.newPage();

@@ -175,6 +175,20 @@ export interface PanelFlag {
 	addressedAt: Date | null;
 	resolvedBy: PanelPerson | null;
 	resolvedAt: Date | null;
+	/** The reviewer's note when clearing ('' when none). */
+	resolvedNote: string;
+	/** The thread on the tag (maker ↔ reviewers), oldest first. */
+	messages: PanelFlagMessage[];
+}
+
+/** One message in a hazard tag's thread. */
+export interface PanelFlagMessage {
+	id: string;
+	author: PanelPerson;
+	/** True when the build's maker wrote it. */
+	byMaker: boolean;
+	bodyHtml: string;
+	createdAt: Date;
 }
 
 export interface PanelReview {
@@ -184,6 +198,10 @@ export interface PanelReview {
 	revision: number;
 	summaryHtml: string;
 	createdAt: Date;
+	/** Mains review checklist stored with the verdict ([] when none applied). */
+	checklist: { key: string; ticked: boolean }[];
+	/** Why items were left unticked ('' when none). */
+	checklistNote: string;
 }
 
 export interface ReviewPanelData {
@@ -203,6 +221,8 @@ export interface ReviewPanelData {
 		address: boolean;
 		/** The viewer may resolve and reopen flags. */
 		resolve: boolean;
+		/** The viewer may write in hazard tag threads (the maker, or a reviewer who is not the maker). */
+		discuss: boolean;
 	};
 }
 

@@ -2,6 +2,7 @@
 import { z } from 'zod';
 import { FLAG_CATEGORY_VALUES, FLAG_SEVERITY_VALUES } from '$lib/reviews';
 import { UUID_PATTERN } from '$lib/uuid';
+import { CHECKLIST_KEYS } from '$lib/review-checklist';
 
 const uuid = z.string().trim().regex(UUID_PATTERN, 'Not a valid id.');
 
@@ -27,9 +28,28 @@ export const reviewSchema = z.object({
 		.string()
 		.trim()
 		.min(10, 'Write a short summary of what you checked (at least 10 characters).')
-		.max(10000, 'Keep the summary under 10 000 characters.')
+		.max(10000, 'Keep the summary under 10 000 characters.'),
+	/** Mains builds: the checklist items the reviewer ticked ($lib/review-checklist). */
+	checklist: z.array(z.enum(CHECKLIST_KEYS)).max(CHECKLIST_KEYS.length).default([]),
+	/** Why items are left unticked on a sign-off (required then on a mains build). */
+	checklistNote: z.string().trim().max(2000, 'Keep the note under 2000 characters.').default('')
 });
-export type ReviewInput = z.infer<typeof reviewSchema>;
+export type ReviewInput = z.input<typeof reviewSchema>;
+
+/** The maker's note for the reviewer when asking for review (optional). */
+export const requestReviewSchema = z.object({
+	note: z.string().trim().max(2000, 'Keep the note for the reviewer under 2000 characters.').default('')
+});
+
+/** A message in a hazard tag's thread. */
+export const flagMessageSchema = z.object({
+	body: z.string().trim().min(1, 'Write something first.').max(3000, 'Keep messages under 3000 characters.')
+});
+
+/** The reviewer's optional note when clearing a hazard tag. */
+export const clearFlagSchema = z.object({
+	note: z.string().trim().max(2000, 'Keep the note under 2000 characters.').default('')
+});
 
 export const COMMENT_MAX = 5000;
 

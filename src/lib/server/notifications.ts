@@ -21,7 +21,7 @@ export type NotifyKind = (typeof NOTIFY_KINDS)[number];
 /** What each kind is, in words for the settings page and the unsubscribe page. */
 export const NOTIFY_KIND_TEXT: Record<NotifyKind, string> = {
 	review: 'a review lands on one of your builds',
-	flag: 'a reviewer tags a hazard on one of your builds',
+	flag: 'a hazard tag on one of your builds (or one you hung) is tagged, cleared or gets a message',
 	reply: 'someone replies to one of your comments'
 };
 
@@ -180,6 +180,42 @@ export async function notifyFlag(p: {
 				`Note: ${excerpt(p.noteMd)}`,
 				'When you have fixed it, mark the tag fixed with a note saying what you changed; a reviewer then clears it.'
 			],
+			action: { label: 'See the hazard tag', url: `${origin()}/builds/${p.build.slug}/hazards/${p.flagId}` },
+			unsubscribeUrl: unsub
+		})
+	);
+}
+
+/**
+ * Tell the other side of a hazard tag what happened to it (kind `flag`): a message in its thread, or a
+ * reviewer clearing or re-tagging it (with their note).
+ */
+export async function notifyFlagUpdate(p: {
+	toId: string;
+	actorName: string;
+	build: { slug: string; title: string };
+	flagId: string;
+	category: string;
+	what: 'message' | 'cleared' | 'retagged';
+	text: string;
+}): Promise<string | null> {
+	const category = FLAG_CATEGORIES[p.category as FlagCategory] ?? p.category;
+	const said =
+		p.what === 'message'
+			? `${p.actorName} wrote on the hazard tag (${category}) on “${p.build.title}”:`
+			: p.what === 'cleared'
+				? `${p.actorName} cleared the hazard tag (${category}) on “${p.build.title}”.`
+				: `${p.actorName} tagged the hazard (${category}) on “${p.build.title}” again.`;
+	return send(p.toId, 'flag', (to, unsub) =>
+		composeMail({
+			to: to.email,
+			subject:
+				p.what === 'message'
+					? `New message on a hazard tag on “${p.build.title}”`
+					: p.what === 'cleared'
+						? `Hazard tag cleared on “${p.build.title}”: ${category}`
+						: `Hazard tagged again on “${p.build.title}”: ${category}`,
+			paragraphs: [`Hello ${to.name},`, said, ...(p.text ? [excerpt(p.text)] : [])],
 			action: { label: 'See the hazard tag', url: `${origin()}/builds/${p.build.slug}/hazards/${p.flagId}` },
 			unsubscribeUrl: unsub
 		})

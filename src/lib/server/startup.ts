@@ -3,6 +3,7 @@ import { startMailWorker, stopMail } from './mail';
 import { startDeletionWorker } from './photos/object-deletion';
 import { seedDemoIfEmpty } from './seed';
 import { recheckStoredBuilds } from './specs-recheck';
+import { startDigestWorker } from './reviews/digest';
 
 /** Work a server process does once at start: the mail worker, the stored spec checks brought up to date and, when asked, the demo scenario. */
 export async function startBackground(): Promise<void> {
@@ -16,6 +17,7 @@ export async function startBackground(): Promise<void> {
 	if (env.MAIL_WORKER !== 'off') {
 		await startMailWorker();
 		await startDeletionWorker();
+		await startDigestWorker();
 	}
 	// Let the process exit on SIGTERM: the queue holds its own connections.
 	process.once('sveltekit:shutdown', () => void stopMail());

@@ -6,14 +6,16 @@
 import { invalidateAll } from '$app/navigation';
 import type { SubmitFunction } from '@sveltejs/kit';
 
-export function stayHere(onDone: (error: string | null) => void, onStart?: () => void): SubmitFunction {
+export function stayHere(onDone: (error: string | null, done?: string | null) => void, onStart?: () => void): SubmitFunction {
 	return () => {
 		onStart?.();
 		return async ({ result, formElement }) => {
 			if (result.type === 'redirect' || result.type === 'success') {
 				formElement.reset();
 				await invalidateAll();
-				onDone(null);
+				// The `?done=` code of the page the action would have gone to ($lib/outcomes).
+				const done = result.type === 'redirect' ? new URL(result.location, window.location.href).searchParams.get('done') : null;
+				onDone(null, done);
 			} else if (result.type === 'failure') {
 				const data = result.data as { error?: string } | undefined;
 				onDone(data?.error ?? 'That did not work. Check the form and try again.');

@@ -222,6 +222,10 @@ export const review = pgTable(
 		verdict: text('verdict').notNull(),
 		summaryMd: text('summary_md').notNull(),
 		summaryHtml: text('summary_html').notNull(),
+		/** Mains review checklist (reviews/checklist.ts): each item's key and whether the reviewer ticked it; [] when not a mains build. */
+		checklist: jsonb('checklist').$type<{ key: string; ticked: boolean }[]>().default([]).notNull(),
+		/** Why the reviewer signed off with items unticked ('' when all were ticked or none applied). */
+		checklistNote: text('checklist_note').default('').notNull(),
 		createdAt: timestamp('created_at').defaultNow().notNull()
 	},
 	(t) => [
@@ -253,6 +257,8 @@ export const safetyFlag = pgTable(
 		addressedAt: timestamp('addressed_at'),
 		resolvedById: text('resolved_by_id').references(() => user.id, { onDelete: 'set null' }),
 		resolvedAt: timestamp('resolved_at'),
+		/** The reviewer's note when clearing the tag ('' when none). */
+		resolvedNote: text('resolved_note').default('').notNull(),
 		createdAt: timestamp('created_at').defaultNow().notNull(),
 		updatedAt: timestamp('updated_at').defaultNow().notNull()
 	},
@@ -260,6 +266,73 @@ export const safetyFlag = pgTable(
 		index('safety_flag_build_idx').on(t.buildId, t.state),
 		check('safety_flag_state_check', sql`${t.state} in ('open','addressed','resolved')`)
 	]
+);
+
+// ── Review desk (issue 14, reviews/desk.ts) ─────────────────────────────────────────────────────────
+/**
+ * One row per build waiting on the review desk, kept by database triggers (migration 0004): it appears
+ * when build.review_requested_at is set and goes when it is cleared; mains/category follow the build and
+ * the DANGER/CAUTION counts follow its spec blocks and part lines. Filters and sorts of the desk read only
+ * this table, through the indexes below. The maker's note and a reviewer's claim live here too.
+ */
+export const reviewRequest = pgTable(
+	'review_request',
+	{
+		buildId: uuid('build_id')
+			.primaryKey()
+			.references(() => build.id, { onDelete: 'cascade' }),
+		requestedAt: timestamp('requested_at').notNull(),
+		mainsPowered: boolean('mains_powered').notNull(),
+		category: text('category').notNull(),
+		dangerChecks: integer('danger_checks').default(0).notNull(),
+		cautionChecks: integer('caution_checks').default(0).notNull(),
+		/** True when the build had a verdict before this request (a re-review). */
+		rereview: boolean('rereview').default(false).notNull(),
+		/** The maker's note for the reviewer ('' when none). */
+		note: text('note').default('').notNull(),
+		claimedById: text('claimed_by_id').references(() => user.id, { onDelete: 'set null' }),
+		claimedAt: timestamp('claimed_at')
+	},
+	(t) => [
+		index('review_request_oldest_idx').on(t.requestedAt, t.buildId),
+		index('review_request_danger_idx').on(t.dangerChecks.desc(), t.requestedAt, t.buildId),
+		index('review_request_mains_idx').on(t.requestedAt, t.buildId).where(sql`${t.mainsPowered}`),
+		index('review_request_mains_danger_idx')
+			.on(t.dangerChecks.desc(), t.requestedAt, t.buildId)
+			.where(sql`${t.mainsPowered} and ${t.dangerChecks} > 0`),
+		index('review_request_category_idx').on(t.category, t.requestedAt, t.buildId)
+	]
+);
+
+/** A reviewer's desk mail settings: the categories they follow and when their last digest went out. */
+export const reviewerSetting = pgTable(
+	'reviewer_setting',
+	{
+		userId: text('user_id')
+			.primaryKey()
+			.references(() => user.id, { onDelete: 'cascade' }),
+		categories: text('categories').array().default(sql`'{}'::text[]`).notNull(),
+		digestSentAt: timestamp('digest_sent_at')
+	},
+	(t) => [index('reviewer_setting_categories_idx').using('gin', t.categories)]
+);
+
+/** A message in a hazard tag's thread (maker ↔ reviewer). */
+export const flagMessage = pgTable(
+	'flag_message',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		flagId: uuid('flag_id')
+			.notNull()
+			.references(() => safetyFlag.id, { onDelete: 'cascade' }),
+		authorId: text('author_id')
+			.notNull()
+			.references(() => user.id, { onDelete: 'cascade' }),
+		bodyMd: text('body_md').notNull(),
+		bodyHtml: text('body_html').notNull(),
+		createdAt: timestamp('created_at').defaultNow().notNull()
+	},
+	(t) => [index('flag_message_flag_idx').on(t.flagId, t.createdAt)]
 );
 
 export const comment = pgTable(
@@ -368,6 +441,8 @@ export type BuildRevision = typeof buildRevision.$inferSelect;
 export type Review = typeof review.$inferSelect;
 export type SafetyFlag = typeof safetyFlag.$inferSelect;
 export type Comment = typeof comment.$inferSelect;
+export type ReviewRequest = typeof reviewRequest.$inferSelect;
+export type FlagMessage = typeof flagMessage.$inferSelect;
 export type Report = typeof report.$inferSelect;
 export type AuditEntry = typeof auditEntry.$inferSelect;
 export type User = typeof user.$inferSelect;

@@ -12,12 +12,13 @@ import * as schema from '../db/schema';
 import { db, type Tx } from '../db';
 import { renderMarkdown } from '../markdown';
 import { recordAudit } from '../audit';
-import { notifyFlag } from '../notifications';
+import { notifyFlag, notifyFlagUpdate } from '../notifications';
+import { stripControls } from '../http/control-chars';
 import { inTx } from '../db/tx';
 import type { Actor } from '../actor';
 import { assertCanView } from '../builds/access';
 import { roleAtLeast } from '$lib/roles';
-import { addressFlagSchema, raiseFlagSchema, type RaiseFlagInput } from '$lib/schemas/review';
+import { addressFlagSchema, clearFlagSchema, flagMessageSchema, raiseFlagSchema, type RaiseFlagInput } from '$lib/schemas/review';
 import { FLAG_STATES, type FlagState } from '$lib/reviews';
 import { requireTarget } from './targets';
 
@@ -134,16 +135,18 @@ const FROM: Record<'resolve' | 'reopen', FlagState[]> = {
 };
 
 /**
- * A reviewer (not the build's maker) resolves a flag (from open or addressed) or reopens it (from
- * addressed or resolved). Written to the audit log. → the build it belongs to.
+ * A reviewer (not the build's maker) resolves a flag (from open or addressed), with an optional note
+ * saying why it is cleared, or reopens it (from addressed or resolved). Written to the audit log; the
+ * maker is told (kind `flag`). → the build it belongs to.
  */
 export async function setFlagState(
 	actor: Actor,
 	flagId: string,
 	change: 'resolve' | 'reopen',
-	opts: WriteOptions = {}
+	opts: WriteOptions & { note?: string } = {}
 ): Promise<BuildForReview> {
-	return inTx(opts.tx, async (tx) => {
+	const note = clearFlagSchema.parse({ note: stripControls(opts.note ?? '') }).note;
+	const out = await inTx(opts.tx, async (tx) => {
 		const { flag, build } = await lockFlag(tx, flagId);
 		assertCanView(actor, build);
 		if (!roleAtLeast(actor.role, 'reviewer')) error(403, 'Only reviewers can clear or re-tag hazard tags.');
@@ -156,8 +159,8 @@ export async function setFlagState(
 			.update(schema.safetyFlag)
 			.set(
 				change === 'resolve'
-					? { state: 'resolved', resolvedById: actor.id, resolvedAt: now, updatedAt: now }
-					: { state: 'open', resolvedById: null, resolvedAt: null, updatedAt: now }
+					? { state: 'resolved', resolvedById: actor.id, resolvedAt: now, resolvedNote: note, updatedAt: now }
+					: { state: 'open', resolvedById: null, resolvedAt: null, resolvedNote: '', updatedAt: now }
 			)
 			.where(eq(schema.safetyFlag.id, flag.id));
 		await recordAudit(tx, {
@@ -167,8 +170,56 @@ export async function setFlagState(
 			targetId: flag.id,
 			details: { build: build.slug, from: flag.state }
 		});
-		return build;
+		return { build, flag };
 	});
+	if (opts.notify !== false) {
+		await notifyFlagUpdate({
+			toId: out.build.ownerId,
+			actorName: await nameOf(actor),
+			build: out.build,
+			flagId: out.flag.id,
+			category: out.flag.category,
+			what: change === 'resolve' ? 'cleared' : 'retagged',
+			text: note
+		});
+	}
+	return out.build;
+}
+
+/**
+ * A message in a hazard tag's thread: the build's maker, or a reviewer (or above) who is not the maker.
+ * Not on a locked build. The other side is told (kind `flag`): the maker's message goes to the reviewer
+ * who hung the tag; a reviewer's message goes to the maker. → the message id.
+ */
+export async function postFlagMessage(actor: Actor, flagId: string, body: string, opts: WriteOptions = {}): Promise<string> {
+	const data = flagMessageSchema.parse({ body: stripControls(body) });
+	const out = await inTx(opts.tx, async (tx) => {
+		const { flag, build } = await lockFlag(tx, flagId);
+		assertCanView(actor, build);
+		const isMaker = actor.id === build.ownerId;
+		if (!isMaker && !roleAtLeast(actor.role, 'reviewer')) error(403, 'Only the maker and reviewers can write on a hazard tag.');
+		if (build.locked) error(403, 'A moderator has locked this build, so its hazard tags cannot be changed for now.');
+		const [row] = await tx
+			.insert(schema.flagMessage)
+			.values({ flagId: flag.id, authorId: actor.id, bodyMd: data.body, bodyHtml: renderMarkdown(data.body) })
+			.returning({ id: schema.flagMessage.id });
+		// Touch the tag: its build's pages show the thread's length (and the reader cache keys on such writes).
+		await tx.update(schema.safetyFlag).set({ updatedAt: new Date() }).where(eq(schema.safetyFlag.id, flag.id));
+		return { id: row.id, flag, build, isMaker };
+	});
+	const toId = out.isMaker ? out.flag.raisedById : out.build.ownerId;
+	if (opts.notify !== false && toId !== actor.id) {
+		await notifyFlagUpdate({
+			toId,
+			actorName: await nameOf(actor),
+			build: out.build,
+			flagId: out.flag.id,
+			category: out.flag.category,
+			what: 'message',
+			text: data.body
+		});
+	}
+	return out.id;
 }
 
 /** Open flags per target of a build: targetId → count (for inline markers on steps, spec blocks and parts). */

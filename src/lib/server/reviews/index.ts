@@ -5,3 +5,5 @@ export * from './verdicts';
 export * from './panel';
 export * from './desk';
 export * from './targets';
+export * from './digest';
+export * from './since';

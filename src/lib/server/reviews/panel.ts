@@ -5,7 +5,7 @@ import { alias } from 'drizzle-orm/pg-core';
 import * as schema from '../db/schema';
 import { db } from '../db';
 import { roleAtLeast } from '$lib/roles';
-import type { FlagCategory, FlagSeverity, FlagState, PanelFlag, ReviewPanelData, Verdict } from '$lib/reviews';
+import type { FlagCategory, FlagSeverity, FlagState, PanelFlag, PanelFlagMessage, ReviewPanelData, Verdict } from '$lib/reviews';
 
 export type { PanelFlag, PanelPerson, PanelReview, ReviewPanelData } from '$lib/reviews';
 import { getReviewState } from './state';
@@ -38,7 +38,8 @@ export async function getReviewPanel(
 
 	const raiser = alias(schema.user, 'raiser');
 	const resolver = alias(schema.user, 'resolver');
-	const [state, reviews, flags, targets] = await Promise.all([
+	const author = alias(schema.user, 'author');
+	const [state, reviews, flags, targets, messages] = await Promise.all([
 		getReviewState(buildId),
 		db
 			.select({
@@ -46,6 +47,8 @@ export async function getReviewPanel(
 				verdict: schema.review.verdict,
 				revision: schema.review.revision,
 				summaryHtml: schema.review.summaryHtml,
+				checklist: schema.review.checklist,
+				checklistNote: schema.review.checklistNote,
 				createdAt: schema.review.createdAt,
 				name: schema.user.name,
 				handle: schema.user.handle
@@ -68,8 +71,29 @@ export async function getReviewPanel(
 			.leftJoin(resolver, eq(resolver.id, schema.safetyFlag.resolvedById))
 			.where(eq(schema.safetyFlag.buildId, buildId))
 			.orderBy(asc(schema.safetyFlag.createdAt)),
-		loadTargets(buildId)
+		loadTargets(buildId),
+		db
+			.select({
+				id: schema.flagMessage.id,
+				flagId: schema.flagMessage.flagId,
+				authorId: schema.flagMessage.authorId,
+				name: author.name,
+				handle: author.handle,
+				bodyHtml: schema.flagMessage.bodyHtml,
+				createdAt: schema.flagMessage.createdAt
+			})
+			.from(schema.flagMessage)
+			.innerJoin(schema.safetyFlag, eq(schema.safetyFlag.id, schema.flagMessage.flagId))
+			.innerJoin(author, eq(author.id, schema.flagMessage.authorId))
+			.where(eq(schema.safetyFlag.buildId, buildId))
+			.orderBy(asc(schema.flagMessage.createdAt), asc(schema.flagMessage.id))
 	]);
+	const threadOf = new Map<string, PanelFlagMessage[]>();
+	for (const m of messages) {
+		const list = threadOf.get(m.flagId) ?? [];
+		list.push({ id: m.id, author: { name: m.name, handle: m.handle }, byMaker: m.authorId === b.ownerId, bodyHtml: m.bodyHtml, createdAt: m.createdAt });
+		threadOf.set(m.flagId, list);
+	}
 
 	const isOwner = !!viewer && viewer.id === b.ownerId;
 	const panelFlags: PanelFlag[] = flags
@@ -86,7 +110,9 @@ export async function getReviewPanel(
 			addressedNote: f.addressedNote,
 			addressedAt: f.addressedAt,
 			resolvedBy: r.resolverName ? { name: r.resolverName, handle: r.resolverHandle } : null,
-			resolvedAt: f.resolvedAt
+			resolvedAt: f.resolvedAt,
+			resolvedNote: f.resolvedNote,
+			messages: threadOf.get(f.id) ?? []
 		}))
 		.sort((x, y) => STATE_ORDER[x.state] - STATE_ORDER[y.state] || y.createdAt.getTime() - x.createdAt.getTime());
 
@@ -101,6 +127,8 @@ export async function getReviewPanel(
 			verdict: r.verdict as Verdict,
 			revision: r.revision,
 			summaryHtml: r.summaryHtml,
+			checklist: r.checklist,
+			checklistNote: r.checklistNote,
 			createdAt: r.createdAt
 		})),
 		flags: panelFlags,
@@ -108,7 +136,8 @@ export async function getReviewPanel(
 			requestReview: isOwner && b.status === 'published' && !b.locked && !b.reviewRequestedAt,
 			review: canReview(viewer, b),
 			address: isOwner && !b.locked,
-			resolve: !!viewer && !isOwner && roleAtLeast(viewer.role, 'reviewer')
+			resolve: !!viewer && !isOwner && roleAtLeast(viewer.role, 'reviewer'),
+			discuss: isOwner || (!!viewer && roleAtLeast(viewer.role, 'reviewer'))
 		}
 	};
 }

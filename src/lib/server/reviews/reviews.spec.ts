@@ -1,6 +1,7 @@
 // Integration (real PostgreSQL): flag lifecycle and who may move it, verdicts pinned to revisions, the
 // review desk, and notification opt-outs (nothing queued when a member turned a kind off).
 import { revisionLabel } from '$lib/revision-label';
+import { CHECKLIST_ITEMS } from '$lib/review-checklist';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
 import { db } from '../db';
@@ -9,7 +10,7 @@ import { addStep, publishRevision } from '../builds';
 import { saveSpecBlock } from '../specs';
 import { stopMail } from '../mail';
 import { createTestUser, removeTestUsers } from '../testing/builds';
-import { createPublishedBuild, queuedMailTo, SUPPLY_DATA, type TestBuild } from '../testing/reviews';
+import { createPublishedBuild, emailOf, queuedMailTo, SUPPLY_DATA, type TestBuild } from '../testing/reviews';
 import {
 	addressFlag,
 	getFlagMarkers,
@@ -28,11 +29,6 @@ type U = Awaited<ReturnType<typeof createTestUser>>;
 let owner: U, other: U, reviewer: U, reviewer2: U, moderator: U;
 let build: TestBuild;
 const users: string[] = [];
-
-async function emailOf(id: string) {
-	const [u] = await db.select({ email: schema.user.email }).from(schema.user).where(eq(schema.user.id, id));
-	return u.email;
-}
 
 beforeAll(async () => {
 	owner = await createTestUser('maker', 'Owner');
@@ -172,7 +168,12 @@ describe('sign-offs and send-backs pinned to revisions', () => {
 		expect((await listWaiting()).find((w) => w.id === build.id)?.previous).toEqual({ verdict: 'rework', revision: rev1 });
 
 		await setFlagState(reviewer, flag, 'resolve');
-		const review = await submitReview(reviewer, build.id, { verdict: 'safe', summary: 'Tab insulated, fuse right, earth bonded.' }, { notify: false });
+		// A mains build: the checklist must be ticked (or the unticked items explained) for a sign-off.
+		const ALL = CHECKLIST_ITEMS.map((i) => i.key);
+		await expect(
+			submitReview(reviewer, build.id, { verdict: 'safe', summary: 'Tab insulated, fuse right, earth bonded.', checklist: ALL.slice(1) }, { notify: false })
+		).rejects.toMatchObject({ status: 422 });
+		const review = await submitReview(reviewer, build.id, { verdict: 'safe', summary: 'Tab insulated, fuse right, earth bonded.', checklist: ALL }, { notify: false });
 		expect(review.revision).toBe(rev1 + 1);
 		s = (await getReviewStates([build.id])).get(build.id)!;
 		expect(s).toMatchObject({ label: 'safe', verdict: 'safe', verdictRevision: rev1 + 1, waiting: false, openFlags: 0 });

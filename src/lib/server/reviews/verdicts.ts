@@ -11,27 +11,41 @@ import { renderMarkdown } from '../markdown';
 import { recordAudit } from '../audit';
 import { notifyReview } from '../notifications';
 import { inTx } from '../db/tx';
-import { reviewSchema, type ReviewInput } from '$lib/schemas/review';
+import { requestReviewSchema, reviewSchema, type ReviewInput } from '$lib/schemas/review';
+import { checklistFromTicked, CHECKLIST_ITEMS } from '$lib/review-checklist';
+import { stripControls } from '../http/control-chars';
+import { assertNotClaimedByOther } from './desk';
+import { scheduleDigests } from './digest';
 import type { Actor } from '../actor';
 import { assertCanReview, reviewerName, type WriteOptions } from './flags';
 import { assertCanView } from '../builds/access';
 
 /**
- * The maker asks for review of their published build: it joins the review desk (oldest request first).
- * Asking while already waiting keeps the original place in the queue. → 'queued' | 'already-waiting'.
+ * The maker asks for review of their published build: it joins the review desk (oldest request first),
+ * with the maker's optional note for the reviewer. Asking while already waiting keeps the original place
+ * in the queue (a new note replaces the old one). Reviewers following the build's category get a digest
+ * (reviews/digest.ts). → 'queued' | 'already-waiting'.
  */
-export async function requestReview(actor: Actor, buildId: string, tx?: Tx): Promise<'queued' | 'already-waiting'> {
-	return inTx(tx, async (t) => {
+export async function requestReview(actor: Actor, buildId: string, tx?: Tx, note = ''): Promise<'queued' | 'already-waiting'> {
+	const data = requestReviewSchema.parse({ note: stripControls(note) });
+	const out = await inTx(tx, async (t) => {
 		const [b] = await t.select().from(schema.build).where(eq(schema.build.id, buildId)).for('update');
 		if (!b) error(404, 'Not found');
 		assertCanView(actor, b);
 		if (actor.id !== b.ownerId) error(403, 'Only the maker of this build can ask for its review.');
 		if (b.status !== 'published') error(409, 'Publish the build first: reviewers review published builds.');
 		if (b.locked) error(403, 'A moderator has locked this build; it cannot go to the review desk for now.');
-		if (b.reviewRequestedAt) return 'already-waiting';
+		if (b.reviewRequestedAt) {
+			if (data.note) await t.update(schema.reviewRequest).set({ note: data.note }).where(eq(schema.reviewRequest.buildId, b.id));
+			return { state: 'already-waiting' as const, category: b.category };
+		}
+		// The trigger on build creates the desk row (review_request); the note goes onto it.
 		await t.update(schema.build).set({ reviewRequestedAt: new Date() }).where(eq(schema.build.id, b.id));
-		return 'queued';
+		await t.update(schema.reviewRequest).set({ note: data.note }).where(eq(schema.reviewRequest.buildId, b.id));
+		return { state: 'queued' as const, category: b.category };
 	});
+	if (out.state === 'queued' && !tx) await scheduleDigests(out.category, actor.id);
+	return out.state;
 }
 
 /**
@@ -47,10 +61,12 @@ export async function submitReview(
 ): Promise<{ id: string; revision: number }> {
 	const data = reviewSchema.parse(input);
 	const summaryHtml = renderMarkdown(data.summary);
+	const checklistNote = stripControls(data.checklistNote);
 	const result = await inTx(opts.tx, async (tx) => {
 		const [b] = await tx.select().from(schema.build).where(eq(schema.build.id, buildId)).for('update');
 		if (!b) error(404, 'Not found');
 		assertCanReview(actor, b);
+		await assertNotClaimedByOther(tx, actor, b.id);
 		if (data.verdict === 'safe') {
 			const [{ n }] = await tx
 				.select({ n: sql<number>`count(*)::int` })
@@ -63,6 +79,14 @@ export async function submitReview(
 				);
 			}
 		}
+		const checklist = b.mainsPowered ? checklistFromTicked(data.checklist) : [];
+		const unticked = checklist.filter((c) => !c.ticked).length;
+		if (data.verdict === 'safe' && unticked > 0 && checklistNote.length < 10) {
+			error(
+				422,
+				`This is a mains build: ${unticked} of ${CHECKLIST_ITEMS.length} checklist items are not ticked. Tick them, or say in the note below why they do not apply or could not be checked (at least 10 characters).`
+			);
+		}
 		const now = new Date();
 		const [row] = await tx
 			.insert(schema.review)
@@ -73,6 +97,8 @@ export async function submitReview(
 				verdict: data.verdict,
 				summaryMd: data.summary,
 				summaryHtml,
+				checklist,
+				checklistNote: checklist.length ? checklistNote : '',
 				createdAt: now
 			})
 			.returning({ id: schema.review.id });

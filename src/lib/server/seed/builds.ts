@@ -6,6 +6,7 @@ import { savePartsList } from '../parts';
 import { saveSpecBlock } from '../specs';
 import { processAndStorePhoto, renderIllustration } from '../photos';
 import { renderMarkdown } from '../markdown';
+import { CHECKLIST_KEYS, checklistFromTicked } from '$lib/review-checklist';
 import { emptyDraft } from '$lib/parts';
 import { DEMO_MEMBERS, type DemoMemberKey } from './members';
 import { DEMO_BUILDS, DEMO_DERIVE, type DemoBuild } from './content';
@@ -117,6 +118,8 @@ async function seedReviews(tx: Tx, ids: Ids, seeded: Seeded[]) {
 			verdict,
 			summaryMd: summary,
 			summaryHtml: renderMarkdown(summary),
+			// A mains sign-off carries the ticked review checklist ($lib/review-checklist).
+			checklist: b.mainsPowered ? checklistFromTicked(verdict === 'safe' ? CHECKLIST_KEYS : ['pe-continuity', 'live-fuse']) : [],
 			createdAt: at
 		});
 		await tx.update(schema.build).set({ lastReviewedAt: at }).where(eq(schema.build.id, s.id));

@@ -1,7 +1,8 @@
 // Integration-test helpers for review, flags, comments and moderation: a published build with a heatsink
 // step, a supply spec block and a parts list, made through the real domain modules.
 import { actorOf } from '../actor';
-import { sql } from 'drizzle-orm';
+import { eq, sql } from 'drizzle-orm';
+import * as schema from '../db/schema';
 import { db } from '../db';
 import { addStep, createDraft, publish } from '../builds';
 import { saveSpecBlock } from '../specs';
@@ -56,4 +57,10 @@ export async function queuedMailTo(email: string, since: Date): Promise<{ subjec
 		sql`select data->>'subject' as subject from pgboss.job where name = 'mail' and data->>'to' = ${email} and created_on >= ${since.toISOString()}::timestamptz order by created_on`
 	);
 	return [...rows];
+}
+
+/** A member's e-mail address. */
+export async function emailOf(id: string): Promise<string> {
+	const [u] = await db.select({ email: schema.user.email }).from(schema.user).where(eq(schema.user.id, id));
+	return u.email;
 }

@@ -1,10 +1,11 @@
-import { error, fail, redirect } from '@sveltejs/kit';
+import { fail, redirect } from '@sveltejs/kit';
 import { superValidate, message } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { requireRole } from '$lib/server/auth';
 import { loadBuildContent, requireVisibleBuild } from '$lib/server/builds';
-import { assertCanReview, getReviewPanel, raiseFlag, submitReview } from '$lib/server/reviews';
+import { assertCanReview, changesSinceVerdict, getDeskEntry, getReviewPanel, raiseFlag, submitReview } from '$lib/server/reviews';
 import { raiseFlagSchema, reviewSchema } from '$lib/schemas/review';
+import { withOutcome } from '$lib/outcomes';
 import type { Actions, PageServerLoad } from './$types';
 import { actorOf } from '$lib/server/actor';
 import { attempt } from '$lib/server/http';
@@ -19,18 +20,22 @@ async function reviewable(slug: string) {
 
 export const load: PageServerLoad = async ({ params }) => {
 	const { user, b } = await reviewable(params.slug);
-	const [content, panel, form] = await Promise.all([
+	const [content, panel, form, desk, since] = await Promise.all([
 		loadBuildContent(b),
 		getReviewPanel(b.id, user),
-		superValidate(zod4(reviewSchema))
+		superValidate(zod4(reviewSchema)),
+		getDeskEntry(b.id),
+		changesSinceVerdict(b.id, b.revision)
 	]);
 	return {
 		build: { id: b.id, slug: b.slug, title: b.title, revision: b.revision, mainsPowered: b.mainsPowered, summary: b.summary },
-		steps: content.steps.map((s) => ({ id: s.id, title: s.title, bodyHtml: s.bodyHtml })),
+		steps: content.steps.map((s) => ({ id: s.id, title: s.title, bodyHtml: s.bodyHtml, photos: s.photos })),
 		specBlocks: content.specBlocks,
 		parts: content.parts,
 		panel,
-		form
+		form,
+		desk: desk && { note: desk.note, rereview: desk.rereview, claim: desk.claim && { ...desk.claim, mine: desk.claim.byId === user.id } },
+		since
 	};
 };
 
@@ -55,6 +60,6 @@ export const actions: Actions = {
 		if (!form.valid) return fail(400, { form });
 		const r = await attempt(() => submitReview(user, b.id, form.data));
 		if (!r.ok) return message(form, r.error, { status: r.status as 409 });
-		redirect(303, `/builds/${b.slug}#review-state`);
+		redirect(303, withOutcome(`/builds/${b.slug}#review-state`, form.data.verdict === 'safe' ? 'review-safe' : 'review-rework'));
 	}
 };
