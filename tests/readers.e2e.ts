@@ -52,3 +52,26 @@ test('a reader filters builds by rails and load, then finds builds using a part'
 	await expect(page.getByText('Some of the link’s filters could not be used')).toBeVisible();
 	await expect(page.getByText('must be a number of volts (V), e.g. 30')).toBeVisible();
 });
+
+test('a reader compares two builds side by side from a build page', async ({ page }) => {
+	await page.goto('/builds/two-channel-chip-amp-split-supply');
+	await page.locator('[data-compare-link]').click();
+	await expect(page.getByRole('heading', { name: 'Compare with another build' })).toBeVisible();
+	await page.getByLabel('The other build').fill('/builds/quiet-class-a-headphone-amp');
+	await page.getByRole('button', { name: 'Compare' }).click();
+	await expect(page).toHaveURL(/\/builds\/two-channel-chip-amp-split-supply\/compare\?with=quiet-class-a-headphone-amp$/);
+	await expect(page.getByRole('heading', { name: 'Two builds side by side' })).toBeVisible();
+	// Both amplifier blocks in one table: the rails differ (±28 V against ±15 V in the demo).
+	const amp = page.locator('[data-spec-pair="amplifier"]');
+	await expect(amp).toBeVisible();
+	const rail = amp.locator('tr', { has: page.getByRole('rowheader', { name: /^Rail/ }) });
+	await expect(rail).toHaveAttribute('data-differs', 'true');
+	await expect(rail).toContainText('28 V');
+	await expect(rail).toContainText('15 V');
+	// Parts lists matched by designators: the first build's 4k7 bleeders (R9, R10) are not in the other.
+	await expect(page.getByRole('heading', { name: 'Parts lists, matched by designators' })).toBeVisible();
+	await expect(page.locator('[data-compare]').first()).toBeVisible();
+	// A draft someone else owns is absent to a reader.
+	const res = await page.goto('/builds/two-channel-chip-amp-split-supply/compare?with=no-such-build-here');
+	expect(res?.status()).toBe(404);
+});
