@@ -316,6 +316,8 @@ export const benchItem = pgTable(
 		buildId: uuid('build_id')
 			.notNull()
 			.references(() => build.id, { onDelete: 'cascade' }),
+		/** The member's own note on the saved build (what to order, what to change); only they see it. */
+		note: text('note').default('').notNull(),
 		createdAt: timestamp('created_at').defaultNow().notNull()
 	},
 	(t) => [primaryKey({ columns: [t.userId, t.buildId] })]
@@ -394,6 +396,33 @@ export const publishedPart = pgTable(
 		index('published_part_text_idx').on(t.kind, t.valueKey, t.buildId),
 		index('published_part_package_idx').on(t.packageKey, t.buildId)
 	]
+);
+
+/**
+ * "I built this too" (server/built-it.ts): a member's record that they built a published build, or their own
+ * build based on it, with the figures they measured as checked blocks (bring-up, measurements) and a photo.
+ * One per member and build.
+ */
+export const buildReport = pgTable(
+	'build_report',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		buildId: uuid('build_id')
+			.notNull()
+			.references(() => build.id, { onDelete: 'cascade' }),
+		userId: text('user_id')
+			.notNull()
+			.references(() => user.id, { onDelete: 'cascade' }),
+		/** The member's own published build based on this one, when they made one. */
+		basedOnId: uuid('based_on_id').references(() => build.id, { onDelete: 'set null' }),
+		note: text('note').default('').notNull(),
+		/** Checked blocks: { kind, data, derived, checks }[] (kinds bringup, measurements). */
+		blocks: jsonb('blocks').$type<{ kind: string; data: Record<string, unknown>; derived: Record<string, unknown>; checks: StoredCheck[] }[]>().default([]).notNull(),
+		photoId: uuid('photo_id').references(() => photo.id, { onDelete: 'set null' }),
+		createdAt: timestamp('created_at').defaultNow().notNull(),
+		updatedAt: timestamp('updated_at').defaultNow().notNull()
+	},
+	(t) => [uniqueIndex('build_report_member_idx').on(t.buildId, t.userId), index('build_report_user_idx').on(t.userId)]
 );
 
 export type Build = typeof build.$inferSelect;
