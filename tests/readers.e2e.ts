@@ -2,6 +2,8 @@
 // Expectations come from the builds API with the same figures (the page and the API share one query), plus the
 // demo scenario's ±28 V / 8 Ω chip amplifier, so the test holds whatever other tests publish meanwhile.
 import { test, expect, type Page } from '@playwright/test';
+import sharp from 'sharp';
+import { signIn } from './helpers/auth';
 
 async function slugsFromApi(page: Page, qs: string): Promise<string[]> {
 	const res = await page.request.get(`/api/v1/builds?${qs}&limit=100`);
@@ -64,7 +66,7 @@ test('a reader compares two builds side by side from a build page', async ({ pag
 	// Both amplifier blocks in one table: the rails differ (±28 V against ±15 V in the demo).
 	const amp = page.locator('[data-spec-pair="amplifier"]');
 	await expect(amp).toBeVisible();
-	const rail = amp.locator('tr', { has: page.getByRole('rowheader', { name: /^Rail/ }) });
+	const rail = amp.locator('tr', { has: page.getByRole('rowheader', { name: /^Rail\s*(differs)?$/ }) });
 	await expect(rail).toHaveAttribute('data-differs', 'true');
 	await expect(rail).toContainText('28 V');
 	await expect(rail).toContainText('15 V');
@@ -74,4 +76,68 @@ test('a reader compares two builds side by side from a build page', async ({ pag
 	// A draft someone else owns is absent to a reader.
 	const res = await page.goto('/builds/two-channel-chip-amp-split-supply/compare?with=no-such-build-here');
 	expect(res?.status()).toBe(404);
+});
+
+test('a member records "I built this too" with measurements and a photo; the build shows the figures', async ({ page }) => {
+	await signIn(page, 'oskar@starground.test');
+	await page.goto('/builds/two-channel-chip-amp-split-supply');
+	await page.locator('[data-built-it-link]').click();
+	await expect(page.getByRole('heading', { name: 'I built this too' })).toBeVisible();
+	await page.getByLabel('Rails expected (V)').fill('28, -28');
+	await page.getByLabel('Rails measured (V)').fill('27.5');
+	await page.getByRole('button', { name: /Record that I built it|Save my figures/ }).click();
+	// One measured rail for two expected: refused with a sentence, what was typed is kept.
+	await expect(page.getByText('give one measured value for each expected rail (2 expected, 1 measured)')).toBeVisible();
+	await expect(page.getByLabel('Rails expected (V)')).toHaveValue('28, -28');
+	await page.getByLabel('Rails measured (V)').fill('27.6, -27.9');
+	await page.getByLabel('First power-up through a current limiter').check();
+	await page.getByLabel('Output DC offset per channel').fill('9, -14');
+	await page.getByLabel('Distortion points').fill('1@0.02, 25@0.1, 36@1, 38@10');
+	await page.getByLabel('Into (Ω)').fill('8');
+	await page.getByRole('button', { name: /Record that I built it|Save my figures/ }).click();
+	await expect(page).toHaveURL(/\/builds\/two-channel-chip-amp-split-supply#built-it$/);
+	const row = page.locator('[data-built-it-row]', { hasText: 'Oskar Lindqvist' });
+	await expect(row).toContainText('+27.6 / -27.9 V');
+	await expect(row).toContainText('14 mV');
+	// Power at 1 % THD: the highest point at or below 1 % (36 W), not the 10 % point.
+	await expect(row).toContainText('36 W into 8 Ω');
+	await expect(page.locator('[data-built-it-plot="power"] svg')).toBeVisible();
+	await expect(page.locator('[data-built-it-plot="offset"] svg')).toBeVisible();
+
+	// A photo of the copy.
+	await page.goto('/builds/two-channel-chip-amp-split-supply/built-it');
+	const png = await sharp({ create: { width: 320, height: 200, channels: 3, background: '#5b6b4e' } }).png().toBuffer();
+	await page.locator('#bi-file').setInputFiles({ name: 'copy.png', mimeType: 'image/png', buffer: png });
+	await page.getByLabel('What it shows').fill('My copy on the bench');
+	await page.getByRole('button', { name: /Add photo|Replace photo/ }).click();
+	await expect(page).toHaveURL(/#built-it$/);
+	await expect(row.getByRole('img', { name: 'My copy on the bench' })).toBeVisible();
+});
+
+test('a member keeps notes on the bench and gets one shopping list for two builds as CSV', async ({ page }) => {
+	await signIn(page, 'oskar@starground.test');
+	for (const slug of ['two-channel-chip-amp-split-supply', 'quiet-class-a-headphone-amp']) {
+		await page.request.post('/bench?/toggle', { form: { slug, save: '1' }, headers: { origin: new URL(page.url()).origin } });
+	}
+	await page.goto('/bench');
+	const card = page.locator('li', { has: page.locator('input[name="b"][value="two-channel-chip-amp-split-supply"]') });
+	await card.getByLabel(/Your note on/).fill('Order 2 W bleeders; check the heatsink tapping.');
+	await card.getByRole('button', { name: 'Save note' }).click();
+	await expect(card.getByRole('status')).toHaveText('Saved.');
+	await page.reload();
+	await expect(page.locator('li', { has: page.locator('input[name="b"][value="two-channel-chip-amp-split-supply"]') }).getByLabel(/Your note on/)).toHaveValue(
+		'Order 2 W bleeders; check the heatsink tapping.'
+	);
+	await page.locator('input[name="b"][value="two-channel-chip-amp-split-supply"]').check();
+	await page.locator('input[name="b"][value="quiet-class-a-headphone-amp"]').check();
+	await page.getByRole('button', { name: 'Combined shopping list' }).click();
+	await expect(page.getByRole('heading', { name: 'Combined shopping list' })).toBeVisible();
+	await expect(page.locator('[data-shopping-row]').first()).toBeVisible();
+	const csvHref = await page.locator('[data-shopping-csv]').getAttribute('href');
+	const res = await page.request.get(csvHref!);
+	expect(res.headers()['content-type']).toContain('text/csv');
+	const text = await res.text();
+	expect(text.split('\r\n')[0]).toBe('kind,value,value_si,unit,rating_v,rating_w,quantity,packages,used_in');
+	// Every row names the builds it is for.
+	expect(text).toContain('Two-channel chip amp on a split supply: ');
 });
