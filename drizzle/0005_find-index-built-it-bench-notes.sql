@@ -70,3 +70,6 @@ FROM "build" b
 JOIN "build_revision" r ON r.build_id = b.id AND r.number = b.revision
 CROSS JOIN LATERAL jsonb_array_elements(CASE WHEN jsonb_typeof(r.snapshot->'parts') = 'array' THEN r.snapshot->'parts' ELSE '[]'::jsonb END) WITH ORDINALITY e(p, ord)
 WHERE b.revision > 0 AND jsonb_typeof(e.p) = 'object';
+--> statement-breakpoint
+-- "I built this too" records show on the build page: its reader cache follows them (0004's triggers).
+SELECT starground_watch_build_rows('build_report');

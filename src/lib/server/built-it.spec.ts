@@ -34,7 +34,7 @@ describe('recordBuiltIt', () => {
 		expect(list[1].figures.maxAbsOffsetMv).toBe(120);
 		expect(list[1].figures.danger + list[1].figures.caution).toBeGreaterThan(0);
 		expect(list[1].blocks[0].checks.length).toBeGreaterThan(0);
-		const panel = await builtItPanel(b, null);
+		const panel = await builtItPanel(b, null, []);
 		expect(panel.records).toHaveLength(2);
 	});
 

@@ -147,11 +147,14 @@ export async function countBuiltIt(buildId: string): Promise<number> {
 	return r?.n ?? 0;
 }
 
-/** The build page's "built by others" panel: the records, and the original's own figures to compare them with. */
-export async function builtItPanel(build: Pick<schema.Build, 'id'>, viewer: Viewer) {
-	const [records, blocks] = await Promise.all([
-		listBuiltIt(build.id, viewer),
-		db.select({ kind: schema.specBlock.kind, data: schema.specBlock.data, derived: schema.specBlock.derived }).from(schema.specBlock).where(eq(schema.specBlock.buildId, build.id))
-	]);
-	return { records, reference: referenceFigures(blocks) };
+/**
+ * The build page's "built by others" panel: the records, and the build's own figures to compare them with, from
+ * the spec blocks the page shows (`specBlocks`: the published ones for readers).
+ */
+export async function builtItPanel(
+	build: Pick<schema.Build, 'id'>,
+	viewer: Viewer,
+	specBlocks: readonly { kind: string; data: Record<string, unknown>; derived: Record<string, unknown> }[]
+) {
+	return { records: await listBuiltIt(build.id, viewer), reference: referenceFigures([...specBlocks]) };
 }

@@ -23,7 +23,8 @@ describe('compareBuilds', () => {
 		const b = await testBuild(other.id, { published: true });
 		await saveSpecBlock(other, b.id, { kind: 'amplifier', data: AMP });
 		await savePartsList(other, b.id, [{ ...emptyDraft(), designators: 'R1', kind: 'resistor', value: '4k7' }]);
-		const r = await compareBuilds(a.slug, b.slug, null);
+		// Seen by b's maker: b's live content (a reader sees its published revision, tested below).
+		const r = await compareBuilds(a.slug, b.slug, { id: other.id, role: 'maker' });
 		expect(r.left.build.slug).toBe(a.slug);
 		expect(r.right!.build.slug).toBe(b.slug);
 		expect(r.basedOn).toBe(false);
@@ -52,6 +53,16 @@ describe('compareBuilds', () => {
 		expect((await compareBuilds(origin.slug, null, null)).right).toBeNull();
 		// Named explicitly, the origin is still recognised as what the build is based on.
 		expect((await compareBuilds(slug, origin.slug, { id: other.id, role: 'maker' })).basedOn).toBe(true);
+	});
+});
+
+describe('compareBuilds and pending changes', () => {
+	it('shows readers the published parts list and the maker the live one', async () => {
+		const a = await testBuild(maker.id, { published: true });
+		const b = await testBuild(other.id, { published: true });
+		await savePartsList(other, b.id, [{ ...emptyDraft(), designators: 'R1', kind: 'resistor', value: '10k' }]);
+		expect((await compareBuilds(a.slug, b.slug, null)).right!.parts).toEqual([]);
+		expect((await compareBuilds(a.slug, b.slug, { id: other.id, role: 'maker' })).right!.parts.map((p) => p.valueText)).toEqual(['10k']);
 	});
 });
 

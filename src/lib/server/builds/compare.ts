@@ -12,6 +12,7 @@ import { canView } from './access';
 import { getMaker, requireVisibleBuild } from './queries';
 import { listPartLines } from '../parts';
 import { listSpecBlocks } from '../specs';
+import { loadPublishedContent, seesLiveContent } from './published';
 
 /** The slug in what a reader typed to name a build: "my-amp", "/builds/my-amp", "https://…/builds/my-amp/compare". null when none. */
 export function slugFromInput(text: string): string | null {
@@ -21,9 +22,17 @@ export function slugFromInput(text: string): string | null {
 	return m ? m[1].toLowerCase() : null;
 }
 
-/** What one side of a comparison shows: the build, its maker, its parts list and spec blocks in display order. */
-async function side(b: schema.Build) {
-	const [maker, parts, specBlocks] = await Promise.all([getMaker(b.ownerId), listPartLines(b.id), listSpecBlocks(b.id)]);
+/**
+ * What one side of a comparison shows: the build, its maker, its parts list and spec blocks in display order —
+ * as last published for readers, live for those who may edit it (as on the build page, ./published).
+ */
+async function side(b: schema.Build, viewer: Viewer) {
+	const published = seesLiveContent(viewer, b) ? null : await loadPublishedContent(b);
+	const [maker, parts, specBlocks] = await Promise.all([
+		getMaker(b.ownerId),
+		published ? published.content.parts : listPartLines(b.id),
+		published ? published.content.specBlocks : listSpecBlocks(b.id)
+	]);
 	return {
 		build: { slug: b.slug, title: b.title, status: b.status, revision: b.revision, topology: b.topology, mainsPowered: b.mainsPowered },
 		maker: { name: maker.name, handle: maker.handle },
@@ -54,6 +63,6 @@ export async function compareBuilds(slug: string, withSlug: string | null, viewe
 			basedOn = true;
 		}
 	}
-	const [left, right] = await Promise.all([side(a), b ? side(b) : Promise.resolve(null)]);
+	const [left, right] = await Promise.all([side(a, viewer), b ? side(b, viewer) : Promise.resolve(null)]);
 	return { left, right, basedOn };
 }

@@ -49,7 +49,7 @@ async function pageData(slug: string, locals: App.Locals, row?: Build) {
 		getFlagMarkers(b.id),
 		b.status === 'draft' ? Promise.resolve([]) : listComments(b.id, viewer),
 		viewer && b.status === 'published' ? isOnBench(viewer.id, b.id) : Promise.resolve(false),
-		b.status === 'published' ? builtItPanel(b, viewer) : Promise.resolve(null)
+		b.status === 'published' ? builtItPanel(b, viewer, page.specBlocks) : Promise.resolve(null)
 	]);
 	return {
 		builtIt,
