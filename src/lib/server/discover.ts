@@ -4,7 +4,7 @@
  */
 import { effectiveSort, encodeCursor as encodeCursorFor, listPublishedBuilds, queryBuilds, type BuildListRow } from './builds/list';
 import { getReviewStates, type ReviewState } from './reviews/state';
-import { listQuerySchema, type ListQuery } from '$lib/schemas/list';
+import { FIND_KEYS, listQuerySchema, type ListQuery } from '$lib/schemas/list';
 import { highlightBuilds, type SearchHighlight } from './search';
 import { queryObject, type ApiIssue } from './http';
 import { CATEGORY_LABELS, TOPOLOGY_LABELS, labelOf } from '$lib/labels';
@@ -135,9 +135,9 @@ export async function listPage(url: URL, pageSize: number) {
 	const highlights = query.q ? await highlightBuilds(result.rows.map((r) => r.id), query.q) : undefined;
 	const builds = await toCards(result.rows, highlights);
 	const params = new URLSearchParams();
-	for (const key of ['q', 'category', 'topology', 'review', 'mains', 'status', 'maker', 'sort'] as const) {
+	for (const key of ['q', 'category', 'topology', 'review', 'mains', 'status', 'maker', 'sort', ...FIND_KEYS] as const) {
 		const v = query[key];
-		if (v) params.set(key, v);
+		if (v !== undefined && v !== '') params.set(key, String(v));
 	}
 	const base = params.toString();
 	let nextHref: string | null = null;
@@ -156,11 +156,19 @@ export async function listPage(url: URL, pageSize: number) {
 			mains: query.mains ?? '',
 			status: query.status ?? '',
 			maker: query.maker ?? '',
-			sort: effectiveSort(query)
+			sort: effectiveSort(query),
+			...findFilterValues(query)
 		},
 		problems,
 		paged: !!query.cursor,
 		firstHref: base ? `${url.pathname}?${base}` : url.pathname,
 		nextHref
 	};
+}
+
+/** The find fields of a list query as the filter form shows them (text; '' when not given). */
+function findFilterValues(query: ListQuery): Record<(typeof FIND_KEYS)[number], string> {
+	const out = {} as Record<(typeof FIND_KEYS)[number], string>;
+	for (const k of FIND_KEYS) out[k] = query[k] === undefined ? '' : String(query[k]);
+	return out;
 }

@@ -244,7 +244,7 @@ export const OPERATIONS: Operation[] = [
 		tag: 'Builds',
 		summary: 'List published builds',
 		description:
-			'Filters combine (AND). `q` searches titles, summaries, step text and parts lists (PostgreSQL full-text search, English; quotes, `or` and `-word` work) and ranks by relevance unless `sort` says otherwise. Keyset pagination: pass `nextCursor` back as `cursor` with the same filters and sort; pages never repeat or skip a build while new builds are published. A cursor from another sort answers 400.',
+			'Filters combine (AND). `q` searches titles, summaries, step text and parts lists (PostgreSQL full-text search, English; quotes, `or` and `-word` work) and ranks by relevance unless `sort` says otherwise. Keyset pagination: pass `nextCursor` back as `cursor` with the same filters and sort; pages never repeat or skip a build while new builds are published. A cursor from another sort answers 400. Find by numbers: `railMinV`/`railMaxV` (each side, ±V), `loadOhm`, `powerMinW`/`powerMaxW` must all hold for one amplifier or supply block, and `partKind`/`partValue`/`partPackage` for one parts line, of the build’s latest published revision (never unpublished changes); `partValue` is read in the trade’s notation (0R22 = 0.22 = 220m for a resistor). A figure that cannot be used answers 400 with a sentence at its parameter.',
 		query: listQuerySchema,
 		response: listOut,
 		errors: [400],

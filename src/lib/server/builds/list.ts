@@ -15,6 +15,8 @@ import { searchQuery, searchRank } from '../search';
 import type { BuildProgress, Category, Topology } from '$lib/schemas/build';
 import { LIST_LIMIT_DEFAULT, LIST_LIMIT_MAX, LIST_SORTS, type ListQuery, type ListSort, type ReviewFilter } from '$lib/schemas/list';
 import { isUuid } from '$lib/uuid';
+import { figureCondition, partCondition, type FigureFilter, type PartFilter } from './find-index';
+import { partValueSI } from '$lib/schemas/list';
 
 /**
  * Position after the last item of a page: the sort it belongs to, the sort key values of that item
@@ -76,6 +78,10 @@ export interface ListFilters {
 	derivedOnly?: boolean;
 	/** The maker's build status (`progress`): in progress, working, abandoned. */
 	progress?: BuildProgress;
+	/** Rails, load and power of one block of the latest revision (find-index.ts). */
+	figures?: FigureFilter;
+	/** "Builds using this part": one parts line of the latest revision (find-index.ts). */
+	part?: PartFilter;
 }
 
 export interface ListOptions {
@@ -210,6 +216,10 @@ function filterConditions(q: ListFilters): SQL[] {
 	if (q.ownerId) out.push(eq(b.ownerId, q.ownerId));
 	if (q.derivedOnly) out.push(gt(b.derivedCount, 0));
 	if (q.progress) out.push(eq(b.progress, q.progress));
+	const figures = q.figures && figureCondition(b.id, q.figures);
+	if (figures) out.push(figures);
+	const part = q.part && partCondition(b.id, q.part);
+	if (part) out.push(part);
 	switch (q.review) {
 		case 'unreviewed':
 		case 'safe':
@@ -258,8 +268,21 @@ export async function queryBuilds(q: ListQuery, dbx: DbLike = db): Promise<ListR
 		review: q.review,
 		mains: q.mains === undefined ? undefined : q.mains === 'true',
 		maker: q.maker,
-		progress: q.status
+		progress: q.status,
+		...findFilters(q)
 	};
 	const { rows, next } = await listPublishedBuilds({ limit: q.limit, cursor, sort, filters }, dbx);
 	return { ok: true, rows, next, sort };
+}
+
+/** The find filters of a validated list query (the schema has checked them; the part value is read in SI). */
+function findFilters(q: ListQuery): Pick<ListFilters, 'figures' | 'part'> {
+	const figures: FigureFilter = { railMinV: q.railMinV, railMaxV: q.railMaxV, loadOhm: q.loadOhm, powerMinW: q.powerMinW, powerMaxW: q.powerMaxW };
+	const part: PartFilter = { kind: q.partKind, package: q.partPackage };
+	if (q.partKind && q.partValue) {
+		const si = partValueSI(q.partKind, q.partValue);
+		if (si === null) part.valueText = q.partValue;
+		else part.value = si;
+	}
+	return { figures, part };
 }

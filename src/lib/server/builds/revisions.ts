@@ -15,6 +15,7 @@ import { inTx, type DbLike } from '../db/tx';
 import type { Actor } from '../actor';
 import { assertCanEdit } from './access';
 import { revisionLabel } from '$lib/revision-label';
+import { refreshFindIndex } from './find-index';
 
 /** Read the build's current content into a snapshot (in the caller's transaction, to see its writes). */
 export async function takeSnapshot(tx: DbLike, buildId: string): Promise<BuildSnapshot> {
@@ -109,7 +110,7 @@ async function latestRevision(tx: DbLike, buildId: string) {
 /**
  * Freeze the build's content as its next revision, in the caller's transaction (the build row is locked
  * here: two publications at once cannot take the same number). Nothing is recorded (→ null) when nothing a
- * reader would see changed since the latest revision. Clears the pending changes either way.
+ * reader would see changed since the latest revision. Clears the pending changes either way; rewrites the find index (find-index.ts) from the new revision.
  * → { number: 3, summary: '1 step changed, parts: 1 added' }
  */
 export async function createRevision(
@@ -136,6 +137,7 @@ export async function createRevision(
 		snapshot: snapshot as unknown as Record<string, unknown>
 	});
 	await tx.update(schema.build).set({ revision: number, updatedAt: new Date() }).where(eq(schema.build.id, buildId));
+	await refreshFindIndex(tx, buildId);
 	return { number, summary };
 }
 

@@ -402,6 +402,8 @@ export const benchItem = pgTable(
 		buildId: uuid('build_id')
 			.notNull()
 			.references(() => build.id, { onDelete: 'cascade' }),
+		/** The member's own note on the saved build (what to order, what to change); only they see it. */
+		note: text('note').default('').notNull(),
 		createdAt: timestamp('created_at').defaultNow().notNull()
 	},
 	(t) => [primaryKey({ columns: [t.userId, t.buildId] })]
@@ -430,6 +432,83 @@ export const idempotencyKey = pgTable(
 		createdAt: timestamp('created_at', { withTimezone: true }).defaultNow().notNull()
 	},
 	(t) => [primaryKey({ columns: [t.scope, t.key] }), index('idempotency_key_created_idx').on(t.createdAt)]
+);
+
+/**
+ * Find by numbers (builds/find-index.ts): the figures of each published build's LATEST REVISION, one row per
+ * amplifier or supply spec block, rewritten in the transaction that records the revision. Rails are per side
+ * (a single supply counts as half its total each side).
+ */
+export const publishedFigure = pgTable(
+	'published_figure',
+	{
+		buildId: uuid('build_id')
+			.notNull()
+			.references(() => build.id, { onDelete: 'cascade' }),
+		/** Position of the block in the revision's spec blocks. */
+		block: integer('block').notNull(),
+		kind: text('kind').notNull(),
+		railV: doublePrecision('rail_v'),
+		loadOhm: doublePrecision('load_ohm'),
+		powerW: doublePrecision('power_w')
+	},
+	(t) => [
+		primaryKey({ columns: [t.buildId, t.block] }),
+		index('published_figure_rail_idx').on(t.railV, t.buildId),
+		index('published_figure_load_idx').on(t.loadOhm, t.buildId),
+		index('published_figure_power_idx').on(t.powerW, t.buildId)
+	]
+);
+
+/** "Builds using this part": the parts lines of each published build's latest revision, values normalised. */
+export const publishedPart = pgTable(
+	'published_part',
+	{
+		buildId: uuid('build_id')
+			.notNull()
+			.references(() => build.id, { onDelete: 'cascade' }),
+		line: integer('line').notNull(),
+		kind: text('kind').notNull(),
+		/** SI value (Ω, F, H) for resistors, capacitors, inductors, pots; null otherwise. */
+		value: doublePrecision('value'),
+		/** The value as typed, lower case, spaces squeezed: matches kinds without an SI value ("to-220 npn"). */
+		valueKey: text('value_key').notNull(),
+		/** The package, lower case, spaces squeezed ('' when none). */
+		packageKey: text('package_key').notNull()
+	},
+	(t) => [
+		primaryKey({ columns: [t.buildId, t.line] }),
+		index('published_part_value_idx').on(t.kind, t.value, t.buildId),
+		index('published_part_text_idx').on(t.kind, t.valueKey, t.buildId),
+		index('published_part_package_idx').on(t.packageKey, t.buildId)
+	]
+);
+
+/**
+ * "I built this too" (server/built-it.ts): a member's record that they built a published build, or their own
+ * build based on it, with the figures they measured as checked blocks (bring-up, measurements) and a photo.
+ * One per member and build.
+ */
+export const buildReport = pgTable(
+	'build_report',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		buildId: uuid('build_id')
+			.notNull()
+			.references(() => build.id, { onDelete: 'cascade' }),
+		userId: text('user_id')
+			.notNull()
+			.references(() => user.id, { onDelete: 'cascade' }),
+		/** The member's own published build based on this one, when they made one. */
+		basedOnId: uuid('based_on_id').references(() => build.id, { onDelete: 'set null' }),
+		note: text('note').default('').notNull(),
+		/** Checked blocks: { kind, data, derived, checks }[] (kinds bringup, measurements). */
+		blocks: jsonb('blocks').$type<{ kind: string; data: Record<string, unknown>; derived: Record<string, unknown>; checks: StoredCheck[] }[]>().default([]).notNull(),
+		photoId: uuid('photo_id').references(() => photo.id, { onDelete: 'set null' }),
+		createdAt: timestamp('created_at').defaultNow().notNull(),
+		updatedAt: timestamp('updated_at').defaultNow().notNull()
+	},
+	(t) => [uniqueIndex('build_report_member_idx').on(t.buildId, t.userId), index('build_report_user_idx').on(t.userId)]
 );
 
 export type Build = typeof build.$inferSelect;

@@ -109,7 +109,7 @@ const HEADER_SYNONYMS: Record<string, keyof PartLineDraft | null> = {
 const headerKey = (h: string) => h.trim().toLowerCase().replace(/[\s_\-%()./]+/g, '');
 
 /** A field as a spreadsheet will not run it: a leading = + - @ tab or CR gets a ' before it (CSV injection). */
-function quoteFormula(s: string): string {
+export function quoteFormula(s: string): string {
 	return /^[=+\-@\t\r]/.test(s) ? `'${s}` : s;
 }
 /** Undo quoteFormula on import. */

@@ -15,6 +15,7 @@ import {
 import { getFlagMarkers, getReviewPanel } from '$lib/server/reviews';
 import { listComments } from '$lib/server/comments';
 import { isOnBench } from '$lib/server/bench';
+import { builtItPanel } from '$lib/server/built-it';
 import { revisionLabel } from '$lib/revision-label';
 import { setBuildLocked } from '$lib/server/moderation';
 import type { Actions, PageServerLoad } from './$types';
@@ -43,13 +44,15 @@ async function pageData(slug: string, locals: App.Locals, row?: Build) {
 	const user = locals.user;
 	const page = await getBuildPage(slug, viewer, row);
 	const b = page.build;
-	const [review, flagMarkers, comments, saved] = await Promise.all([
+	const [review, flagMarkers, comments, saved, builtIt] = await Promise.all([
 		getReviewPanel(b.id, viewer),
 		getFlagMarkers(b.id),
 		b.status === 'draft' ? Promise.resolve([]) : listComments(b.id, viewer),
-		viewer && b.status === 'published' ? isOnBench(viewer.id, b.id) : Promise.resolve(false)
+		viewer && b.status === 'published' ? isOnBench(viewer.id, b.id) : Promise.resolve(false),
+		b.status === 'published' ? builtItPanel(b, viewer, page.specBlocks) : Promise.resolve(null)
 	]);
 	return {
+		builtIt,
 		review,
 		saved,
 		flagMarkers: Object.fromEntries(flagMarkers) as Record<string, number>,
