@@ -35,12 +35,12 @@ async function makeJpeg(megapixels) {
 		<circle cx="${width * 0.65}" cy="${height * 0.55}" r="${height * 0.08}" fill="#c9c2b0"/>
 	</svg>`;
 	const base = await sharp(Buffer.from(svg)).raw().toBuffer({ resolveWithObject: true });
-	const grain = await sharp({ create: { width, height, channels: 3, noise: { type: 'gaussian', mean: 0, sigma: 6 } } }).raw().toBuffer();
+	const grain = await sharp({ create: { width, height, channels: 3, noise: { type: 'gaussian', mean: 0, sigma: 16 } } }).raw().toBuffer();
 	const px = base.data;
 	const ch = base.info.channels;
 	const out = Buffer.alloc(width * height * 3);
 	for (let i = 0, j = 0; j < out.length; i += ch, j += 3) {
-		for (let c = 0; c < 3; c++) out[j + c] = Math.max(0, Math.min(255, px[i + c] + grain[j + c] - 3));
+		for (let c = 0; c < 3; c++) out[j + c] = Math.max(0, Math.min(255, px[i + c] + grain[j + c] - 8));
 	}
 	return sharp(out, { raw: { width, height, channels: 3 } }).jpeg({ quality: 88 }).toBuffer();
 }
