@@ -268,7 +268,13 @@ try {
 			                                      'mainsPowered', b.mains_powered, 'licence', b.licence, 'coverPhotoId', null),
 			          'steps', coalesce((select jsonb_agg(jsonb_build_object('id', s.id, 'title', s.title, 'bodyMd', s.body_md, 'bodyHtml', s.body_html, 'photoIds', '[]'::jsonb) order by s.position)
 			                             from build_step s where s.build_id = b.id), '[]'::jsonb),
-			          'specBlocks', '[]'::jsonb, 'parts', '[]'::jsonb),
+			          'specBlocks', '[]'::jsonb,
+			          'parts', coalesce((select jsonb_agg(jsonb_build_object('id', p.id, 'designators', p.designators, 'quantity', p.quantity, 'kind', p.kind,
+			                                    'valueText', p.value_text, 'value', p.value, 'unit', p.unit, 'tolerancePct', p.tolerance_pct, 'ratingV', p.rating_v,
+			                                    'ratingW', p.rating_w, 'package', p.package, 'notes', p.notes, 'designValueText', p.design_value_text,
+			                                    'designValue', p.design_value, 'substitutionReason', p.substitution_reason, 'deviationPct', p.deviation_pct,
+			                                    'checks', p.checks) order by p.position)
+			                             from part_line p where p.build_id = b.id), '[]'::jsonb)),
 			        b.published_at
 			 from build b where b.slug like 'lg-%' and b.status = 'published'`
 		);

@@ -30,7 +30,26 @@ export function findPgBin() {
 		bin = pick();
 		if (!bin) throw new Error('PostgreSQL install did not provide pg_ctl');
 	}
+	ensureRum(bin);
 	return bin;
+}
+
+/**
+ * The RUM index extension (Debian's postgresql-<version>-rum): search ranks inside the index with it
+ * (migration 0005). Installed with apt-get like PostgreSQL itself when its control file is missing.
+ */
+function ensureRum(bin) {
+	const version = path.basename(path.dirname(bin));
+	if (fs.existsSync(`/usr/share/postgresql/${version}/extension/rum.control`)) return;
+	const pkg = `postgresql-${version}-rum`;
+	if (!isRoot) throw new Error(`The RUM extension for PostgreSQL ${version} is not installed; run: sudo apt-get install -y ${pkg}`);
+	console.log(`• installing Debian ${pkg} (apt-get)…`);
+	const env = { ...process.env, DEBIAN_FRONTEND: 'noninteractive' };
+	const install = () => spawnSync('apt-get', ['install', '-y', pkg], { stdio: 'inherit', env }).status === 0;
+	if (!install()) {
+		execFileSync('apt-get', ['update'], { stdio: 'inherit' });
+		if (!install()) throw new Error(`apt-get could not install ${pkg}`);
+	}
 }
 
 function asPostgres(cmd, args, opts = {}) {

@@ -65,6 +65,16 @@ export function searchRank(tsquery: SQL): SQL<number> {
 	return sql<number>`ts_rank_cd(${schema.build.search}, ${tsquery}, 1)`;
 }
 
+/**
+ * Relevance as the RUM index orders it (migration 0005, `build_search_rum_idx`): `search <=> tsquery` is
+ * rum's distance, the inverse of its rank (weights A title > B summary > C steps and parts), smaller is
+ * more relevant. `ORDER BY` this, ascending, with a LIMIT reads only the best matches from the index
+ * instead of ranking every match.
+ */
+export function searchDistance(tsquery: SQL): SQL<number> {
+	return sql<number>`(${schema.build.search} <=> ${tsquery})`;
+}
+
 /** Private-use characters that mark a hit inside ts_headline output; they never reach a page. */
 const START = '\uE000';
 const STOP = '\uE001';

@@ -11,7 +11,7 @@ import * as schema from '../db/schema';
 import { db } from '../db';
 import type { DbLike } from '../db/tx';
 import { reviewLabelCondition } from '../reviews/state';
-import { searchQuery, searchRank } from '../search';
+import { searchDistance, searchQuery } from '../search';
 import type { BuildProgress, Category, Topology } from '$lib/schemas/build';
 import { LIST_LIMIT_DEFAULT, LIST_LIMIT_MAX, LIST_SORTS, type ListQuery, type ListSort, type ReviewFilter } from '$lib/schemas/list';
 import { isUuid } from '$lib/uuid';
@@ -145,7 +145,7 @@ export function selectBuildList(dbx: DbLike = db) {
 export type BuildListRow = Awaited<ReturnType<ReturnType<typeof selectBuildList>['execute']>>[number];
 
 /** Sort keys of one order, descending, before the id tie-breaker; `casts` turn cursor text back into values. */
-function sortSpec(sort: ListSort, search?: SQL): { keys: SQL[]; text: SQL[]; casts: string[] } {
+function sortSpec(sort: ListSort, search?: SQL): { keys: SQL[]; text: SQL[]; casts: string[]; order?: SQL[] } {
 	const b = schema.build;
 	const published = sql`${b.publishedAt}`;
 	switch (sort) {
@@ -161,8 +161,15 @@ function sortSpec(sort: ListSort, search?: SQL): { keys: SQL[]; text: SQL[]; cas
 		}
 		case 'relevance': {
 			if (!search) throw new RangeError('The relevance order needs a search text.');
-			const rank = searchRank(search);
-			return { keys: [rank, published], text: [sql`${rank}::text`, microTs(published)], casts: ['real', 'timestamp'] };
+			// Ranked inside the RUM index (../search searchDistance): ordered by distance ascending, which is
+			// its negation descending, so the keyset comparison stays all-descending like the other orders.
+			const distance = searchDistance(search);
+			return {
+				keys: [sql`(-${distance})`, published],
+				text: [sql`(-${distance})::text`, microTs(published)],
+				casts: ['real', 'timestamp'],
+				order: [sql`${distance}`, sql`${published} desc`]
+			};
 		}
 		default:
 			return { keys: [published], text: [microTs(published)], casts: ['timestamp'] };
@@ -195,7 +202,7 @@ export async function listPublishedBuilds(opts: ListOptions = {}, dbx: DbLike = 
 		.leftJoin(cover, eq(cover.id, schema.build.coverPhotoId))
 		.leftJoin(origin, eq(origin.id, schema.build.derivedFromId))
 		.where(and(...conds))
-		.orderBy(...spec.keys.map((k) => sql`${k} desc`), desc(schema.build.id))
+		.orderBy(...(spec.order ?? spec.keys.map((k) => sql`${k} desc`)), desc(schema.build.id))
 		.limit(limit + 1);
 	const more = rows.length > limit;
 	const page = more ? rows.slice(0, limit) : rows;

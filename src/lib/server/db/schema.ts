@@ -74,6 +74,8 @@ export const build = pgTable(
 		index('build_status_published_idx').on(t.status, t.publishedAt, t.id),
 		index('build_derived_from_idx').on(t.derivedFromId),
 		index('build_search_idx').using('gin', t.search),
+		// Relevance order inside the index (RUM extension, Debian postgresql-15-rum): see search.ts searchDistance.
+		index('build_search_rum_idx').using('rum', t.search.op('rum_tsvector_ops')),
 		// Keyset pagination of the "most derived" and "recently reviewed" orders (builds/list.ts sortSpec).
 		index('build_published_derived_idx')
 			.on(t.derivedCount.desc(), t.publishedAt.desc(), t.id.desc())

@@ -1,4 +1,5 @@
 import sharp, { type Metadata, type SharpOptions } from 'sharp';
+import pLimit from 'p-limit';
 import { and, eq, inArray, isNull, sql } from 'drizzle-orm';
 import { env } from '$env/dynamic/private';
 import { db, type Tx } from '../db';
@@ -33,8 +34,6 @@ export const ALT_MAX = 300;
 const CACHE_FOREVER = 'public, max-age=31536000, immutable';
 /** Longest side over shortest side; beyond it the renditions would pass WebP's 16383 px limit. */
 const MAX_ASPECT = 10;
-/** At most this many photos are decoded at once in this process (memory bound). */
-const MAX_CONCURRENT = 2;
 
 /** Upload limit in bytes from env, else 15 MiB. */
 export function photoMaxBytes(): number {
@@ -126,17 +125,36 @@ export interface ProcessedPhoto {
 	placeholder: string;
 }
 
-let running = 0;
-const waiting: (() => void)[] = [];
-async function withSlot<T>(fn: () => Promise<T>): Promise<T> {
-	if (running >= MAX_CONCURRENT) await new Promise<void>((resolve) => waiting.push(resolve));
-	running++;
-	try {
-		return await fn();
-	} finally {
-		running--;
-		waiting.shift()?.();
-	}
+/**
+ * At most one full-size decode per process at a time (p-limit): a 40-megapixel upload decodes to
+ * ~120 MB of pixels, so two at once would double the peak. Others wait their turn in order.
+ */
+const decodeLimit = pLimit(1);
+let decoding = 0;
+let decodePeak = 0;
+
+/** The most decodes that ever ran at once in this process since the last reset (for tests and the bench). */
+export function photoDecodePeak(reset = false): number {
+	const peak = decodePeak;
+	if (reset) decodePeak = decoding;
+	return peak;
+}
+
+/** How many uploads are waiting for the decode slot now. */
+export function photoDecodesWaiting(): number {
+	return decodeLimit.pendingCount;
+}
+
+function withSlot<T>(fn: () => Promise<T>): Promise<T> {
+	return decodeLimit(async () => {
+		decoding++;
+		decodePeak = Math.max(decodePeak, decoding);
+		try {
+			return await fn();
+		} finally {
+			decoding--;
+		}
+	});
 }
 
 /** Widths to make for an upright source `sourceWidth` px wide: the standard ones below it, plus the source width when it is narrower than the largest. */

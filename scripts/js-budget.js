@@ -1,0 +1,84 @@
+// JavaScript budget (a measurement, not a test): loads pages of a running Starground in Debian's
+// Chromium (@playwright/test's library, executablePath /usr/bin/chromium) and sums the JavaScript they
+// fetch over the network, each file gzip-compressed (zlib, level 9) as a server would send it. Targets
+// (issue 15): a reader's build page ≤ 60 KB, the same signed in as its maker ≤ 90 KB, home ≤ 45 KB,
+// a bench tool ≤ 50 KB.
+//
+//   node scripts/js-budget.js [--url http://127.0.0.1:3000] [--slug two-channel-chip-amp-split-supply]
+//                             [--maker joss@starground.test] [--list]
+//
+// Needs the demo seed (npm start seeds it): the maker's demo account signs in through the form.
+import os from 'node:os';
+import zlib from 'node:zlib';
+import { chromium } from '@playwright/test';
+import { DEMO_ACCOUNTS } from './lib/demo-accounts.js';
+
+const arg = (name, d) => {
+	const i = process.argv.indexOf(`--${name}`);
+	return i > 0 ? process.argv[i + 1] : d;
+};
+const base = arg('url', process.env.BENCH_URL ?? 'http://127.0.0.1:3000').replace(/\/$/, '');
+const slug = arg('slug', 'two-channel-chip-amp-split-supply');
+const makerEmail = arg('maker', 'joss@starground.test');
+const list = process.argv.includes('--list');
+
+const browser = await chromium.launch({
+	executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
+	args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run', '--disable-quic']
+});
+
+/** Load `path` in a fresh page of `context`; → { files, raw, gzip } of the JavaScript it fetched. */
+async function measure(context, path) {
+	const page = await context.newPage();
+	const seen = [];
+	page.on('response', (r) => {
+		const type = r.headers()['content-type'] ?? '';
+		if (r.request().resourceType() === 'script' || type.includes('javascript')) seen.push(r);
+	});
+	await page.goto(base + path, { waitUntil: 'networkidle' });
+	const files = [];
+	for (const r of seen) {
+		const body = await r.body().catch(() => Buffer.alloc(0));
+		files.push({ url: r.url().replace(base, ''), raw: body.length, gzip: zlib.gzipSync(body, { level: 9 }).length });
+	}
+	await page.close();
+	return { files, raw: files.reduce((s, f) => s + f.raw, 0), gzip: files.reduce((s, f) => s + f.gzip, 0) };
+}
+
+const kb = (n) => (n / 1024).toFixed(1);
+const rows = [];
+const anon = await browser.newContext();
+const targets = [
+	['home', '/', 45],
+	['build page, reader (not signed in)', `/builds/${slug}`, 60],
+	['bench tool (amplifier)', '/tools/amplifier', 50],
+	['browse', '/builds', null]
+];
+const detail = [];
+for (const [name, path, budget] of targets) {
+	const m = await measure(anon, path);
+	rows.push({ page: name, files: m.files.length, 'raw KB': kb(m.raw), 'gzip KB': kb(m.gzip), budget: budget ? `≤ ${budget}` : '', held: budget ? (m.gzip <= budget * 1024 ? 'yes' : 'NO') : '' });
+	detail.push([name, m.files]);
+}
+
+const own = await browser.newContext();
+const signIn = await own.newPage();
+await signIn.goto(`${base}/sign-in`);
+await signIn.getByLabel('E-mail').fill(makerEmail);
+await signIn.getByLabel('Password').fill(DEMO_ACCOUNTS.password);
+await signIn.getByRole('button', { name: 'Sign in' }).click();
+await signIn.getByRole('button', { name: 'Sign out' }).waitFor({ timeout: 15000 });
+await signIn.close();
+const m = await measure(own, `/builds/${slug}`);
+rows.push({ page: 'build page, signed in as its maker', files: m.files.length, 'raw KB': kb(m.raw), 'gzip KB': kb(m.gzip), budget: '≤ 90', held: m.gzip <= 90 * 1024 ? 'yes' : 'NO' });
+detail.push(['build page, maker', m.files]);
+await browser.close();
+
+console.log(`${base} — JavaScript fetched per page, each file gzip -9; load average ${os.loadavg().map((n) => n.toFixed(2)).join(', ')}`);
+console.table(rows);
+if (list) {
+	for (const [name, files] of detail) {
+		console.log(`\n${name}:`);
+		for (const f of [...files].sort((a, b) => b.gzip - a.gzip)) console.log(`  ${kb(f.gzip).padStart(6)} KB  ${f.url}`);
+	}
+}
