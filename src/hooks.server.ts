@@ -16,6 +16,8 @@ export const handle: Handle = sequence(handleUnavailable, handleSecurityHeaders,
 
 export const handleError: HandleServerError = ({ error, event, status, message }) => {
 	if (status === 404) return { message: 'Not found' };
+	// SvelteKit refuses a form action posted as anything but a form (say JSON) before the action runs.
+	if (status === 415) return { message: 'This form takes a form post (multipart/form-data or application/x-www-form-urlencoded) and nothing else.' };
 	const service = noteUnavailable(event, error);
 	if (service) {
 		console.error(`[unavailable] ${event.request.method} ${event.url.pathname}: ${service}`, (error as Error)?.message);

@@ -8,6 +8,7 @@ import { test, expect, request as playwrightRequest, type APIRequestContext, typ
 import sharp from 'sharp';
 import { DEMO_PASSWORD } from './helpers/auth';
 import { waitForMail, linkIn } from './helpers/mail';
+import { throwawayMember } from './helpers/members';
 import { origin, uniqueTitle, SUPPLY_FORM } from './helpers/builds';
 
 const ACTORS = ['anon', 'owner', 'other', 'reviewer', 'moderator', 'admin', 'suspended'] as const;
@@ -44,20 +45,6 @@ async function newContext(): Promise<APIRequestContext> {
 async function signIn(c: APIRequestContext, email: string, password = DEMO_PASSWORD) {
 	const res = await postForm(c, '/sign-in', { email, password });
 	expect(res.status(), `sign in ${email}`).toBe(303);
-}
-
-/** Sign up a throwaway maker through the form and the mailed link; the context ends up signed in. */
-async function throwawayMember(c: APIRequestContext, prefix: string) {
-	const stamp = `${Date.now().toString(36)}${Math.random().toString(36).slice(2, 5)}`;
-	const handle = `${prefix}${stamp}`.slice(0, 24);
-	const email = `${prefix}-${stamp}@example.test`;
-	const res = await postForm(c, '/sign-up', { name: `Matrix ${prefix} ${stamp}`, handle, email, password: 'matrix-password-1' });
-	expect(res.status(), `sign up ${email}`).toBe(303);
-	const mail = await waitForMail(email, /Confirm your e-mail/);
-	const verify = await c.get(linkIn(mail, '/api/auth/verify-email'), { maxRedirects: 0 });
-	expect(verify.status()).toBeLessThan(400);
-	await signIn(c, email, 'matrix-password-1');
-	return { handle, email };
 }
 
 /** A member's id, read from the members page as a moderator sees it. */

@@ -65,6 +65,33 @@ async function finishEarly(request: Request, response: Response, status: number,
 	return response;
 }
 
+/** "Too large" for an upload (a photo or a picture) whose limit is `maxBytes`. */
+export function uploadTooLarge(maxBytes: number, what = 'photo'): FieldError {
+	return new FieldError(413, 'too_large', `The ${what} is larger than the ${Math.round(maxBytes / (1024 * 1024))} MB limit. Export it smaller and try again.`);
+}
+
+/**
+ * The multipart form of an upload, with exactly one file under `field` (or none: the route says what is
+ * missing). A body adapter-node stopped reading at BODY_SIZE_LIMIT (sent without Content-Length) is
+ * "too large"; a broken or truncated body "arrived incomplete"; two files are refused.
+ */
+export async function readUploadForm(request: Request, field: string, maxBytes: number, what = 'photo'): Promise<FormData> {
+	if (!(request.headers.get('content-type') ?? '').startsWith('multipart/form-data')) {
+		throw new FieldError(415, 'invalid', `Send the ${what} as a form upload (multipart/form-data).`, '');
+	}
+	let form: FormData;
+	try {
+		form = await request.formData();
+	} catch (err) {
+		const tooLarge = (e: unknown): boolean =>
+			!!e && ((e as { status?: number }).status === 413 || /exceeds limit/i.test(String((e as Error).message ?? '')) || tooLarge((e as Error).cause));
+		if (tooLarge(err)) throw uploadTooLarge(maxBytes, what);
+		throw new FieldError(400, 'invalid', 'The upload arrived incomplete. Try again.', '');
+	}
+	if (form.getAll(field).length > 1) throw new FieldError(400, 'invalid', `Send one ${what} at a time.`, field);
+	return form;
+}
+
 /**
  * Who calls an upload route: a plain no-JS form (`html`: it wants a page back, at `back`) or a script
  * (JSON). A signed-out plain form is sent to sign-in first, with the way back.

@@ -1,24 +1,29 @@
 import { fail, redirect } from '@sveltejs/kit';
 import { requireUser } from '$lib/server/auth';
 import { removeAvatar, setAvatar } from '$lib/server/members';
-import { PhotoError } from '$lib/server/photos';
+import { FieldError, readUploadForm } from '$lib/server/http';
+import { photoMaxBytes } from '$lib/server/photos';
 import { consumeUpload, uploadLimitSentence } from '$lib/server/rate-limit';
 import type { Actions, PageServerLoad } from './$types';
 
-export const load: PageServerLoad = () => redirect(303, '/account');
+/** Nothing to show on its own; after a refused upload (a POST) this page says why. */
+export const load: PageServerLoad = ({ request }) => {
+	if (request.method !== 'POST') redirect(303, '/account');
+};
 
 export const actions: Actions = {
 	upload: async ({ request }) => {
 		const user = requireUser();
-		const data = await request.formData();
-		const file = data.get('avatar');
-		if (!(file instanceof File) || file.size === 0) return fail(400, { avatarError: 'Choose a picture to upload.' });
-		const budget = await consumeUpload(user.id);
-		if (!budget.ok) return fail(429, { avatarError: uploadLimitSentence(budget.retryAfterS) });
 		try {
+			const data = await readUploadForm(request, 'avatar', photoMaxBytes(), 'picture');
+			const file = data.get('avatar');
+			if (!(file instanceof File) || file.size === 0) return fail(400, { avatarError: 'Choose a picture to upload.' });
+			const budget = await consumeUpload(user.id);
+			if (!budget.ok) return fail(429, { avatarError: uploadLimitSentence(budget.retryAfterS) });
 			await setAvatar(user.id, new Uint8Array(await file.arrayBuffer()));
 		} catch (err) {
-			if (err instanceof PhotoError) return fail(err.status, { avatarError: err.message });
+			// PhotoError is a FieldError: a refusal the member can act on.
+			if (err instanceof FieldError) return fail(err.status, { avatarError: err.message });
 			throw err;
 		}
 		redirect(303, '/account?avatar=saved');

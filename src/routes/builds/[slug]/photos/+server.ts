@@ -1,7 +1,7 @@
 import { json, redirect } from '@sveltejs/kit';
 import type { RequestHandler } from './$types';
 import { requireEditableBuild } from '$lib/server/builds';
-import { uploadCaller, uploadRoute } from '$lib/server/http';
+import { readUploadForm, uploadCaller, uploadRoute, uploadTooLarge } from '$lib/server/http';
 import { consumeUpload, uploadLimitSentence } from '$lib/server/rate-limit';
 import { PhotoError, addBuildPhoto, checkAlt, photoMaxBytes, toPhotoView } from '$lib/server/photos';
 import { isUuid } from '$lib/uuid';
@@ -27,23 +27,9 @@ export const POST: RequestHandler = async (event) => {
 			const max = photoMaxBytes();
 			const declared = Number(request.headers.get('content-length') ?? 0);
 			if (declared > max + FORM_OVERHEAD) {
-				throw new PhotoError(413, 'too_large', `The photo is larger than the ${Math.round(max / (1024 * 1024))} MB limit. Export it smaller and try again.`);
+				throw uploadTooLarge(max);
 			}
-			if (!(request.headers.get('content-type') ?? '').startsWith('multipart/form-data')) {
-				throw new PhotoError(415, 'invalid', 'Send the photo as a form upload (multipart/form-data).', '');
-			}
-			let form: FormData;
-			try {
-				form = await request.formData();
-			} catch (err) {
-				// adapter-node stops reading at BODY_SIZE_LIMIT (a body sent without Content-Length): that is "too large".
-				const tooLarge = (e: unknown): boolean =>
-					!!e && ((e as { status?: number }).status === 413 || /exceeds limit/i.test(String((e as Error).message ?? '')) || tooLarge((e as Error).cause));
-				if (tooLarge(err)) {
-					throw new PhotoError(413, 'too_large', `The photo is larger than the ${Math.round(max / (1024 * 1024))} MB limit. Export it smaller and try again.`);
-				}
-				throw new PhotoError(400, 'invalid', 'The upload arrived incomplete. Try again.', '');
-			}
+			const form = await readUploadForm(request, 'file', max);
 
 			const purpose = form.get('purpose');
 			if (purpose !== 'cover' && purpose !== 'step') {
