@@ -36,7 +36,7 @@ export function findPgBin() {
 
 /**
  * The RUM index extension (Debian's postgresql-<version>-rum): search ranks inside the index with it
- * (migration 0005). Installed with apt-get like PostgreSQL itself when its control file is missing.
+ * (migration 0009). Installed with apt-get like PostgreSQL itself when its control file is missing.
  */
 function ensureRum(bin) {
 	const version = path.basename(path.dirname(bin));

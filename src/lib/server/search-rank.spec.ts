@@ -1,4 +1,4 @@
-// Ranked search inside the RUM index (migration 0005): results come most relevant first — title (weight
+// Ranked search inside the RUM index (migration 0009): results come most relevant first — title (weight
 // A) before summary (B) before steps and parts (C), as PostgreSQL's own ts_rank orders them — page by page
 // with the keyset cursor, highlighted, and the order is served by the index (no sort of every match).
 import { afterAll, describe, expect, it } from 'vitest';

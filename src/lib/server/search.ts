@@ -66,7 +66,7 @@ export function searchRank(tsquery: SQL): SQL<number> {
 }
 
 /**
- * Relevance as the RUM index orders it (migration 0005, `build_search_rum_idx`): `search <=> tsquery` is
+ * Relevance as the RUM index orders it (migration 0009, `build_search_rum_idx`): `search <=> tsquery` is
  * rum's distance, the inverse of its rank (weights A title > B summary > C steps and parts), smaller is
  * more relevant. `ORDER BY` this, ascending, with a LIMIT reads only the best matches from the index
  * instead of ranking every match.
