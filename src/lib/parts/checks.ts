@@ -135,3 +135,21 @@ export function partChecks(
 	}
 	return checks;
 }
+
+/**
+ * The cautions of a list said once: each distinct caution text with the lines it concerns (designators, else the
+ * kind), in list order. partsCautions([{ designators: 'C1', checks: [{ caution: 'X' }] }, { designators: 'C2', checks:
+ * [{ caution: 'X' }] }]) → [{ text: 'X', lines: ['C1', 'C2'] }].
+ */
+export function partsCautions(lines: readonly { designators: string; kind: string; checks?: readonly { caution?: string }[] | null }[]): { text: string; lines: string[] }[] {
+	const by = new Map<string, string[]>();
+	for (const l of lines)
+		for (const c of l.checks ?? []) {
+			if (!c.caution) continue;
+			const who = by.get(c.caution) ?? [];
+			const name = l.designators || l.kind;
+			if (!who.includes(name)) who.push(name);
+			by.set(c.caution, who);
+		}
+	return [...by].map(([text, who]) => ({ text, lines: who }));
+}

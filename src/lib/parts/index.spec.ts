@@ -13,6 +13,7 @@ import {
 	AmbiguousPlusError,
 	formatPartValue,
 	valueAsTyped,
+	partsCautions,
 	valueKindOf,
 	type PartLineDraft
 } from './index';
@@ -325,5 +326,17 @@ describe('formatPartValue and valueAsTyped: one display, 3 significant figures',
 		expect(valueAsTyped({ valueText: '10000u', value: 0.01, unit: 'F' })).toEqual({ typed: '10000u', si: '10.0 mF' });
 		expect(valueAsTyped({ valueText: '500 nF', value: 5e-7, unit: 'F' })).toEqual({ typed: '500 nF', si: null });
 		expect(valueAsTyped({ valueText: 'NPN power transistor', value: null, unit: null })).toEqual({ typed: 'NPN power transistor', si: null });
+	});
+});
+
+describe('partsCautions: a caution said once per list', () => {
+	it('names every line a shared caution concerns, once', () => {
+		// Two capacitors substituted below their design rating share the same stored-charge caution.
+		const a = normaliseLine(draft({ designators: 'C1', kind: 'capacitor', value: '100u', ratingV: '25', designValue: '100u/50V', reason: 'on hand' }), 1);
+		const b = normaliseLine(draft({ designators: 'C2', kind: 'capacitor', value: '100u', ratingV: '25', designValue: '100u/50V', reason: 'on hand' }), 2);
+		const r = partsCautions([a.line!, b.line!, { designators: 'R1', kind: 'resistor', checks: [] }]);
+		expect(r).toHaveLength(1);
+		expect(r[0].lines).toEqual(['C1', 'C2']);
+		expect(r[0].text).toMatch(/defer to local codes/);
 	});
 });

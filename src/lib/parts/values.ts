@@ -16,6 +16,7 @@
  */
 import { cleanNumber, networkValue, parseValue, type NetworkPart, type ValueKind, type ValueUnit } from '$lib/engineering';
 import { decodeCapacitorCode, decodeVoltageCodedMarking, expandCount } from '$lib/engineering/trade-notation';
+import { valueKindOf, type PartKind } from './kinds';
 
 const NETWORK_PART: Record<ValueKind, NetworkPart> = { resistance: 'resistor', capacitance: 'capacitor', inductance: 'inductor' };
 const UNIT_OF: Record<ValueKind, ValueUnit> = { resistance: 'ohm', capacitance: 'F', inductance: 'H' };
@@ -265,6 +266,42 @@ export function parsePartValue(text: string, kind: ValueKind): ParsedPartValue {
 		);
 	}
 	return { value, unit, parts, arrangement, ...extra, reading: networkReading(all, unit, arrangement, value) };
+}
+
+/** What GET /api/v1/parts/value answers: the value read for a part kind, its display and how it was read. */
+export interface PartValueReading {
+	kind: PartKind;
+	value: number;
+	unit: ValueUnit;
+	display: string;
+	parts: number;
+	arrangement?: 'series' | 'parallel' | 'mixed';
+	reading?: string;
+	ratingV?: number;
+	ratingAc?: boolean;
+	tolerancePct?: number;
+}
+
+/**
+ * Read a parts-list value for a part kind as the editor and the CSV import do. readPartValue('2×1u series', 'capacitor')
+ * → { value: 5e-7, display: '500 nF', reading: 'two 1.00 µF in series = 500 nF', … }. Throws RangeError (an
+ * AmbiguousPlusError for a bare "1u+1u") with a sentence; kinds without a value quantity (ic, hardware…) are refused.
+ */
+export function readPartValue(text: string, kind: PartKind): PartValueReading {
+	const vk = valueKindOf(kind);
+	if (!vk) throw new RangeError(`a ${kind} line keeps its value as text; only resistors, potentiometers, jumpers, capacitors and inductors have a value to read`);
+	const p = parsePartValue(text, vk);
+	return {
+		kind,
+		value: p.value,
+		unit: p.unit,
+		display: formatPartValue(p.value, p.unit),
+		parts: p.parts,
+		...(p.arrangement ? { arrangement: p.arrangement } : {}),
+		...(p.reading ? { reading: p.reading } : {}),
+		...(p.ratingV !== undefined ? { ratingV: p.ratingV, ratingAc: !!p.ratingAc } : {}),
+		...(p.tolerancePct !== undefined ? { tolerancePct: p.tolerancePct } : {})
+	};
 }
 
 /**

@@ -25,6 +25,7 @@ import { suggestQuery } from '$lib/schemas/search';
 import { SPEC_KINDS, specSchemas } from '$lib/specs';
 import { listQuerySchema } from '$lib/schemas/list';
 import { BUILD_PROGRESS } from '$lib/schemas/build';
+import { partValueQuery } from '$lib/schemas/parts';
 
 type Method = 'get' | 'post' | 'put' | 'patch' | 'delete';
 type JsonSchema = Record<string, unknown>;
@@ -107,6 +108,18 @@ const decodeOut = z.object({
 	taper: z.string().describe('Potentiometer taper letter as marked').optional(),
 	taperNote: z.string().optional(),
 	display: z.string().describe('3 significant figures with an engineering prefix: "4.7 kΩ"')
+});
+const partValueOut = z.object({
+	kind: z.string().describe('The part kind asked for'),
+	value: num('Value in SI units (Ω, F or H)'),
+	unit: z.enum(['ohm', 'F', 'H']),
+	display: z.string().describe('3 significant figures with an engineering prefix: "4.70 kΩ"'),
+	parts: z.number().int().describe('How many parts make it up (1 for a single part)'),
+	arrangement: z.enum(['series', 'parallel', 'mixed']).optional(),
+	reading: z.string().describe('The reading as a sentence: "two 1.00 µF in series = 500 nF", or how bare digits were read').optional(),
+	ratingV: num('Voltage rating written after the value, V').optional(),
+	ratingAc: z.boolean().describe('The rating is AC ("275 V AC", X/Y capacitors)').optional(),
+	tolerancePct: num('Tolerance written with the value, %').optional()
 });
 const bandsOut = z.union([
 	z.object({ bands: z.array(z.string()).describe('Colour names, first band first') }),
@@ -396,6 +409,17 @@ export const OPERATIONS: Operation[] = [
 	{ method: 'post', path: '/api/v1/tools/gain', tag: 'Bench tools', summary: 'Non-inverting gain from Rf and Ri', body: gainToolInput, response: gainOut, errors: [400, 422] },
 	{ method: 'post', path: '/api/v1/tools/corner', tag: 'Bench tools', summary: 'First-order RC corner frequency', body: cornerToolInput, response: cornerOut, errors: [400, 422] },
 	{ method: 'post', path: '/api/v1/tools/network', tag: 'Bench tools', summary: 'Series or parallel combination of 2 to 50 parts', body: networkToolInput, response: networkOut, errors: [400, 422] },
+	{
+		method: 'get',
+		path: '/api/v1/parts/value',
+		tag: 'Bench tools',
+		summary: 'Read a parts-list value for a part kind, as the parts editor does',
+		description:
+			'Trade notation per kind: RKM and SI prefixes, networks ("2×1u series", "10k||10k"), ratings ("100n 275VAC"), bare 3-digit codes ("104"). A bare "+" between capacitors ("1u+1u") is ambiguous: 422 with a sentence naming both "2×1u series" and "1u||1u".',
+		query: partValueQuery,
+		response: partValueOut,
+		errors: [400, 422]
+	},
 	{ method: 'get', path: '/api/v1/tools/decode', tag: 'Bench tools', summary: 'Read a component marking (RKM, 3/4-digit codes, potentiometers)', query: decodeQuery, response: decodeOut, errors: [400, 422], cached: true },
 	{
 		method: 'get',

@@ -10,7 +10,7 @@ import { db, type Tx } from '../db';
 import { inTx, type DbLike } from '../db/tx';
 import type { Actor } from '../actor';
 import { afterContentChange, assertCanEdit, lockBuild } from '../builds';
-import { lineToDraft, normaliseLines, type LineError, type NormalisedPartLine, type PartLineDraft } from '$lib/parts';
+import { channelsOf, lineToDraft, normaliseLines, type LineError, type NormalisedPartLine, type PartLineDraft } from '$lib/parts';
 import { railFromBlocks, refreshBuildChecks } from './checks';
 import { previewPartsCsv, type ImportPreview } from './preview';
 
@@ -36,6 +36,11 @@ async function blocksFor(dbx: DbLike, buildId: string) {
 /** The rail the build's parts checks use (see railFromBlocks), V or null. */
 export async function buildRailV(buildId: string, dbx: DbLike = db): Promise<number | null> {
 	return railFromBlocks(await blocksFor(dbx, buildId));
+}
+
+/** The build's channel count for per-channel quantities (channelsOf: the amplifier block's channels, else 1). */
+export async function buildChannels(buildId: string, dbx: DbLike = db): Promise<number> {
+	return channelsOf(await blocksFor(dbx, buildId));
 }
 
 /** True when every field of a draft is blank (an empty editor row), so it is skipped rather than refused. */

@@ -1,7 +1,7 @@
 import { fail } from '@sveltejs/kit';
 import { requireEditableBuild } from '$lib/server/builds';
 import { attempt } from '$lib/server/http';
-import { CSV_MAX_BYTES, buildRailV, editorRowsOf, importPartsCsv, listPartLines, previewPartsCsv, readPartsCsv, savePartsList } from '$lib/server/parts';
+import { CSV_MAX_BYTES, buildChannels, buildRailV, editorRowsOf, importPartsCsv, listPartLines, previewPartsCsv, readPartsCsv, savePartsList } from '$lib/server/parts';
 import { DRAFT_FIELDS, PARTS_LIMITS, emptyDraft, type PartLineDraft } from '$lib/parts';
 import { isUuid } from '$lib/uuid';
 import type { Actions, PageServerLoad } from './$types';
@@ -13,7 +13,8 @@ export const load: PageServerLoad = async ({ params }) => {
 		build: { id: build.id, slug: build.slug, title: build.title, status: build.status, mainsPowered: build.mainsPowered },
 		lines,
 		...editorRowsOf(lines),
-		railV: await buildRailV(build.id)
+		railV: await buildRailV(build.id),
+		channels: await buildChannels(build.id)
 	};
 };
 
