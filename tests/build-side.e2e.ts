@@ -63,7 +63,7 @@ test('/welcome after confirming the mail: signed in, or it says plainly how to s
 	await expect(p2).toHaveURL(/\/welcome/);
 	await expect(p2.locator('[data-welcome]')).toHaveAttribute('data-welcome', 'signed-out');
 	await expect(p2.getByText('sign in with the e-mail address and the password you chose')).toBeVisible();
-	await p2.locator('[data-welcome]').getByRole('link', { name: 'Sign in' }).click();
+	await p2.locator('[data-welcome]').getByRole('link', { name: 'Go to sign-in' }).click();
 	await p2.getByLabel('E-mail').fill(email);
 	await p2.getByLabel('Password').fill('solder-and-flux-1');
 	await p2.getByRole('button', { name: 'Sign in' }).click();
@@ -74,6 +74,6 @@ test('/welcome after confirming the mail: signed in, or it says plainly how to s
 	await p3.goto(link.replace(/token=[^&]+/, 'token=cut-short'));
 	await expect(p3.locator('[data-welcome]')).toHaveAttribute('data-welcome', 'invalid');
 	await expect(p3.getByRole('heading', { name: 'That confirmation link cannot be used' })).toBeVisible();
-	await expect(p3.locator('[data-welcome]').getByRole('link', { name: 'Sign in' })).toBeVisible();
+	await expect(p3.locator('[data-welcome]').getByRole('link', { name: 'Go to sign-in' })).toBeVisible();
 	await other.close();
 });
