@@ -147,11 +147,13 @@ test('a reader opens the bench sheet of a build and downloads it as a PDF', asyn
 	await page.locator('[data-sheet-link]').click();
 	await expect(page.locator('[data-bench-sheet]')).toBeVisible();
 	await expect(page.getByRole('heading', { name: 'Bring-up: write in what you measure' })).toBeVisible();
-	await expect(page.locator('[data-sheet-boxes]')).toContainText('Positive rail');
+	// The demo chip amp's bring-up block expects ±28 V rails.
+	await expect(page.locator('[data-sheet-boxes]')).toContainText('+28 V');
+	await expect(page.locator('[data-sheet-boxes]')).toContainText('DC offset, channel 2 (no speaker)');
 	await expect(page.getByRole('heading', { name: 'Parts, grouped for kitting' })).toBeVisible();
 	// Printing drops the site's header; the sheet stays.
 	await page.emulateMedia({ media: 'print' });
-	await expect(page.locator('body > div header').first()).toBeHidden();
+	await expect(page.locator('body header').first()).toBeHidden();
 	await expect(page.locator('[data-bench-sheet] h1')).toBeVisible();
 	await page.emulateMedia({ media: 'screen' });
 	const [download] = await Promise.all([page.waitForEvent('download'), page.locator('[data-sheet-pdf]').click()]);
