@@ -141,3 +141,26 @@ test('a member keeps notes on the bench and gets one shopping list for two build
 	// Every row names the builds it is for.
 	expect(text).toContain('Two-channel chip amp on a split supply: ');
 });
+
+test('a reader opens the bench sheet of a build and downloads it as a PDF', async ({ page }) => {
+	await page.goto('/builds/two-channel-chip-amp-split-supply');
+	await page.locator('[data-sheet-link]').click();
+	await expect(page.locator('[data-bench-sheet]')).toBeVisible();
+	await expect(page.getByRole('heading', { name: 'Bring-up: write in what you measure' })).toBeVisible();
+	// The demo chip amp's bring-up block expects ±28 V rails.
+	await expect(page.locator('[data-sheet-boxes]')).toContainText('+28 V');
+	await expect(page.locator('[data-sheet-boxes]')).toContainText('DC offset, channel 2 (no speaker)');
+	await expect(page.getByRole('heading', { name: 'Parts, grouped for kitting' })).toBeVisible();
+	// Printing drops the site's header; the sheet stays.
+	await page.emulateMedia({ media: 'print' });
+	await expect(page.locator('body header').first()).toBeHidden();
+	await expect(page.locator('[data-bench-sheet] h1')).toBeVisible();
+	await page.emulateMedia({ media: 'screen' });
+	const [download] = await Promise.all([page.waitForEvent('download'), page.locator('[data-sheet-pdf]').click()]);
+	expect(download.suggestedFilename()).toBe('two-channel-chip-amp-split-supply-bench-sheet.pdf');
+	const path = await download.path();
+	const { readFile } = await import('node:fs/promises');
+	const bytes = await readFile(path);
+	expect(bytes.subarray(0, 5).toString('latin1')).toBe('%PDF-');
+	expect(bytes.length).toBeGreaterThan(5000);
+});
