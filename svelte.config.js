@@ -13,8 +13,10 @@ const config = {
 		// Pages load scripts, styles, fonts and images from this site only; images may also be data:
 		// URIs (placeholders). Markdown images from other hosts are dropped by the sanitizer and would be
 		// blocked here too, so readers' addresses never reach outsiders.
+		// Hash mode: inline scripts are allowed by their hash, so a page's HTML is the same for every
+		// request and the reader cache can serve it again (a nonce must never be reused).
 		csp: {
-			mode: 'auto',
+			mode: 'hash',
 			directives: {
 				'default-src': ['self'],
 				'script-src': ['self'],

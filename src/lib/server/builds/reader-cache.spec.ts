@@ -200,6 +200,44 @@ describe('anonymous reader cache', () => {
 		expect(pending.body).not.toContain('PENDING');
 	});
 
+	it('serves the rendered page again for the same version only, never to a signed-in member', async () => {
+		const b = await publishedBuild();
+		await updateStep(maker, b.stepId, { title: 'Wire the rails', bodyMd: 'PENDING-SECRET four.' });
+		// The maker renders first: nothing of it is kept for readers.
+		const own = await request(b.slug, maker);
+		expect(own.body).toContain('PENDING-SECRET');
+		const first = await request(b.slug, null);
+		expect(first.rendered).toBe(1);
+		expect(first.body).not.toContain('PENDING');
+		const second = await request(b.slug, null);
+		expect(second.rendered).toBe(0);
+		expect(second.body).toBe(first.body);
+		expect(second.response.headers.get('etag')).toBe(first.response.headers.get('etag'));
+		expect((await request(b.slug, maker)).rendered).toBe(1);
+		// Another instance hides the build's only comment… or here: locks it. The next reader gets a new render.
+		await db.execute(sql`update build set locked = true where id = ${b.id}`);
+		const third = await request(b.slug, null);
+		expect(third.rendered).toBe(1);
+		expect(third.body).toContain('"locked":true');
+	});
+
+	it('a page carrying a CSP nonce is never kept', async () => {
+		const b = await publishedBuild();
+		const url = new URL(`${ORIGIN}/builds/${b.slug}`);
+		let rendered = 0;
+		const once = () =>
+			handleReaderCache({
+				event: { request: new Request(url), url, locals: { user: null, session: null }, isDataRequest: false } as unknown as RequestEvent,
+				resolve: async () => {
+					rendered++;
+					return new Response('<script nonce="abc">x</script>', { status: 200, headers: { 'content-type': 'text/html' } });
+				}
+			} as never);
+		await once();
+		await once();
+		expect(rendered).toBe(2);
+	});
+
 	it('a member renamed by another instance shows under the new name', async () => {
 		const b = await publishedBuild();
 		const before = await page(b.slug, null);

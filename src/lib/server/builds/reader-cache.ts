@@ -41,6 +41,24 @@ function readerCache(): LRUCache<string, PageData, Compute> {
 	return cache;
 }
 
+/** A rendered anonymous page: its bytes and headers as first sent. */
+interface CachedPage {
+	body: Uint8Array;
+	headers: [string, string][];
+}
+
+let pages: LRUCache<string, CachedPage> | null = null;
+
+/** Rendered anonymous pages by ETag (which names app version, origin, build and view version): `READER_PAGES_MB`, 32 MB. */
+function pageCache(): LRUCache<string, CachedPage> {
+	pages ??= new LRUCache<string, CachedPage>({
+		max: positive(env.READER_CACHE_MAX, 2000),
+		maxSize: positive(env.READER_PAGES_MB, 32) * 1024 * 1024,
+		sizeCalculation: (p) => Math.max(1, p.body.byteLength)
+	});
+	return pages;
+}
+
 /** The cache key of what an anonymous reader sees of `b`. */
 export function readerKey(b: Pick<Build, 'id' | 'viewVersion'>): string {
 	return `${b.id}:${b.viewVersion}`;
@@ -64,6 +82,7 @@ export async function cachedReaderData<T extends PageData>(b: Pick<Build, 'id' |
 /** Drop everything (tests; never needed for correctness). */
 export function clearReaderCache(): void {
 	cache?.clear();
+	pages?.clear();
 }
 
 /** How many entries and bytes the cache holds (for the bench script and tests). */
@@ -82,8 +101,9 @@ export const READER_CACHE_CONTROL = 'no-cache';
 
 /**
  * For an anonymous GET of a build page: read the build row (with its view version) once, answer 304 when
- * the browser holds this version (If-None-Match, or If-Modified-Since when no ETag was sent), otherwise
- * let the page render (its load takes the row from `locals.readerBuild`) and label the answer.
+ * the browser holds this version (If-None-Match, or If-Modified-Since when no ETag was sent), serve the
+ * page rendered for this version when this process has it, otherwise let the page render (its load takes
+ * the row from `locals.readerBuild`), label the answer and keep it.
  */
 export const handleReaderCache: Handle = async ({ event, resolve }) => {
 	const m = event.request.method === 'GET' && !event.isDataRequest && !event.locals.user && !event.url.search ? BUILD_PAGE.exec(event.url.pathname) : null;
@@ -110,8 +130,14 @@ export const handleReaderCache: Handle = async ({ event, resolve }) => {
 	if (inm ? etagMatches(inm, etag) : Number.isFinite(ims) && ims >= changed) {
 		return new Response(null, { status: 304, headers: labels });
 	}
+	const hit = pageCache().get(etag);
+	if (hit) return new Response(hit.body.slice(), { status: 200, headers: hit.headers });
 	const response = await resolve(event);
 	if (response.status !== 200 || response.headers.has('set-cookie')) return response;
 	for (const [k, v] of Object.entries(labels)) response.headers.set(k, v);
-	return response;
+	if (!(response.headers.get('content-type') ?? '').startsWith('text/html')) return response;
+	const body = new Uint8Array(await response.arrayBuffer());
+	// A page with a per-request CSP nonce must never be served twice (kit.csp is in hash mode: none).
+	if (!new TextDecoder().decode(body).includes(' nonce=')) pageCache().set(etag, { body, headers: [...response.headers] });
+	return new Response(body, { status: 200, headers: response.headers });
 };
