@@ -23,10 +23,10 @@ describe('bench sheet', () => {
 			['Capacitor', 4],
 			['IC', 1]
 		]);
-		// 0R22 = 0.22 Ω (IEC 60062 RKM code) sorts before 22 kΩ.
+		// 0R22 = 0.22 Ω (IEC 60062 RKM code) sorts before 22 kΩ; values read to three significant figures, the one rounding of every display.
 		expect(kits[0].lines.map((l) => [l.value, l.rating])).toEqual([
 			['220 mΩ', '5 W'],
-			['22 kΩ', '±1 %']
+			['22.0 kΩ', '±1 %']
 		]);
 		expect(kits[1].lines[0].rating).toBe('63 V');
 	});

@@ -27,7 +27,7 @@ describe('combineShopping', () => {
 		]);
 		const quarterWatt = rows.find((r) => r.valueSI === 4700 && r.ratingW === 0.25)!;
 		expect(quarterWatt.quantity).toBe(5);
-		expect(quarterWatt.value).toBe('4.7 kΩ');
+		expect(quarterWatt.value).toBe('4.70 kΩ');
 		expect(quarterWatt.packages).toEqual(['axial']);
 		expect(quarterWatt.uses).toEqual([
 			{ build: 'Amp', designators: 'R1, R2', quantity: 2 },
@@ -65,6 +65,6 @@ describe('shopping CSV (RFC 4180, checked with papaparse as an independent reade
 		const parsed = Papa.parse<string[]>(csv.trimEnd(), { newline: '\r\n' });
 		expect(parsed.errors).toEqual([]);
 		expect(parsed.data[0]).toEqual(['kind', 'value', 'value_si', 'unit', 'rating_v', 'rating_w', 'quantity', 'packages', 'used_in']);
-		expect(parsed.data[1]).toEqual(['resistor', '4.7 kΩ', '4700', 'ohm', '', '', '2', "'+axial", 'Amp, "v2": =SUM(A1)']);
+		expect(parsed.data[1]).toEqual(['resistor', '4.70 kΩ', '4700', 'ohm', '', '', '2', "'+axial", 'Amp, "v2": =SUM(A1)']);
 	});
 });

@@ -58,7 +58,7 @@ describe('bench sheet PDF', () => {
 		// 0R22 (IEC 60062 RKM) printed as 220 mΩ, 4u7 as 4.7 µF (the formatter writes the Greek mu): Ω and µ come
 		// through the embedded font.
 		expect(all).toContain('220 mΩ');
-		expect(all).toMatch(/4\.7 [µμ]F/);
+		expect(all).toMatch(/4\.70 [µμ]F/);
 		expect(all).toMatch(/Resistor \(2\)/);
 		expect(all).toMatch(/Capacitor \(1\)/);
 		expect(all).toContain('TO-220');
