@@ -95,6 +95,20 @@ test('filter the desk to mains + DANGER, claim, review with photo and checklist,
 	for (const label of ['Protective-earth continuity', 'Fuse in the live conductor', 'Mains wiring insulated', 'Creepage and clearance', 'Reservoir capacitors discharge']) {
 		await checklist.getByLabel(new RegExp(label)).check();
 	}
+	// Tagging and clearing a hazard meanwhile keeps what was typed and ticked.
+	const heatsink = maren.locator('[data-review-target="step"]').filter({ hasText: 'Heatsink and mounting' });
+	await heatsink.getByText(/Tag a hazard on step 2/).click();
+	await heatsink.getByLabel('What kind of hazard').selectOption('heat');
+	await heatsink.getByLabel('Look again').check();
+	await heatsink.getByLabel(/^Note/).fill('Check the tab insulation with a meter before power-up.');
+	await heatsink.getByRole('button', { name: 'Tag the hazard' }).click();
+	await expect(heatsink.locator('[data-flag]')).toHaveCount(1);
+	await heatsink.getByText('Clear the tag…').click();
+	await heatsink.getByLabel(/^Note on clearing/).fill('Advice only; nothing to fix.');
+	await heatsink.getByRole('button', { name: 'Clear the tag' }).click();
+	await expect(heatsink.locator('[data-flag-state="resolved"]')).toHaveCount(1);
+	await expect(maren.getByLabel(/^Summary/)).toHaveValue('Inlet wiring, earth bond and fuse checked from the photo and the steps.');
+	await expect(checklist.locator('input:checked')).toHaveCount(5);
 	await maren.getByRole('button', { name: /Record the review of Rev A/ }).click();
 	await expect(maren.getByRole('alert')).toContainText('1 of 6 checklist items are not ticked');
 	await maren.getByLabel(/^Why items are left unticked/).fill('No heatsink on this board: the chip runs from the case floor, checked separately.');

@@ -215,6 +215,9 @@ describe('claims: "I\'m reviewing this"', () => {
 		expect((await getDeskEntry(b.id))?.note).toBe('Please look at the earth bond in step 1.');
 
 		await expect(claimRequest(maker2, b.id)).rejects.toMatchObject({ status: 403 });
+		// Another maker's draft does not exist for a reviewer: 404, not a tell-tale 409.
+		const [draft] = await insertBuilds(maker.id, [{ status: 'draft' }]);
+		await expect(claimRequest(reviewer, draft.id)).rejects.toMatchObject({ status: 404 });
 		await expect(claimRequest(maker, b.id)).rejects.toMatchObject({ status: 403 });
 		expect(await claimRequest(reviewer, b.id)).toBe('claimed');
 		expect(await claimRequest(reviewer, b.id)).toBe('renewed');

@@ -15,6 +15,7 @@ import { env } from '$env/dynamic/private';
 import * as schema from '../db/schema';
 import { db } from '../db';
 import type { Actor } from '../actor';
+import { assertCanView } from '../builds/access';
 import { roleAtLeast } from '$lib/roles';
 import type { Verdict } from '$lib/reviews';
 import { CATEGORIES } from '$lib/schemas/build';
@@ -303,6 +304,7 @@ export async function claimRequest(actor: Actor, buildId: string, now = new Date
 		.from(schema.build)
 		.where(eq(schema.build.id, buildId));
 	if (!b) error(404, 'Not found');
+	assertCanView(actor, b);
 	if (b.ownerId === actor.id) error(403, 'A maker can never review their own build.');
 	if (b.status !== 'published') error(409, 'Only published builds can be reviewed.');
 	const before = await db.select({ by: rr.claimedById, at: rr.claimedAt }).from(rr).where(eq(rr.buildId, buildId));

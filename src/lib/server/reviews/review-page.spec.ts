@@ -62,6 +62,9 @@ describe('mains checklist with the verdict', () => {
 		const b = await createPublishedBuild(maker);
 		await submitReview(reviewer, b.id, { verdict: 'rework', summary: 'Fuse is in the neutral; move it.', checklist: ['pe-continuity'] }, { notify: false });
 		expect((await getReviewPanel(b.id, null)).reviews[0].checklist.filter((c) => c.ticked).map((c) => c.key)).toEqual(['pe-continuity']);
+		// A send-back with nothing ticked stores no checklist (nothing to show on the build page).
+		await submitReview(reviewer2, b.id, { verdict: 'rework', summary: 'Agree: the fuse goes in the live.' }, { notify: false });
+		expect((await getReviewPanel(b.id, null)).reviews[0].checklist).toEqual([]);
 
 		const low = await createPublishedBuild(maker);
 		await db.update(schema.build).set({ mainsPowered: false }).where(eq(schema.build.id, low.id));

@@ -79,7 +79,8 @@ export async function submitReview(
 				);
 			}
 		}
-		const checklist = b.mainsPowered ? checklistFromTicked(data.checklist) : [];
+		// A sign-off of a mains build always carries the checklist; a send-back only when something was ticked.
+		const checklist = b.mainsPowered && (data.verdict === 'safe' || data.checklist.length) ? checklistFromTicked(data.checklist) : [];
 		const unticked = checklist.filter((c) => !c.ticked).length;
 		if (data.verdict === 'safe' && unticked > 0 && checklistNote.length < 10) {
 			error(

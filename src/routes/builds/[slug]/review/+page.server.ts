@@ -23,7 +23,9 @@ export const load: PageServerLoad = async ({ params }) => {
 	const [content, panel, form, desk, since] = await Promise.all([
 		loadBuildContent(b),
 		getReviewPanel(b.id, user),
-		superValidate(zod4(reviewSchema)),
+		// An id of its own per page load: tagging or clearing a hazard reloads the page data, and a form with the
+		// same id would replace what the reviewer has typed and ticked so far (superforms rebinds on reload).
+		superValidate(zod4(reviewSchema), { id: `verdict-${crypto.randomUUID()}` }),
 		getDeskEntry(b.id),
 		changesSinceVerdict(b.id, b.revision)
 	]);
