@@ -7,6 +7,7 @@
 import { KIND_LABELS, flatten, inReadingOrder, labelOf, showValue } from '$lib/components/specs/display';
 import { PART_KIND_LABELS, PART_KINDS, type PartKind } from '$lib/parts/kinds';
 import { formatPartValue } from '$lib/parts/values';
+import type { PartLineFields } from '$lib/parts/lines';
 import { MAINS_BUILD_CAUTION, NOT_A_CERTIFICATION } from '$lib/labels';
 import { revisionLabel } from '$lib/revision-label';
 
@@ -18,19 +19,8 @@ export interface SheetBlock {
 	checks: { id?: string; level: string; message: string; caution?: string }[];
 }
 
-export interface SheetPart {
-	designators: string;
-	quantity: number;
-	kind: string;
-	valueText: string;
-	value: number | null;
-	unit: string | null;
-	tolerancePct: number | null;
-	ratingV: number | null;
-	ratingW: number | null;
-	package: string;
-	notes: string;
-}
+/** The fields of a parts line the sheet reads. */
+export type SheetPart = Pick<PartLineFields, 'designators' | 'quantity' | 'kind' | 'valueText' | 'value' | 'unit' | 'tolerancePct' | 'ratingV' | 'ratingW' | 'package' | 'notes'>;
 
 export interface SheetInput {
 	title: string;

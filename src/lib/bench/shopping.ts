@@ -6,19 +6,10 @@
  */
 import { formatPartValue } from '$lib/parts/values';
 import { PART_KIND_LABELS, PART_KINDS, type PartKind } from '$lib/parts/kinds';
+import type { PartLineFields } from '$lib/parts/lines';
 
 /** The fields of a parts line the list reads. */
-export interface ShoppingLine {
-	kind: string;
-	quantity: number;
-	valueText: string;
-	value: number | null;
-	unit: string | null;
-	ratingV: number | null;
-	ratingW: number | null;
-	package: string;
-	designators: string;
-}
+export type ShoppingLine = Pick<PartLineFields, 'kind' | 'quantity' | 'valueText' | 'value' | 'unit' | 'ratingV' | 'ratingW' | 'package' | 'designators'>;
 
 export interface ShoppingRow {
 	key: string;

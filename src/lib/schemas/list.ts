@@ -88,6 +88,9 @@ const FIND_FIELDS = {
 /** The query-string keys of the find fields, in the order forms show them. */
 export const FIND_KEYS = ['railMinV', 'railMaxV', 'loadOhm', 'powerMinW', 'powerMaxW', 'partKind', 'partValue', 'partPackage'] as const;
 
+/** The find fields as a form shows them (text, '' or absent when not given). */
+export type FindFilterValues = Partial<Record<(typeof FIND_KEYS)[number], string>>;
+
 /** Filters of the find fields as the list query takes them: numbers checked, the part value read in SI. */
 export interface FindQuery {
 	railMinV?: number;

@@ -1,22 +1,12 @@
 /** Chips for the "by the numbers" filters in force (browse page): text, and the keys its × link drops. */
 import { PART_KIND_LABELS, type PartKind } from '$lib/parts/kinds';
-
-interface FindValues {
-	railMinV?: string;
-	railMaxV?: string;
-	loadOhm?: string;
-	powerMinW?: string;
-	powerMaxW?: string;
-	partKind?: string;
-	partValue?: string;
-	partPackage?: string;
-}
+import type { FindFilterValues } from '$lib/schemas/list';
 
 const range = (lo: string | undefined, hi: string | undefined, unit: string, pre = '') =>
 	lo && hi ? `${pre}${lo}–${hi} ${unit}` : lo ? `${pre}${lo} ${unit} or more` : `up to ${pre}${hi} ${unit}`;
 
 /** findChips({ railMinV: '25', railMaxV: '35', loadOhm: '4' }) → [{ key: 'railMinV,railMaxV', text: 'Rails ±25–35 V' }, { key: 'loadOhm', text: 'Into 4 Ω' }]. */
-export function findChips(f: FindValues): { key: string; text: string }[] {
+export function findChips(f: FindFilterValues): { key: string; text: string }[] {
 	const out: { key: string; text: string }[] = [];
 	if (f.railMinV || f.railMaxV) out.push({ key: 'railMinV,railMaxV', text: `Rails ${range(f.railMinV, f.railMaxV, 'V', '±')}` });
 	if (f.loadOhm) out.push({ key: 'loadOhm', text: `Into ${f.loadOhm} Ω` });
