@@ -254,7 +254,8 @@ export function parseValue(text: string, as: ValueAs = 'auto'): ParsedValue {
 	return out;
 }
 
-const PREFIXES: ReadonlyArray<readonly [number, string]> = [
+/** Engineering prefixes by power of ten (also read by $lib/parts formatPartValue). */
+export const PREFIXES: ReadonlyArray<readonly [number, string]> = [
 	[-15, 'f'],
 	[-12, 'p'],
 	[-9, 'n'],

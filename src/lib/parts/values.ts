@@ -15,6 +15,7 @@
  * - a resistor position bridged by a wire: kind "jumper", or value `0R`, `0`, `link`, `jumper`.
  */
 import { cleanNumber, networkValue, parseValue, type NetworkPart, type ValueKind, type ValueUnit } from '$lib/engineering';
+import { PREFIXES } from '$lib/engineering/values';
 import { decodeCapacitorCode, decodeVoltageCodedMarking, expandCount } from '$lib/engineering/trade-notation';
 import { valueKindOf, type PartKind } from './kinds';
 
@@ -329,18 +330,6 @@ export function formatDeviation(deviation: number): string {
 	return `${sign}${abs.toFixed(digits)} %`;
 }
 
-const SI_PREFIXES: readonly [number, string][] = [
-	[-15, 'f'],
-	[-12, 'p'],
-	[-9, 'n'],
-	[-6, 'µ'],
-	[-3, 'm'],
-	[0, ''],
-	[3, 'k'],
-	[6, 'M'],
-	[9, 'G']
-];
-
 /**
  * THE display of a part value (Ω, F, H) wherever parts are shown: an engineering prefix and `digits` significant
  * figures, trailing zeros kept (3 unless a field says otherwise), µ as U+00B5, Ω as U+03A9, one space.
@@ -352,8 +341,8 @@ export function formatPartValue(value: number | null | undefined, unit: string |
 	const symbol = unit === 'ohm' ? 'Ω' : unit;
 	if (value === 0) return `0 ${symbol}`;
 	const rounded = Number(Math.abs(value).toPrecision(digits));
-	const exp3 = Math.min(9, Math.max(-15, Math.floor(Math.floor(Math.log10(rounded) + 1e-9) / 3) * 3));
-	const prefix = SI_PREFIXES.find(([e]) => e === exp3)![1];
+	const exp3 = Math.min(12, Math.max(-15, Math.floor(Math.floor(Math.log10(rounded) + 1e-9) / 3) * 3));
+	const prefix = PREFIXES.find(([e]) => e === exp3)![1];
 	const mantissa = (rounded / 10 ** exp3).toPrecision(digits);
 	// toPrecision may fall back to exponent form for mantissas ≥ 10^digits (e.g. 1000 GΩ): keep it plain.
 	const plain = mantissa.includes('e') ? String(Number(mantissa)) : mantissa;

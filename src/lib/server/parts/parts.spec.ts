@@ -9,7 +9,7 @@ import { AMP, SUPPLY, statusOf, testBuild } from '../testing/parts';
 import { setBuildLocked } from '../moderation';
 import { deleteSpecBlock, saveSpecBlock } from '../specs';
 import { editorRowsOf, importPartsCsv, listPartLines, partsToCsv, savePartsList } from './index';
-import { pendingChanges } from '../builds';
+import { pendingChanges, publishRevision } from '../builds';
 import { emptyDraft, type PartLineDraft } from '$lib/parts';
 import { GET as getPartsCsv } from '../../../routes/api/v1/builds/[slug]/parts.csv/+server';
 
@@ -309,12 +309,19 @@ describe('GET /api/v1/builds/:slug/parts.csv', () => {
 		}
 	});
 
-	it('serves a published build’s list to everyone, and 404 for an unknown slug', async () => {
+	it('serves a published build’s list to everyone as published; pending changes only to its maker; 404 for an unknown slug', async () => {
 		const b = await testBuild(maker.id, { published: true });
 		await savePartsList(maker, b.id, LIST);
+		await publishRevision(maker, b.id, 'parts list');
 		const r = await call(b.slug, null);
 		expect(r.status).toBe(200);
 		expect(await r.text()).toContain('"R1, R2",2,resistor,4k7');
+		// A change not yet published: readers keep the published list, the maker sees the change.
+		await savePartsList(maker, b.id, [{ ...LIST[0], value: '10k' }, LIST[1], LIST[2]]);
+		const reader = await (await call(b.slug, other)).text();
+		expect(reader).toContain('"R1, R2",2,resistor,4k7');
+		expect(reader).not.toContain(',10k,');
+		expect(await (await call(b.slug, maker)).text()).toContain('"R1, R2",2,resistor,10k');
 		expect((await call('no-such-build-anywhere', null)).status).toBe(404);
 	});
 });
