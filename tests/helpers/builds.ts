@@ -26,6 +26,21 @@ export const SUPPLY_FORM = {
 	bleeder: 'none'
 };
 
+/** One parts-list row as the parts editor posts it (a 22k resistor R1; no substitution). */
+export const PART_ROW = {
+	designators: 'R1',
+	quantity: '1',
+	kind: 'resistor',
+	value: '22k',
+	tolerance: '',
+	ratingV: '',
+	ratingW: '',
+	package: '',
+	notes: '',
+	designValue: '',
+	reason: ''
+};
+
 /** POST a form action as a browser form would (urlencoded, Accept text/html, same Origin); no redirect following. */
 export async function postForm(request: APIRequestContext, path: string, form: Record<string, string>) {
 	return request.post(path, {
