@@ -118,26 +118,27 @@ try {
 		console.log('• building the app for end-to-end tests…');
 		const b = spawnSync('npx', ['vite', 'build'], { cwd: root, stdio: ['ignore', 'ignore', 'inherit'], env: { ...process.env, ...testEnv } });
 		if (b.status !== 0) throw new Error('vite build failed');
+		// Many tests share one client address and a few demo members: lift the budgets that would
+		// otherwise run out (each limit has its own test against the defaults).
+		const appEnv = {
+			NODE_ENV: 'production',
+			SEED_DEMO: 'true',
+			AUTH_SIGNIN_MAX: '1000',
+			AUTH_SIGNUP_PER_HOUR: '1000',
+			AUTH_RESET_PER_HOUR: '1000',
+			API_WRITE_LIMIT: '5000',
+			COMMENT_RATE_PER_MIN: '1000',
+			COMMENT_RATE_PER_HOUR: '100000',
+			// Keep idle connections open longer than the test clients do, so a client never reuses a
+			// socket the server is just closing (ECONNRESET under load); adapter-node's default is 5 s.
+			KEEP_ALIVE_TIMEOUT: '65'
+		};
+		// The fault suite starts a second instance of the app the same way (two instances on one database).
+		testEnv.STARGROUND_TEST_APP_ENV = JSON.stringify(appEnv);
 		app = spawn(process.execPath, ['build'], {
 			cwd: root,
 			stdio: ['ignore', fs.openSync(path.join(dataRoot, 'app.log'), 'a'), fs.openSync(path.join(dataRoot, 'app.log'), 'a')],
-			// Many tests share one client address and a few demo members: lift the budgets that would
-			// otherwise run out (each limit has its own test against the defaults).
-			env: {
-				...process.env,
-				...testEnv,
-				NODE_ENV: 'production',
-				SEED_DEMO: 'true',
-				AUTH_SIGNIN_MAX: '1000',
-				AUTH_SIGNUP_PER_HOUR: '1000',
-				AUTH_RESET_PER_HOUR: '1000',
-				API_WRITE_LIMIT: '5000',
-				COMMENT_RATE_PER_MIN: '1000',
-				COMMENT_RATE_PER_HOUR: '100000',
-				// Keep idle connections open longer than the test clients do, so a client never reuses a
-				// socket the server is just closing (ECONNRESET under load); adapter-node's default is 5 s.
-				KEEP_ALIVE_TIMEOUT: '65'
-			}
+			env: { ...process.env, ...testEnv, ...appEnv }
 		});
 		await waitFor(`${testEnv.ORIGIN}/`, 240_000);
 		console.log('• Playwright: end-to-end tests in Debian Chromium');

@@ -9,7 +9,7 @@ import sharp from 'sharp';
 import { DEMO_PASSWORD } from './helpers/auth';
 import { waitForMail, linkIn } from './helpers/mail';
 import { throwawayMember } from './helpers/members';
-import { origin, uniqueTitle, SUPPLY_FORM } from './helpers/builds';
+import { origin, uniqueTitle, SUPPLY_FORM, PART_ROW } from './helpers/builds';
 
 const ACTORS = ['anon', 'owner', 'other', 'reviewer', 'moderator', 'admin', 'suspended'] as const;
 type Actor = (typeof ACTORS)[number];
@@ -207,20 +207,7 @@ const cases: Case[] = [
 	{
 		name: 'save parts list (edit/parts?/save)',
 		allowed: OWNER_ADMIN,
-		run: (a) =>
-			postForm(ctx[a], `/builds/${B.slug}/edit/parts?/save`, {
-				designators: 'R1',
-				quantity: '1',
-				kind: 'resistor',
-				value: '22k',
-				tolerance: '',
-				ratingV: '',
-				ratingW: '',
-				package: '',
-				notes: '',
-				designValue: '',
-				reason: ''
-			})
+		run: (a) => postForm(ctx[a], `/builds/${B.slug}/edit/parts?/save`, PART_ROW)
 	},
 	{
 		name: 'save spec block (edit/specs?/save)',
@@ -559,19 +546,6 @@ const cases: Case[] = [
 
 // ---- fixtures for the cases above (made lazily, once or per allowed actor) ------------------------------
 
-const PART_ROW = {
-	designators: 'R1',
-	quantity: '1',
-	kind: 'resistor',
-	value: '22k',
-	tolerance: '',
-	ratingV: '',
-	ratingW: '',
-	package: '',
-	notes: '',
-	designValue: '',
-	reason: ''
-};
 const PARTS_CSV = 'designators,quantity,kind,value\r\nR1,1,resistor,22k\r\nC1,1,capacitor,100n\r\n';
 
 /** Ids of the build's steps in page order, as its maker's editor lists them. */
@@ -700,4 +674,178 @@ test('the matrix as a table', async () => {
 	];
 	console.log(lines.join('\n'));
 	expect(Object.keys(results)).toHaveLength(cases.length);
+});
+
+// ---- reads: who sees what, on builds in every state ------------------------------------------------------
+//
+// Builds have three states (draft, published, archived); a moderator can also lock one (there is no
+// hidden state for builds: moderators hide comments, and lock builds). Each fixture is started from one
+// published "Crossover" build of the owner (so the compare page applies), has a cover photo and a parts
+// list, and — unless a draft — two revisions. Expected, from the rules in builds/access.ts: a build and
+// everything read from it (page, API, revisions, diff, compare, parts CSV, photos) is seen by everyone
+// unless it is a draft, which only its maker and admins see; lists and feeds carry published builds only
+// (locked ones included), for everyone; "My builds" lists a maker's own builds in every state.
+
+const STATES = ['draft', 'published', 'locked', 'archived'] as const;
+type State = (typeof STATES)[number];
+const readFixtures = {} as Record<State, { slug: string; photoId: string }>;
+let readBase = '';
+
+async function readFixture(state: State): Promise<{ slug: string; photoId: string }> {
+	if (!readBase) {
+		// Category "crossover" keeps the fixtures near the top of their category's feed while other tests publish.
+		const res = await postForm(ctx.owner, '/builds/new', {
+			title: uniqueTitle('Matrix read base'),
+			summary: 'Authorization matrix fixture.',
+			category: 'crossover',
+			topology: 'passive',
+			licence: 'CC-BY-SA-4.0'
+		});
+		expect(res.status()).toBe(303);
+		readBase = res.headers()['location'].split('/')[2];
+		expect((await postForm(ctx.owner, `/builds/${readBase}/edit?/addStep`, { title: 'Crossover board', bodyMd: 'Passive parts only.' })).status()).toBe(200);
+		expect([200, 303]).toContain((await postForm(ctx.owner, `/builds/${readBase}/edit?/publish`, {})).status());
+	}
+	const d = await postForm(ctx.owner, `/builds/${readBase}?/derive`, {});
+	expect(d.status(), 'derive').toBe(303);
+	const slug = new URL(d.headers()['location'], origin()).pathname.split('/')[2];
+	expect((await postForm(ctx.owner, `/builds/${slug}/edit?/addStep`, { title: 'First revision', bodyMd: 'Rev A.' })).status()).toBe(200);
+	const photoId = await freshPhoto(slug);
+	const parts = await postForm(ctx.owner, `/builds/${slug}/edit/parts?/save`, PART_ROW);
+	expect(parts.status(), 'parts list').toBe(200);
+	if (state !== 'draft') {
+		expect([200, 303]).toContain((await postForm(ctx.owner, `/builds/${slug}/edit?/publish`, {})).status());
+		expect((await postForm(ctx.owner, `/builds/${slug}/edit?/addStep`, { title: 'Second revision', bodyMd: 'Changed after Rev A.' })).status()).toBe(200);
+		const rev = await postForm(ctx.owner, `/builds/${slug}/edit?/publishChanges`, { note: 'Added the second step.' });
+		expect(rev.status(), 'publish Rev B').toBe(200);
+	}
+	if (state === 'locked') expect((await postForm(ctx.admin, `/builds/${slug}?/lock`, { locked: 'true', reason: 'Matrix: locked fixture' })).status()).toBe(200);
+	if (state === 'archived') expect([200, 303]).toContain((await postForm(ctx.owner, `/builds/${slug}/edit?/archive`, {})).status());
+	return { slug, photoId };
+}
+
+interface Read {
+	name: string;
+	/** 'item': the answer is the build (allow = 2xx, deny = 401/403/404); 'list': whether the build is listed. */
+	kind: 'item' | 'list';
+	/** Not meaningful for this state (no revisions on a draft). */
+	skip?: State[];
+	url: (f: { slug: string; photoId: string }) => string;
+}
+
+const READS: Read[] = [
+	{ name: 'build page', kind: 'item', url: (f) => `/builds/${f.slug}` },
+	{ name: 'API build detail', kind: 'item', url: (f) => `/api/v1/builds/${f.slug}` },
+	{ name: 'API comments', kind: 'item', url: (f) => `/api/v1/builds/${f.slug}/comments` },
+	{ name: 'revisions', kind: 'item', skip: ['draft'], url: (f) => `/builds/${f.slug}/revisions` },
+	{ name: 'revision 1', kind: 'item', skip: ['draft'], url: (f) => `/builds/${f.slug}/revisions/1` },
+	{ name: 'diff Rev A → Rev B', kind: 'item', skip: ['draft'], url: (f) => `/builds/${f.slug}/revisions/diff?from=1&to=2` },
+	{ name: 'compare with its origin', kind: 'item', url: (f) => `/builds/${f.slug}/compare` },
+	{ name: 'parts CSV', kind: 'item', url: (f) => `/api/v1/builds/${f.slug}/parts.csv` },
+	{ name: 'cover photo (/media)', kind: 'item', url: (f) => `/media/photos/${f.photoId}/320.webp` },
+	{ name: 'API list', kind: 'list', url: () => `/api/v1/builds?category=crossover&sort=recent&limit=50` },
+	{ name: 'site feed', kind: 'list', url: () => `/feed.xml` },
+	{ name: 'category feed', kind: 'list', url: () => `/categories/crossover/feed.xml` },
+	{ name: 'My builds', kind: 'list', url: () => `/my-builds` }
+];
+
+function expectedRead(r: Read, state: State, a: Actor): Outcome {
+	if (r.name === 'My builds') return a === 'owner' ? 'allow' : 'deny';
+	if (r.kind === 'list') return state === 'published' || state === 'locked' ? 'allow' : 'deny';
+	return state !== 'draft' || a === 'owner' || a === 'admin' ? 'allow' : 'deny';
+}
+
+test('reads: build page, API, revisions, diff, compare, CSV, photos, lists, feeds and My builds × actors × build states', async () => {
+	test.setTimeout(300_000);
+	for (const s of STATES) readFixtures[s] = await readFixture(s);
+	const got: string[] = [];
+	const want: string[] = [];
+	const lines: string[] = [];
+	for (const s of STATES) {
+		const f = readFixtures[s];
+		for (const r of READS) {
+			if (r.skip?.includes(s)) continue;
+			const row: string[] = [];
+			for (const a of ACTORS) {
+				const res = await ctx[a].get(r.url(f), { headers: { accept: r.url(f).startsWith('/api/') ? 'application/json' : 'text/html' }, maxRedirects: 0 });
+				let outcome: Outcome;
+				if (r.kind === 'list') {
+					const st = res.status();
+					// The exact slug (derived builds' slugs start with their origin's).
+					const listed = st === 200 && new RegExp(`/builds/${f.slug}(?![\\w-])`).test(await res.text());
+					outcome = st >= 500 ? `other ${st}` : listed ? 'allow' : 'deny';
+				} else outcome = classify(res);
+				const exp = expectedRead(r, s, a);
+				got.push(`${s} · ${r.name} · ${a}: ${outcome}`);
+				want.push(`${s} · ${r.name} · ${a}: ${exp}`);
+				row.push(outcome.padEnd(10));
+			}
+			lines.push(`${`${s} · ${r.name}`.padEnd(40)}${row.join('')}`);
+		}
+	}
+	console.log([`${'read'.padEnd(40)}${ACTORS.map((a) => a.padEnd(10)).join('')}`, ...lines].join('\n'));
+	expect(got).toEqual(want);
+});
+
+test('reads: a hidden comment is gone for readers, its author and the maker; moderators and admins still see it', async () => {
+	const slug = readFixtures.published?.slug ?? (await readFixture('published')).slug;
+	const id = await postComment(ctx.other, slug, `Matrix comment to hide for reads ${Date.now()}`);
+	expect((await postForm(ctx.admin, '/moderation?/hideComment', { commentId: id, reason: 'Matrix: hidden for the read matrix' })).status()).toBe(200);
+	const seen = {} as Record<Actor, boolean>;
+	for (const a of ACTORS) {
+		const res = await ctx[a].get(`/api/v1/builds/${slug}/comments`, { headers: { accept: 'application/json' } });
+		seen[a] = res.status() === 200 && (await res.text()).includes(id);
+	}
+	expect(seen).toEqual({ anon: false, owner: false, other: false, reviewer: false, moderator: true, admin: true, suspended: false });
+});
+
+// ---- role escalation ------------------------------------------------------------------------------------
+
+test('role escalation: a moderator cannot appoint moderators or admins or change their own role; members cannot change roles at all', async () => {
+	const sql = (await import('postgres')).default(process.env.DATABASE_URL!, { max: 1 });
+	try {
+		const roleOf = async (id: string) => (await sql<{ role: string }[]>`select role from "user" where id = ${id}`)[0].role;
+		const moderatorId = (await sql<{ id: string }[]>`select id from "user" where email = 'tomas@starground.test'`)[0].id;
+		const otherId = ids.other.id;
+		const attempts: [Actor, string, Record<string, string>][] = [
+			['moderator', '/admin/members?/setRole', { userId: otherId, role: 'moderator', reason: 'Matrix: escalate' }],
+			['moderator', '/admin/members?/setRole', { userId: otherId, role: 'admin', reason: 'Matrix: escalate' }],
+			['moderator', '/admin/members?/setRole', { userId: moderatorId, role: 'admin', reason: 'Matrix: escalate myself' }],
+			['moderator', '/admin/members?/setRole', { userId: moderatorId, role: 'maker', reason: 'Matrix: change myself' }],
+			['moderator', '/moderation?/setReviewer', { userId: otherId, role: 'moderator', reason: 'Matrix: escalate' }],
+			['moderator', '/moderation?/setReviewer', { userId: otherId, role: 'admin', reason: 'Matrix: escalate' }],
+			['moderator', '/moderation?/setReviewer', { userId: moderatorId, role: 'admin', reason: 'Matrix: escalate myself' }],
+			['other', '/admin/members?/setRole', { userId: otherId, role: 'admin', reason: 'Matrix: escalate myself' }],
+			['other', '/admin/members?/setRole', { userId: otherId, role: 'reviewer', reason: 'Matrix: escalate myself' }],
+			['other', '/moderation?/setReviewer', { userId: otherId, role: 'reviewer', reason: 'Matrix: escalate myself' }],
+			['reviewer', '/admin/members?/setRole', { userId: otherId, role: 'moderator', reason: 'Matrix: escalate' }],
+			['other', '/account', { name: 'Matrix escalation', role: 'admin' }]
+		];
+		for (const [a, path, form] of attempts) {
+			const res = await postForm(ctx[a], path, form);
+			const label = `${a} ${path} ${form.role} for ${form.userId === moderatorId ? 'themself (moderator)' : 'the other maker'}`;
+			expect(res.status(), label).toBeLessThan(500);
+			// Refused: a denial, or a 4xx for a role that form does not offer at all.
+			if (path !== '/account') expect(classify(res) === 'deny' || res.status() >= 400, `${label}: ${res.status()}`).toBe(true);
+		}
+		// The auth library's own endpoints for roles and profiles do not take a role either.
+		for (const [path, data] of [
+			['/api/auth/admin/set-role', { userId: otherId, role: 'admin' }],
+			['/api/auth/update-user', { role: 'admin' }],
+			['/api/auth/admin/update-user', { userId: otherId, data: { role: 'admin' } }]
+		] as const) {
+			const res = await ctx.other.post(path, { data, headers: { origin: origin(), 'content-type': 'application/json' } });
+			expect(res.status(), path).toBeGreaterThanOrEqual(400);
+			expect(res.status(), path).toBeLessThan(500);
+		}
+		expect(await roleOf(otherId)).toBe('maker');
+		expect(await roleOf(moderatorId)).toBe('moderator');
+		// The rule is not "nobody may": an admin may appoint a moderator (and undo it).
+		expect((await postForm(ctx.admin, '/admin/members?/setRole', { userId: otherId, role: 'moderator', reason: 'Matrix: admin appoints' })).status()).toBe(200);
+		expect(await roleOf(otherId)).toBe('moderator');
+		expect((await postForm(ctx.admin, '/admin/members?/setRole', { userId: otherId, role: 'maker', reason: 'Matrix: admin undoes' })).status()).toBe(200);
+		expect(await roleOf(otherId)).toBe('maker');
+	} finally {
+		await sql.end();
+	}
 });

@@ -404,3 +404,168 @@ test.describe('control characters at every entry point (12a)', () => {
 		await c.dispose();
 	});
 });
+
+// ---- limits, bodies without a length, and control characters in headers ----------------------------------
+
+/** The cookies of a signed-in context as one Cookie header. */
+async function cookieHeader(c: APIRequestContext): Promise<string> {
+	return (await c.storageState()).cookies.map((k) => `${k.name}=${k.value}`).join('; ');
+}
+
+/**
+ * POST `total` bytes to `path` with Transfer-Encoding: chunked (no Content-Length), `head` first; stop
+ * sending as soon as the server answers. → status and body of the answer.
+ */
+async function chunkedPost(path: string, headers: Record<string, string>, head: Buffer, total: number): Promise<{ status: number; body: string }> {
+	const http = await import('node:http');
+	return new Promise((resolve, reject) => {
+		let answered = false;
+		const req = http.request(new URL(path, origin()), { method: 'POST', headers: { ...headers, 'transfer-encoding': 'chunked' } });
+		req.on('response', (res) => {
+			answered = true;
+			const parts: Buffer[] = [];
+			res.on('data', (d: Buffer) => parts.push(d));
+			res.on('end', () => resolve({ status: res.statusCode ?? 0, body: Buffer.concat(parts).toString('utf8') }));
+			res.on('error', reject);
+		});
+		req.on('error', (e) => {
+			if (!answered) reject(e);
+		});
+		const chunk = Buffer.alloc(64 * 1024, 0x41);
+		let sent = 0;
+		const pump = () => {
+			if (sent === 0) req.write(head);
+			while (!answered && sent < total) {
+				sent += chunk.length;
+				if (!req.write(chunk)) return void req.once('drain', pump);
+			}
+			req.end();
+		};
+		pump();
+	});
+}
+
+test.describe('uploads and bodies (hole 6, hole 15)', () => {
+	test('the per-member upload limit: the 121st upload in an hour gets 429 with a sentence, on both routes; another member is not affected', async () => {
+		test.setTimeout(120_000);
+		const { throwawayMember, postPage } = await import('./helpers/members');
+		const c = await playwrightRequest.newContext({ baseURL: origin() });
+		await throwawayMember(c, 'lim');
+		const made = await postPage(c, '/builds/new', { title: uniqueTitle('Upload limit'), summary: 'Counting uploads.', category: 'power-amp', topology: 'class-ab-chip', licence: 'CC-BY-SA-4.0' });
+		const slug = made.headers()['location'].split('/')[2];
+		// Every upload counts, also a refused one (the budget guards the work of reading and decoding).
+		const empty = () => c.post(`/builds/${slug}/photos`, { multipart: { purpose: 'cover', alt: 'Nothing' }, headers: { origin: origin(), accept: 'application/json' } });
+		const budget = 120; // UPLOAD_LIMIT is not set for npm test: the default
+		for (let i = 0; i < budget; i++) expect((await empty()).status(), `upload ${i + 1}`).toBe(400);
+		const over = await empty();
+		expect(over.status()).toBe(429);
+		expect(((await over.json()) as { error: { message: string } }).error.message).toMatch(/^You have uploaded the most pictures we take in an hour\. Try again in \d+ minutes?\.$/);
+		const sharp = (await import('sharp')).default;
+		const jpeg = await sharp({ create: { width: 64, height: 48, channels: 3, background: '#336699' } }).jpeg().toBuffer();
+		const avatar = await c.post('/account/avatar?/upload', { multipart: { avatar: { name: 'me.jpg', mimeType: 'image/jpeg', buffer: jpeg } }, headers: { origin: origin(), accept: 'text/html' }, maxRedirects: 0 });
+		expect(avatar.status()).toBe(429);
+		expect(await avatar.text()).toContain('You have uploaded the most pictures we take in an hour.');
+		const other = await playwrightRequest.newContext({ baseURL: origin() });
+		await throwawayMember(other, 'lim2');
+		const ok = await other.post('/account/avatar?/upload', { multipart: { avatar: { name: 'me.jpg', mimeType: 'image/jpeg', buffer: jpeg } }, headers: { origin: origin(), accept: 'text/html' }, maxRedirects: 0 });
+		expect(ok.status()).toBe(303);
+		await c.dispose();
+		await other.dispose();
+	});
+
+	test('a body over the cap sent without Content-Length (chunked) is "too large", never "incomplete" or a reset', async () => {
+		test.setTimeout(120_000);
+		const c = await signedIn('joss@starground.test');
+		const cookie = await cookieHeader(c);
+		const made = await c.post('/builds/new', {
+			form: { title: uniqueTitle('Chunked'), summary: 'Bodies without a length.', category: 'power-amp', topology: 'class-ab-chip', licence: 'CC-BY-SA-4.0' },
+			headers: formHeaders(),
+			maxRedirects: 0
+		});
+		const slug = made.headers()['location'].split('/')[2];
+		// A photo upload past adapter-node's BODY_SIZE_LIMIT (16 MB in npm test).
+		const boundary = 'chunkedboundary';
+		const head = Buffer.from(
+			`--${boundary}\r\nContent-Disposition: form-data; name="purpose"\r\n\r\ncover\r\n--${boundary}\r\nContent-Disposition: form-data; name="alt"\r\n\r\nBig\r\n` +
+				`--${boundary}\r\nContent-Disposition: form-data; name="file"; filename="big.jpg"\r\nContent-Type: image/jpeg\r\n\r\n\xff\xd8\xff\xe0`,
+			'latin1'
+		);
+		const photo = await chunkedPost(`/builds/${slug}/photos`, { origin: origin(), accept: 'application/json', cookie, 'content-type': `multipart/form-data; boundary=${boundary}` }, head, 18 * 1024 * 1024);
+		expect(photo.status, photo.body.slice(0, 300)).toBe(413);
+		expect(JSON.parse(photo.body)).toMatchObject({ error: { code: 'too_large', message: expect.stringMatching(/larger than the \d+ MB limit/) } });
+		// The same for the picture form (a page with the sentence).
+		const avatarHead = Buffer.from(`--${boundary}\r\nContent-Disposition: form-data; name="avatar"; filename="big.jpg"\r\nContent-Type: image/jpeg\r\n\r\n\xff\xd8\xff\xe0`, 'latin1');
+		const avatar = await chunkedPost('/account/avatar?/upload', { origin: origin(), accept: 'text/html', cookie, 'content-type': `multipart/form-data; boundary=${boundary}` }, avatarHead, 18 * 1024 * 1024);
+		expect(avatar.status).toBe(413);
+		expect(avatar.body).toMatch(/The picture is larger than the \d+ MB limit/);
+		// A JSON API write over 64 KB and a page form over 256 KB, both without a length.
+		const api = await chunkedPost('/api/v1/reports', { origin: origin(), cookie, 'content-type': 'application/json' }, Buffer.from('{"reason":"'), 200 * 1024);
+		expect(api.status).toBe(413);
+		expect(JSON.parse(api.body)).toMatchObject({ error: { code: 'too_large' } });
+		const form = await chunkedPost('/builds/new', { origin: origin(), cookie, accept: 'text/html', 'content-type': 'application/x-www-form-urlencoded' }, Buffer.from('title=x&summary='), 600 * 1024);
+		expect(form.status).toBe(413);
+		expect(form.body).toMatch(/too large/);
+		await c.dispose();
+	});
+});
+
+test.describe('control characters in request headers (12a)', () => {
+	/** One raw HTTP/1.1 request with exactly these header bytes; → the status code (0 when the connection closed without one). */
+	async function raw(method: string, path: string, headers: [string, string][], body = ''): Promise<number> {
+		const net = await import('node:net');
+		const u = new URL(origin());
+		return new Promise((resolve) => {
+			const sock = net.connect({ host: u.hostname, port: Number(u.port) });
+			let got = '';
+			sock.setTimeout(15_000, () => sock.destroy());
+			sock.on('data', (d) => {
+				got += d.toString('latin1');
+				const m = got.match(/^HTTP\/1\.1 (\d{3})/);
+				if (m) {
+					resolve(Number(m[1]));
+					sock.destroy();
+				}
+			});
+			sock.on('close', () => resolve(Number(got.match(/^HTTP\/1\.1 (\d{3})/)?.[1] ?? 0)));
+			sock.on('error', () => undefined);
+			const lines = [`${method} ${path} HTTP/1.1`, `Host: ${u.host}`, ...headers.map(([k, v]) => `${k}: ${v}`), `Content-Length: ${Buffer.byteLength(body, 'latin1')}`, 'Connection: close', '', body];
+			sock.write(Buffer.from(lines.join('\r\n'), 'latin1'));
+		});
+	}
+
+	test('NUL, other C0 controls, DEL and a bare CR in the headers the app reads: never a 500', async () => {
+		test.setTimeout(180_000);
+		const c = await signedIn('ravi@starground.test');
+		const cookie = await cookieHeader(c);
+		const list = (await (await c.get('/api/v1/builds?limit=1')).json()) as { items: { slug: string; cover?: { url: string } }[] };
+		const slug = list.items[0].slug;
+		const media = list.items[0].cover?.url ?? '/media/photos/none/320.webp';
+		const bad = ['\u0000', '\u0001', '\u0008', '\u000b', '\u001f', '\u007f', '\r', 'caf\u00e9\u0000x'];
+		const HEADERS = ['User-Agent', 'X-Forwarded-For', 'X-Real-IP', 'Accept-Language', 'Idempotency-Key', 'Referer', 'If-None-Match', 'Accept', 'Cookie', 'Origin'];
+		const statuses: string[] = [];
+		for (const h of HEADERS) {
+			for (const ch of bad) {
+				const v = `a${ch}b`;
+				const cookieFor = h === 'Cookie' ? `${cookie}; x=${v}` : cookie;
+				const base: [string, string][] = [['Cookie', cookieFor]];
+				const withH = (extra: [string, string][]) => [...base.filter(([k]) => k !== h), ...extra.filter(([k]) => k !== h), ...(h === 'Cookie' ? [] : [[h, v] as [string, string]])];
+				const probes: [string, string, [string, string][], string][] = [
+					['GET', '/', withH([]), ''],
+					['GET', `/builds/${slug}`, withH([]), ''],
+					['GET', media, withH([]), ''],
+					['GET', '/api/v1/builds?limit=1', withH([['Accept', 'application/json']]), ''],
+					['POST', '/sign-in', withH([['Origin', origin()], ['Content-Type', 'application/x-www-form-urlencoded'], ['Accept', 'text/html']]), 'email=nobody-header-probe%40example.test&password=wrong-password-xyz'],
+					['POST', `/api/v1/builds/${slug}/comments`, withH([['Origin', origin()], ['Content-Type', 'application/json']]), JSON.stringify({ body: '' })]
+				];
+				for (const [m, p, hs, body] of probes) {
+					const s = await raw(m, p, hs, body);
+					statuses.push(`${s} ${m} ${p.slice(0, 30)} ${h}=${JSON.stringify(v)}`);
+				}
+			}
+		}
+		const fiveHundreds = statuses.filter((s) => /^(5\d\d|0) /.test(s));
+		console.log(`header probes: ${statuses.length}; statuses: ${[...new Set(statuses.map((s) => s.slice(0, 3)))].join(', ')}`);
+		expect(fiveHundreds).toEqual([]);
+		await c.dispose();
+	});
+});

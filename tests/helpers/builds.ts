@@ -8,6 +8,21 @@ export const origin = () => process.env.ORIGIN ?? 'http://127.0.0.1:3100';
 /** The spec editor's form fields for a valid mains supply block (fused, earthed metal chassis): one fixture set with the unit tests. */
 export const SUPPLY_FORM: Record<string, string> = { ...SUPPLY_FORM_FIXTURE };
 
+/** One parts-list row as the parts editor posts it (a 22k resistor R1; no substitution). */
+export const PART_ROW = {
+	designators: 'R1',
+	quantity: '1',
+	kind: 'resistor',
+	value: '22k',
+	tolerance: '',
+	ratingV: '',
+	ratingW: '',
+	package: '',
+	notes: '',
+	designValue: '',
+	reason: ''
+};
+
 /** POST a form action as a browser form would (urlencoded, Accept text/html, same Origin); no redirect following. */
 export async function postForm(request: APIRequestContext, path: string, form: Record<string, string>) {
 	return request.post(path, {

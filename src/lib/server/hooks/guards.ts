@@ -66,6 +66,32 @@ async function measured(request: Request, cap: number): Promise<number> {
 	return total;
 }
 
+/**
+ * A refused body is read and thrown away (up to this many bytes) before the answer goes out: a server
+ * that closes a connection with request bytes still unread resets it, and the client loses the 413.
+ */
+const DISCARD_MAX = 16 * 1024 * 1024;
+
+/** Read and discard the rest of `request`'s body; false when it ran past `limit` (then the connection closes). */
+async function discardBody(request: Request, limit: number): Promise<boolean> {
+	const reader = request.body?.getReader();
+	if (!reader) return true;
+	let total = 0;
+	try {
+		for (;;) {
+			const { done, value } = await reader.read();
+			if (done) return true;
+			total += value.byteLength;
+			if (total > limit) {
+				void reader.cancel().catch(() => undefined);
+				return false;
+			}
+		}
+	} catch {
+		return false;
+	}
+}
+
 export const handleRequestGuards: Handle = async ({ event, resolve }) => {
 	const { request, url } = event;
 	const method = request.method;
@@ -90,7 +116,12 @@ export const handleRequestGuards: Handle = async ({ event, resolve }) => {
 	const cap = bodyCapFor(url.pathname);
 	if (cap !== null && hasBody) {
 		const size = declared !== null ? Number(declared) : await measured(request, cap);
-		if (!Number.isFinite(size) || size > cap) return tooLarge(api, cap);
+		if (!Number.isFinite(size) || size > cap) {
+			const response = tooLarge(api, cap);
+			if (size <= DISCARD_MAX && (await discardBody(request, DISCARD_MAX))) response.headers.delete('connection');
+			else response.headers.set('connection', 'close');
+			return response;
+		}
 	}
 	return resolve(event);
 };
