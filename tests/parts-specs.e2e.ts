@@ -22,6 +22,19 @@ async function fillAmplifier(page: Page, title: string, loadOhm: string) {
 	await page.getByLabel('At THD').fill('1');
 }
 
+/** Fill the open supply form (160 VA, 20 V per rail, 10 000 µF at 35 V, 1.5 A, T1.6 A fuse) and add the block. */
+async function addSupplyBlock(page: Page) {
+	await page.getByLabel('Transformer rating').fill('160');
+	await page.getByLabel('Secondary per rail').fill('20');
+	await page.getByLabel('Reservoir per rail').fill('10000u');
+	await page.getByLabel('Reservoir voltage rating').fill('35');
+	await page.getByLabel('Load current per rail').fill('1.5');
+	await page.getByLabel('Fuse rating').fill('1.6');
+	await page.getByLabel('Fuse type').selectOption('slow');
+	await page.getByRole('button', { name: 'Add block' }).click();
+	await expect(page.getByText('Block saved.')).toBeVisible();
+}
+
 test('spec blocks: a bad amplifier block is refused field by field, a good one shows derived values and checks; a supply block', async ({ page }) => {
 	test.setTimeout(120_000);
 	const title = `E2E amplifier ${Date.now().toString(36)}`;
@@ -60,15 +73,7 @@ test('spec blocks: a bad amplifier block is refused field by field, a good one s
 	await page.getByRole('link', { name: /Power supply/ }).first().click();
 	await expect(page.locator('form[data-ready="true"]')).toBeVisible();
 	await page.getByLabel('Title').fill(`${title} supply`);
-	await page.getByLabel('Transformer rating').fill('160');
-	await page.getByLabel('Secondary per rail').fill('20');
-	await page.getByLabel('Reservoir per rail').fill('10000u');
-	await page.getByLabel('Reservoir voltage rating').fill('35');
-	await page.getByLabel('Load current per rail').fill('1.5');
-	await page.getByLabel('Fuse rating').fill('1.6');
-	await page.getByLabel('Fuse type').selectOption('slow');
-	await page.getByRole('button', { name: 'Add block' }).click();
-	await expect(page.getByText('Block saved.')).toBeVisible();
+	await addSupplyBlock(page);
 	const supply = page.locator('section[data-spec-block="supply"]', { hasText: `${title} supply` });
 	await expect(supply.locator('[data-derived="peakDcV"]')).toContainText('27.6 V');
 	await expect(supply.locator('[data-check="supply.cap-rating"]')).toContainText('CAUTION');
@@ -82,15 +87,7 @@ test('spec blocks: a save over a block changed in another tab is refused (409) w
 	await page.goto(`/builds/${SLUG}/edit/specs?add=supply`);
 	await expect(page.locator('form[data-ready="true"]')).toBeVisible();
 	await page.getByLabel('Title').fill(title);
-	await page.getByLabel('Transformer rating').fill('160');
-	await page.getByLabel('Secondary per rail').fill('20');
-	await page.getByLabel('Reservoir per rail').fill('10000u');
-	await page.getByLabel('Reservoir voltage rating').fill('35');
-	await page.getByLabel('Load current per rail').fill('1.5');
-	await page.getByLabel('Fuse rating').fill('1.6');
-	await page.getByLabel('Fuse type').selectOption('slow');
-	await page.getByRole('button', { name: 'Add block' }).click();
-	await expect(page.getByText('Block saved.')).toBeVisible();
+	await addSupplyBlock(page);
 	const id = new URL(page.url()).searchParams.get('saved');
 	expect(id).toBeTruthy();
 

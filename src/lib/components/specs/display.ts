@@ -252,6 +252,7 @@ export function showValue(key: string, value: unknown): string {
 			}
 		}
 		if (unit === '×') return `${sig3(value)} ×`;
+		if (unit === '°') return `${sig3(value)}°`;
 		return unit ? `${sig3(value)} ${unit}` : sig3(value);
 	}
 	if (Array.isArray(value)) return value.length ? value.map((v) => showValue(key, v)).join(', ') : '—';
