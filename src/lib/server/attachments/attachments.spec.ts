@@ -15,6 +15,7 @@ import {
 	AttachmentError,
 	addBuildAttachment,
 	attachmentForDownload,
+	attachmentsFor,
 	contentDispositionFor,
 	removeBuildAttachment,
 	safeFileName,
@@ -183,11 +184,19 @@ describe('attachments of a build (PostgreSQL + S3)', () => {
 		expect((await attachmentForDownload(b.slug, first.id, null))?.cacheControl).toMatch(/^public/);
 
 		const second = await addBuildAttachment(maker, { id: b.id, ownerId: maker.id }, { bytes: PDF, name: 'enclosure.pdf', kind: 'enclosure' });
+		// A file added since the latest revision is a pending change: its maker sees it, readers do not yet.
+		expect(await attachmentForDownload(b.slug, second.id, maker)).not.toBeNull();
+		expect(await attachmentForDownload(b.slug, second.id, null)).toBeNull();
+		expect(await attachmentForDownload(b.slug, second.id, other)).toBeNull();
+		const [row] = await db.select().from(schema.build).where(eq(schema.build.id, b.id));
+		expect((await attachmentsFor(row, null)).map((a) => a.name)).toEqual(['gerbers.zip']);
+		expect((await attachmentsFor(row, maker)).map((a) => a.name)).toEqual(['gerbers.zip', 'enclosure.pdf']);
 		await removeBuildAttachment(maker, { id: b.id }, first.id);
 		expect(await getObjectBytes(first.key)).toBeNull();
 		expect((await pendingChanges(b.id)).changes).toContain('attachments: 1 added, 1 removed');
 		const rev = await publishRevision(maker, b.id, 'Enclosure drawing instead of the old gerbers');
 		expect(rev.summary).toContain('attachments: 1 added, 1 removed');
+		expect((await attachmentForDownload(b.slug, second.id, null))?.cacheControl).toMatch(/^public/);
 
 		await expect(removeBuildAttachment(maker, { id: draft.id }, second.id)).rejects.toMatchObject({ status: 404 });
 		await expect(removeBuildAttachment(maker, { id: b.id }, first.id)).rejects.toMatchObject({ status: 404 });
