@@ -127,9 +127,9 @@ test('attachments: upload with progress, listed on the build page, downloaded as
 	const item = page.locator('#files [data-attachment="Schéma ampli rev B.pdf"]');
 	await expect(item).toContainText('Schematic · PDF');
 	await expect(item.locator('[data-size]')).toHaveText(`${PDF.length} bytes`);
-	const [download] = await Promise.all([page.waitForEvent('download'), item.getByRole('link', { name: 'Schéma ampli rev B.pdf' }).click()]);
+	const [download] = await Promise.all([page.waitForEvent('download'), item.getByRole('link', { name: 'Schéma ampli rev B.pdf', exact: true }).click()]);
 	expect(download.suggestedFilename()).toBe('Schéma ampli rev B.pdf');
-	const href = await item.getByRole('link', { name: 'Schéma ampli rev B.pdf' }).getAttribute('href');
+	const href = await item.getByRole('link', { name: 'Schéma ampli rev B.pdf', exact: true }).getAttribute('href');
 	const res = await page.request.get(href!);
 	expect(res.status()).toBe(200);
 	expect(res.headers()['content-disposition']).toMatch(/^attachment; filename="[\x20-\x7e]+"; filename\*=UTF-8''Sch%C3%A9ma%20ampli%20rev%20B\.pdf$/);
