@@ -3,6 +3,7 @@
 // (upload with progress, download as a file, hostile files refused with nothing left behind).
 import { test, expect } from '@playwright/test';
 import { ListObjectsV2Command, S3Client } from '@aws-sdk/client-s3';
+import sharp from 'sharp';
 import { signIn, uniqueEmail } from './helpers/auth';
 import { createPublishedBuild, origin, postForm, uniqueTitle } from './helpers/builds';
 import { waitForMail, linkIn } from './helpers/mail';
@@ -159,4 +160,47 @@ test('attachments: upload with progress, listed on the build page, downloaded as
 	const stranger = await browser.newContext();
 	expect((await stranger.request.get(`${origin()}${draftUrl}`)).status()).toBe(404);
 	await stranger.close();
+});
+
+test('step editor: a Markdown preview beside the text, a photo of the build placed in the text, code and quotes rendered', async ({ page }) => {
+	test.setTimeout(120_000);
+	await signIn(page, JOSS);
+	const { slug } = await createPublishedBuild(page, { supply: false });
+	await page.goto(`/builds/${slug}/edit`);
+	const step = page.locator('[data-step-editor]').first();
+	const stepId = await step.getAttribute('data-step-id');
+	const png = await sharp({ create: { width: 800, height: 600, channels: 3, background: '#b0592b' } }).png().toBuffer();
+	const up = await page.request.post(`/builds/${slug}/photos`, {
+		headers: { origin: origin(), accept: 'application/json' },
+		multipart: { purpose: 'step', stepId: stepId!, alt: 'Output stage with the driver transistors fitted', file: { name: 'stage.png', mimeType: 'image/png', buffer: png } }
+	});
+	expect(up.status()).toBe(201);
+	const photoId = (await up.json()).photo.id as string;
+	await page.reload();
+
+	const field = step.locator('[data-markdown-field][data-ready="true"]');
+	const text = field.locator('textarea');
+	await text.fill('Fit `0R22` emitter resistors.\n\n> Check the rails before fitting the chips.\n\nThen:');
+	const preview = field.locator('[data-preview]');
+	await expect(preview.locator('p > code')).toHaveText('0R22');
+	await expect(preview.locator('blockquote p')).toHaveText('Check the rails before fitting the chips.');
+	// No quotation marks or backticks added around them by the page's styles.
+	expect(await preview.locator('p > code').evaluate((el) => getComputedStyle(el, '::before').content)).toMatch(/^(none|normal)$/);
+	expect(await preview.locator('blockquote p').evaluate((el) => getComputedStyle(el, '::before').content)).toMatch(/^(none|normal)$/);
+
+	// Place the photo at the end of the text: the preview shows it there, from this build's own photos.
+	await text.focus();
+	await text.press('End');
+	await step.locator(`[data-step-photo="${photoId}"]`).getByRole('button', { name: /Place this photo in the text/ }).click();
+	await expect(text).toHaveValue(new RegExp(`\\[\\[photo:${photoId.slice(0, 8)}\\]\\]`));
+	await expect(preview.locator('img.placed-photo')).toHaveAttribute('src', new RegExp(`^/media/photos/${photoId}/`));
+	await step.getByRole('button', { name: /^Save step 1/ }).click();
+	await expect(step.getByText('Saved.')).toBeVisible();
+
+	// On the build page the photo stands in the text, after the quote, and not again above it.
+	await page.goto(`/builds/${slug}`);
+	const shown = page.locator('[data-step]').first();
+	await expect(shown.locator('img.placed-photo')).toHaveAttribute('alt', 'Output stage with the driver transistors fitted');
+	await expect(shown.locator('figure')).toHaveCount(0);
+	await expect(shown.locator('blockquote')).toContainText('Check the rails');
 });
