@@ -204,3 +204,25 @@ test('step editor: a Markdown preview beside the text, a photo of the build plac
 	await expect(shown.locator('figure')).toHaveCount(0);
 	await expect(shown.locator('blockquote')).toContainText('Check the rails');
 });
+
+test.describe('phone (390×844)', () => {
+	test.use({ viewport: { width: 390, height: 844 } });
+	test('build page: page index, review summary and based-on come before the comments; Archive asks first and says what happened', async ({ page }) => {
+		test.setTimeout(90_000);
+		await signIn(page, JOSS);
+		const { slug } = await createPublishedBuild(page, { supply: false });
+		await page.goto(`/builds/${slug}`);
+		const top = async (sel: string) => (await page.locator(sel).first().boundingBox())!.y;
+		const comments = await top('[data-comments]');
+		for (const sel of ['nav[aria-label="On this page"]', '#review-state', '#based-on']) {
+			await expect(page.locator(sel).first()).toBeVisible();
+			expect(await top(sel), `${sel} above the comments`).toBeLessThan(comments);
+		}
+		// Archive: one click opens the question; nothing happens until it is confirmed.
+		await page.locator('[data-archive-confirm] summary').click();
+		await expect(page.getByText('Archive this build? It leaves the lists')).toBeVisible();
+		await page.getByRole('button', { name: 'Yes, archive it' }).click();
+		await expect(page.getByText('Archived: it has left the lists but stays readable here.')).toBeVisible();
+		await expect(page.locator('[data-build] header [data-status]')).toHaveText('Archived');
+	});
+});
