@@ -1,5 +1,5 @@
 /**
- * Markdown → safe HTML for step text, comments, reviews and flags. Rendered once on save and stored
+ * Markdown → safe HTML for step text, comments, reviews and flags (step text may place the build's photos: PHOTO_REF). Rendered once on save and stored
  * next to the source: `marked` (GitHub-flavoured) and then DOMPurify on one reused jsdom window.
  *
  * What survives: ordinary HTML text markup (paragraphs, lists, tables, code, emphasis, links, images).
@@ -10,6 +10,7 @@
 import { Marked } from 'marked';
 import createDOMPurify, { type WindowLike } from 'dompurify';
 import { JSDOM } from 'jsdom';
+import { escapeAttribute, escapeUTF8 as escapeHtml } from 'entities';
 
 const marked = new Marked({
 	gfm: true,
@@ -19,6 +20,49 @@ const marked = new Marked({
 	walkTokens(token) {
 		if (token.type === 'heading') token.depth = Math.min(6, token.depth + 2);
 	}
+});
+
+/**
+ * A photo of the build placed in step text: `[[photo:1a2b3c4d]]`, the first 8 characters of the photo's
+ * id (the step editor offers the code beside each photo). Only the build's own photos resolve (the caller
+ * looks them up: see ../builds/steps renderStepMarkdown); the syntax takes no URL, so it can never point
+ * elsewhere. Inside code spans and code blocks it stays text.
+ */
+export const PHOTO_REF = /\[\[photo:([0-9a-fA-F]{8})\]\]/g;
+
+/** What a placed photo renders as: an image we serve (`/media/…`, checked again by the sanitizer). */
+export interface PlacedPhoto {
+	src: string;
+	alt: string;
+	width: number;
+	height: number;
+}
+
+/** The resolver of the parse in progress (parsing is synchronous, so one at a time). */
+let resolvePhoto: ((ref: string) => PlacedPhoto | null) | null = null;
+
+marked.use({
+	extensions: [
+		{
+			name: 'photoRef',
+			level: 'inline',
+			start(src: string) {
+				const i = src.indexOf('[[photo:');
+				return i < 0 ? undefined : i;
+			},
+			tokenizer(src: string) {
+				const m = /^\[\[photo:([0-9a-fA-F]{8})\]\]/.exec(src);
+				return m ? { type: 'photoRef', raw: m[0], ref: m[1].toLowerCase() } : undefined;
+			},
+			renderer(token) {
+				const ref = (token as unknown as { ref: string }).ref;
+				if (!resolvePhoto) return escapeHtml(token.raw);
+				const p = resolvePhoto(ref);
+				if (!p) return `<span class="photo-missing">[photo ${escapeHtml(ref)} is not a photo of this build]</span>`;
+				return `<img class="placed-photo" src="${escapeAttribute(p.src)}" alt="${escapeAttribute(p.alt)}" width="${p.width}" height="${p.height}">`;
+			}
+		}
+	]
 });
 
 const { window } = new JSDOM('<!doctype html><html><body></body></html>');
@@ -141,9 +185,14 @@ const PURIFY_CONFIG = {
  * renderMarkdown('**Rails** at ±28 V <script>x()</script>') → '<p><strong>Rails</strong> at ±28 V </p>\n'.
  * Costs tens of milliseconds (jsdom): call it on save and store the result, not on every view.
  */
-export function renderMarkdown(md: string): string {
-	const html = marked.parse(md ?? '', { async: false }) as string;
-	return purify.sanitize(html, PURIFY_CONFIG) as unknown as string;
+export function renderMarkdown(md: string, opts: { photos?: (ref: string) => PlacedPhoto | null } = {}): string {
+	resolvePhoto = opts.photos ?? null;
+	try {
+		const html = marked.parse(md ?? '', { async: false }) as string;
+		return purify.sanitize(html, PURIFY_CONFIG) as unknown as string;
+	} finally {
+		resolvePhoto = null;
+	}
 }
 
 /** Sanitize HTML that did not come from Markdown (same rules as renderMarkdown). */

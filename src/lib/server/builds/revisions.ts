@@ -21,7 +21,7 @@ import { refreshFindIndex } from './find-index';
 export async function takeSnapshot(tx: DbLike, buildId: string): Promise<BuildSnapshot> {
 	const [b] = await tx.select().from(schema.build).where(eq(schema.build.id, buildId));
 	if (!b) throw new Error(`build ${buildId} does not exist`);
-	const [steps, photos, specBlocks, parts] = await Promise.all([
+	const [steps, photos, specBlocks, parts, attachments] = await Promise.all([
 		tx.select().from(schema.buildStep).where(eq(schema.buildStep.buildId, buildId)).orderBy(asc(schema.buildStep.position), asc(schema.buildStep.createdAt)),
 		tx
 			.select({ id: schema.photo.id, stepId: schema.photo.stepId })
@@ -29,7 +29,12 @@ export async function takeSnapshot(tx: DbLike, buildId: string): Promise<BuildSn
 			.where(and(eq(schema.photo.buildId, buildId), isNotNull(schema.photo.stepId)))
 			.orderBy(asc(schema.photo.position), asc(schema.photo.createdAt)),
 		tx.select().from(schema.specBlock).where(eq(schema.specBlock.buildId, buildId)).orderBy(asc(schema.specBlock.position), asc(schema.specBlock.createdAt)),
-		tx.select().from(schema.partLine).where(eq(schema.partLine.buildId, buildId)).orderBy(asc(schema.partLine.position))
+		tx.select().from(schema.partLine).where(eq(schema.partLine.buildId, buildId)).orderBy(asc(schema.partLine.position)),
+		tx
+			.select({ id: schema.buildAttachment.id, name: schema.buildAttachment.name, kind: schema.buildAttachment.kind })
+			.from(schema.buildAttachment)
+			.where(eq(schema.buildAttachment.buildId, buildId))
+			.orderBy(asc(schema.buildAttachment.position), asc(schema.buildAttachment.createdAt))
 	]);
 	return {
 		version: 1,
@@ -81,7 +86,8 @@ export async function takeSnapshot(tx: DbLike, buildId: string): Promise<BuildSn
 			currency: p.currency,
 			perChannel: p.perChannel,
 			checks: p.checks
-		}))
+		})),
+		attachments
 	};
 }
 

@@ -48,6 +48,14 @@ export interface BuildSnapshot {
 	steps: SnapshotStep[];
 	specBlocks: SnapshotSpecBlock[];
 	parts: SnapshotPart[];
+	/** Files attached to the build (absent in snapshots taken before attachments existed). */
+	attachments?: SnapshotAttachment[];
+}
+
+export interface SnapshotAttachment {
+	id: string;
+	name: string;
+	kind: string;
 }
 
 /** JSON with object keys sorted, so equal content compares equal whatever the key order (jsonb reorders keys). */
@@ -194,6 +202,14 @@ export function diffSnapshots(prev: BuildSnapshot, next: BuildSnapshot): string[
 	const parts = diffList(prev.parts, next.parts, partContent, (p) => `${p.designators}|${p.kind}`);
 	const partText = counts(parts);
 	if (partText) out.push(`parts: ${partText}`);
+
+	// Attachments are matched by id only: a file replaced by another of the same name is one removed, one added.
+	const prevFiles = new Set((prev.attachments ?? []).map((a) => a.id));
+	const nextFiles = new Set((next.attachments ?? []).map((a) => a.id));
+	const filesAdded = [...nextFiles].filter((a) => !prevFiles.has(a)).length;
+	const filesRemoved = [...prevFiles].filter((a) => !nextFiles.has(a)).length;
+	const fileBits = [filesAdded ? `${filesAdded} added` : '', filesRemoved ? `${filesRemoved} removed` : ''].filter(Boolean);
+	if (fileBits.length) out.push(`attachments: ${fileBits.join(', ')}`);
 
 	return out;
 }

@@ -1,9 +1,11 @@
 /** A build's steps: add, edit, delete, move up/down. Markdown is stored as source plus sanitized HTML. */
 import { error } from '@sveltejs/kit';
-import { and, asc, eq, gt, sql } from 'drizzle-orm';
+import { and, asc, eq, gt, or, sql } from 'drizzle-orm';
 import * as schema from '../db/schema';
-import type { Tx } from '../db';
-import { renderMarkdown } from '../markdown';
+import { db, type Tx } from '../db';
+import { PHOTO_REF, renderMarkdown, type PlacedPhoto } from '../markdown';
+import { photoUrl } from '$lib/media';
+import type { DbLike } from '../db/tx';
 import { photoObjectKeys } from '../photos';
 import { deleteObjects } from '../photos';
 import { stepSchema, type StepInput } from '$lib/schemas/build';
@@ -12,6 +14,29 @@ import { assertCanEdit } from './access';
 import { afterContentChange } from './editable';
 import { lockBuild } from './edit';
 import { inTx } from '../db/tx';
+
+/**
+ * Step text → sanitized HTML, with `[[photo:1a2b3c4d]]` references resolved to photos of THIS build only
+ * (an id prefix that matches no photo of the build, or two, renders as a short note instead). The image is
+ * the photo's largest rendition under /media, sized by its own width and height.
+ */
+export async function renderStepMarkdown(dbx: DbLike | undefined, buildId: string, md: string): Promise<string> {
+	const runner = dbx ?? db;
+	const refs = [...new Set([...md.matchAll(PHOTO_REF)].map((m) => m[1].toLowerCase()))].slice(0, 50);
+	if (refs.length === 0) return renderMarkdown(md, { photos: () => null });
+	const rows = await runner
+		.select()
+		.from(schema.photo)
+		.where(and(eq(schema.photo.buildId, buildId), or(...refs.map((r) => sql`${schema.photo.id}::text like ${`${r}%`}`))));
+	const placed = new Map<string, PlacedPhoto | null>();
+	for (const r of refs) {
+		const hits = rows.filter((p) => p.id.startsWith(r));
+		const p = hits.length === 1 ? hits[0] : null;
+		const w = p ? Math.max(...p.widths) : 0;
+		placed.set(r, p ? { src: photoUrl(p.keyPrefix, w), alt: p.alt, width: w, height: Math.round((p.height * w) / p.width) } : null);
+	}
+	return renderMarkdown(md, { photos: (ref) => placed.get(ref) ?? null });
+}
 
 /** The step and its build (row-locked), checking that `actor` may edit; 404 when the step is gone. */
 async function stepForEdit(tx: Tx, actor: Actor, stepId: string, buildId?: string) {
@@ -25,10 +50,10 @@ async function stepForEdit(tx: Tx, actor: Actor, stepId: string, buildId?: strin
 /** Add a step at the end (owner or admin). Validated with stepSchema. → { id, position } */
 export async function addStep(actor: Actor, buildId: string, input: StepInput, tx?: Tx): Promise<{ id: string; position: number }> {
 	const data = stepSchema.parse(input);
-	const bodyHtml = renderMarkdown(data.bodyMd);
 	return inTx(tx, async (t) => {
 		const b = await lockBuild(t, buildId);
 		assertCanEdit(actor, b);
+		const bodyHtml = await renderStepMarkdown(t, buildId, data.bodyMd);
 		const [{ next }] = await t
 			.select({ next: sql<number>`coalesce(max(${schema.buildStep.position}) + 1, 0)::int` })
 			.from(schema.buildStep)
@@ -66,9 +91,9 @@ export async function updateStep(
 	expectedVersion?: string | null
 ): Promise<{ version: string; conflict?: undefined } | { conflict: StepConflict }> {
 	const data = stepSchema.parse(input);
-	const bodyHtml = renderMarkdown(data.bodyMd);
 	return inTx(tx, async (t) => {
 		const { step } = await stepForEdit(t, actor, stepId, buildId);
+		const bodyHtml = await renderStepMarkdown(t, step.buildId, data.bodyMd);
 		if (expectedVersion && stepVersion(step) !== expectedVersion) {
 			return { conflict: { title: step.title, bodyMd: step.bodyMd, version: stepVersion(step) } };
 		}

@@ -126,6 +126,35 @@ export const photo = pgTable(
 	(t) => [index('photo_build_idx').on(t.buildId), index('photo_step_idx').on(t.stepId)]
 );
 
+/**
+ * A file attached to a build (schematic, PCB and fabrication files, enclosure drawing): one object at `key` in
+ * object storage, checked by its content ($lib/server/attachments). Served only as a download.
+ */
+export const buildAttachment = pgTable(
+	'build_attachment',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		buildId: uuid('build_id')
+			.notNull()
+			.references(() => build.id, { onDelete: 'cascade' }),
+		ownerId: text('owner_id')
+			.notNull()
+			.references(() => user.id, { onDelete: 'cascade' }),
+		/** What it is: schematic, pcb, enclosure, other ($lib/attachments ATTACHMENT_KINDS). */
+		kind: text('kind').notNull(),
+		/** The file name shown and offered on download (made safe, extension matching the content). */
+		name: text('name').notNull(),
+		/** The type found in the file's content: pdf, png, jpg, zip. */
+		ext: text('ext').notNull(),
+		mime: text('mime').notNull(),
+		sizeBytes: integer('size_bytes').notNull(),
+		key: text('key').notNull(),
+		position: integer('position').default(0).notNull(),
+		createdAt: timestamp('created_at').defaultNow().notNull()
+	},
+	(t) => [index('build_attachment_build_idx').on(t.buildId, t.position)]
+);
+
 export const specBlock = pgTable(
 	'spec_block',
 	{
@@ -516,6 +545,7 @@ export const buildReport = pgTable(
 export type Build = typeof build.$inferSelect;
 export type BuildStep = typeof buildStep.$inferSelect;
 export type Photo = typeof photo.$inferSelect;
+export type BuildAttachment = typeof buildAttachment.$inferSelect;
 export type SpecBlock = typeof specBlock.$inferSelect;
 export type PartLine = typeof partLine.$inferSelect;
 export type BuildRevision = typeof buildRevision.$inferSelect;

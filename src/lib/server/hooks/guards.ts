@@ -28,7 +28,7 @@ const FORM_TYPES = ['application/x-www-form-urlencoded', 'multipart/form-data', 
 
 /** Routes that take uploads; adapter-node's BODY_SIZE_LIMIT (and the photo pipeline) bounds them. */
 export function isUploadRoute(pathname: string): boolean {
-	return /^\/builds\/[^/]+\/(photos|built-it\/photo)\/?$/.test(pathname) || pathname.startsWith('/account/avatar');
+	return /^\/builds\/[^/]+\/(photos|attachments|built-it\/photo)\/?$/.test(pathname) || pathname.startsWith('/account/avatar');
 }
 
 /** The largest body a request to `pathname` may carry, or null for upload routes. */

@@ -24,7 +24,7 @@ export class FieldError extends Error {
 export async function uploadRoute(
 	request: Request,
 	handler: () => Promise<Response>,
-	opts: { htmlBack?: string; drainLimit?: number } = {}
+	opts: { htmlBack?: string; drainLimit?: number; refusalTitle?: string } = {}
 ): Promise<Response> {
 	try {
 		return await handler();
@@ -35,12 +35,12 @@ export async function uploadRoute(
 		if (err instanceof FieldError) {
 			status = err.status;
 			response = opts.htmlBack
-				? htmlRefusal(err.status, err.message, opts.htmlBack)
+				? htmlRefusal(err.status, err.message, opts.htmlBack, opts.refusalTitle)
 				: apiError(err.status, err.code, err.message, [{ path: err.path, message: err.message }]);
 		} else if (isHttpError(err)) {
 			status = err.status;
 			response = opts.htmlBack
-				? htmlRefusal(err.status, err.body.message, opts.htmlBack)
+				? htmlRefusal(err.status, err.body.message, opts.htmlBack, opts.refusalTitle)
 				: apiError(err.status, codeForStatus(err.status), err.body.message);
 		} else {
 			throw err;
@@ -124,7 +124,7 @@ export function backTo(request: Request, origin: string, fallback: string): stri
 }
 
 /** A minimal page for a no-JS form whose upload was refused: the sentence and a way back. */
-export function htmlRefusal(status: number, message: string, back: string): Response {
-	const body = `<!doctype html><html lang="en"><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1"><title>Photo not added · Starground</title><body style="font-family:system-ui,sans-serif;max-width:40rem;margin:3rem auto;padding:0 1rem;background:#f7f2e8;color:#1f1d1a"><h1>Photo not added</h1><p>${escapeHtml(message)}</p><p><a href="${escapeHtml(back)}" style="color:#8a4220">Go back</a></p></body></html>`;
+export function htmlRefusal(status: number, message: string, back: string, title = 'Photo not added'): Response {
+	const body = `<!doctype html><html lang="en"><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1"><title>${escapeHtml(title)} · Starground</title><body style="font-family:system-ui,sans-serif;max-width:40rem;margin:3rem auto;padding:0 1rem;background:#f7f2e8;color:#1f1d1a"><h1>${escapeHtml(title)}</h1><p>${escapeHtml(message)}</p><p><a href="${escapeHtml(back)}" style="color:#8a4220">Go back</a></p></body></html>`;
 	return new Response(body, { status, headers: { 'content-type': 'text/html; charset=utf-8' } });
 }

@@ -23,6 +23,7 @@ import { actorOf } from '$lib/server/actor';
 import { attempt } from '$lib/server/http';
 import { cachedReaderData, readerCacheable } from '$lib/server/builds/reader-cache';
 import type { Build } from '$lib/server/db/schema';
+import { attachmentsFor, toAttachmentView } from '$lib/server/attachments';
 
 export const load: PageServerLoad = async ({ params, locals, url }) => {
 	const extra = {
@@ -44,12 +45,13 @@ async function pageData(slug: string, locals: App.Locals, row?: Build) {
 	const user = locals.user;
 	const page = await getBuildPage(slug, viewer, row);
 	const b = page.build;
-	const [review, flagMarkers, comments, saved, builtIt] = await Promise.all([
+	const [review, flagMarkers, comments, saved, builtIt, attachments] = await Promise.all([
 		getReviewPanel(b.id, viewer),
 		getFlagMarkers(b.id),
 		b.status === 'draft' ? Promise.resolve([]) : listComments(b.id, viewer),
 		viewer && b.status === 'published' ? isOnBench(viewer.id, b.id) : Promise.resolve(false),
-		b.status === 'published' ? builtItPanel(b, viewer, page.specBlocks) : Promise.resolve(null)
+		b.status === 'published' ? builtItPanel(b, viewer, page.specBlocks) : Promise.resolve(null),
+		attachmentsFor(b, viewer)
 	]);
 	return {
 		builtIt,
@@ -83,6 +85,7 @@ async function pageData(slug: string, locals: App.Locals, row?: Build) {
 		steps: page.steps.map((s) => ({ id: s.id, title: s.title, bodyHtml: s.bodyHtml, photos: s.photos })),
 		specBlocks: page.specBlocks,
 		parts: page.parts,
+		attachments: attachments.map((a) => toAttachmentView(a, b.slug)),
 		lineage: page.lineage,
 		can: {
 			edit: canEdit(viewer, b),

@@ -26,15 +26,17 @@ import { revisionLabel } from '$lib/revision-label';
 import { allowedLicencesFor, isShareAlike, needsAttribution } from '$lib/licences';
 import { LICENCE_LABELS, PROGRESS_LABELS, labelOf } from '$lib/labels';
 import { actorOf } from '$lib/server/actor';
+import { attachmentMaxBytes, listAttachments, toAttachmentView } from '$lib/server/attachments';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ params, url, locals }) => {
 	const { build: b } = await requireEditableBuild(params.slug, { forView: true });
-	const [content, pending, signedOff, lineage] = await Promise.all([
+	const [content, pending, signedOff, lineage, attachments] = await Promise.all([
 		loadBuildContent(b),
 		b.revision > 0 ? pendingChanges(b.id) : null,
 		b.revision > 0 ? wasSignedOff(b.id) : false,
-		b.derivedFromId ? loadLineage(b, actorOf(locals.user)) : null
+		b.derivedFromId ? loadLineage(b, actorOf(locals.user)) : null,
+		listAttachments(b.id)
 	]);
 	const origin = lineage?.derivedFrom ?? null;
 	const licences = allowedLicencesFor(origin?.licence);
@@ -60,6 +62,8 @@ export const load: PageServerLoad = async ({ params, url, locals }) => {
 			mainsPowered: b.mainsPowered
 		},
 		cover: content.cover,
+		attachments: attachments.map((a) => toAttachmentView(a, b.slug)),
+		attachmentMaxBytes: attachmentMaxBytes(),
 		steps: content.steps.map((s) => ({ id: s.id, title: s.title, bodyMd: s.bodyMd, version: stepVersion(s), photos: s.photos })),
 		counts: { specBlocks: content.specBlocks.length, parts: content.parts.length },
 		/** Changes since the latest revision, not yet published as one (published and archived builds). */
