@@ -4,6 +4,7 @@ import { spawn } from 'node:child_process';
 import { DEMO_PASSWORD } from './helpers/auth';
 import { waitForMail, linkIn } from './helpers/mail';
 import { origin, uniqueTitle } from './helpers/builds';
+import { hostileNext } from './fixtures/hostile-next';
 
 const formHeaders = () => ({ origin: origin(), accept: 'text/html' });
 
@@ -14,33 +15,8 @@ async function signedIn(email: string, password = DEMO_PASSWORD): Promise<APIReq
 	return c;
 }
 
-// Raw query-string values (hole 1 and the probe of 12a): each must keep the browser on the site, never 500.
-const HOSTILE_NEXT = [
-	'//evil.example',
-	'/%5Cevil.example',
-	'/%5C%5Cevil.example',
-	'%5C%5Cevil.example',
-	'/%09/evil.example',
-	'/%0A/evil.example',
-	'/%0D/evil.example',
-	'%09//evil.example',
-	'/%0D%0ASet-Cookie:%20x=1',
-	'/%0D%0A%0D%0A%3Cscript%3Ealert(1)%3C/script%3E',
-	'https://evil.example/',
-	'http:evil.example',
-	'https:%2F%2Fevil.example',
-	'javascript:alert(1)',
-	'JaVaScRiPt:alert(1)',
-	'data:text/html,%3Cscript%3Ealert(1)%3C/script%3E',
-	'///evil.example',
-	'/%2F/evil.example%2F..',
-	'//evil%E3%80%82example',
-	'/%E3%80%82evil.example',
-	'//%E3%80%82evil.example',
-	'/%00//evil.example',
-	'http://127.0.0.1@evil.example/',
-	'//127.0.0.1.evil.example/'
-];
+// Raw query-string values (hole 1 and the probe of 12a; tests/fixtures/hostile-next.ts): each must keep the browser on the site, never 500.
+const HOSTILE_NEXT = hostileNext(new URL(origin()).host);
 
 test.describe('open redirect after sign-in (hole 1)', () => {
 	test('a signed-in member sent to /sign-in?next=… stays on the site for 24 hostile values', async () => {

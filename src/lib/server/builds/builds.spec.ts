@@ -1,10 +1,9 @@
 // Integration tests against the real PostgreSQL of DATABASE_URL: lifecycle, revisions, steps, owner checks, derive.
-import { describe, it, expect, beforeAll, afterAll } from 'vitest';
-import { isHttpError } from '@sveltejs/kit';
+import { describe, it, expect } from 'vitest';
 import { and, asc, eq, sql } from 'drizzle-orm';
 import { db } from '../db';
 import * as schema from '../db/schema';
-import { createTestUser, removeTestUsers, uniqueTitle } from '../testing/builds';
+import { buildFields as fields, createTestUser, removeTestUsers, statusOf, uniqueTitle, useTestUsers } from '../testing/builds';
 import {
 	addStep,
 	archive,
@@ -31,40 +30,12 @@ import {
 import type { BuildInput } from '$lib/schemas/build';
 import { setBuildLocked } from '../moderation';
 
-type TestUser = Awaited<ReturnType<typeof createTestUser>>;
-let maker: TestUser, other: TestUser, admin: TestUser, moderator: TestUser;
-
-beforeAll(async () => {
-	maker = await createTestUser('maker', 'Owner');
-	other = await createTestUser('maker', 'Other');
-	admin = await createTestUser('admin', 'Admin');
-	moderator = await createTestUser('moderator', 'Mod');
+const { maker, other, admin, moderator } = useTestUsers({
+	maker: ['maker', 'Owner'],
+	other: ['maker', 'Other'],
+	admin: ['admin', 'Admin'],
+	moderator: ['moderator', 'Mod']
 });
-afterAll(async () => {
-	await removeTestUsers([maker.id, other.id, admin.id, moderator.id]);
-});
-
-function fields(title = uniqueTitle()): BuildInput {
-	return {
-		title,
-		summary: 'Two monolithic power amplifier ICs on ±28 V rails.',
-		category: 'power-amp',
-		topology: 'class-ab-chip',
-		mainsPowered: true,
-		licence: 'CC-BY-SA-4.0'
-	};
-}
-
-/** The HTTP status a domain call fails with (it must fail). */
-async function statusOf(p: Promise<unknown>): Promise<number> {
-	try {
-		await p;
-	} catch (e) {
-		if (isHttpError(e)) return e.status;
-		throw e;
-	}
-	throw new Error('expected the call to fail');
-}
 
 async function buildRow(id: string) {
 	const [b] = await db.select().from(schema.build).where(eq(schema.build.id, id));

@@ -1,30 +1,18 @@
 // Integration tests (real PostgreSQL): the maker's build status (in progress / working / abandoned) — who may set
 // it, what it refuses, that it needs no revision, and that the list query, the API list route and the OpenAPI
 // document filter and describe it.
-import { describe, it, expect, beforeAll, afterAll } from 'vitest';
-import { isHttpError } from '@sveltejs/kit';
+import { describe, it, expect, beforeAll } from 'vitest';
 import { eq } from 'drizzle-orm';
 import { db } from '../db';
 import * as schema from '../db/schema';
-import { createTestUser, removeTestUsers, uniqueTitle } from '../testing/builds';
+import { statusOf, uniqueTitle, useTestUsers } from '../testing/builds';
 import { addStep, createDraft, listPublishedBuilds, publish, setBuildProgress } from './index';
 import { setBuildLocked } from '../moderation';
 import { GET as listRoute } from '../../../routes/api/v1/builds/+server';
 import { openApiDocument } from '../openapi';
 
-type TestUser = Awaited<ReturnType<typeof createTestUser>>;
-let maker: TestUser, other: TestUser, moderator: TestUser;
+const { maker, other, moderator } = useTestUsers({ maker: ['maker', 'Progress'], other: ['maker', 'Other'], moderator: ['moderator', 'Mod'] });
 const built: Record<string, { id: string; slug: string }> = {};
-
-async function statusOf(p: Promise<unknown>): Promise<number> {
-	try {
-		await p;
-	} catch (e) {
-		if (isHttpError(e)) return e.status;
-		throw e;
-	}
-	throw new Error('expected the call to fail');
-}
 
 async function publishedBuild(title: string) {
 	const b = await createDraft(maker.id, { title, summary: '', category: 'preamp', topology: 'passive', mainsPowered: false, licence: 'CC-BY-4.0' });
@@ -34,13 +22,7 @@ async function publishedBuild(title: string) {
 }
 
 beforeAll(async () => {
-	maker = await createTestUser('maker', 'Progress');
-	other = await createTestUser('maker', 'Other');
-	moderator = await createTestUser('moderator', 'Mod');
 	for (const p of ['in-progress', 'working', 'abandoned'] as const) built[p] = await publishedBuild(uniqueTitle(`Status ${p}`));
-});
-afterAll(async () => {
-	await removeTestUsers([maker.id, other.id, moderator.id]);
 });
 
 const progressOf = async (id: string) => (await db.select({ p: schema.build.progress }).from(schema.build).where(eq(schema.build.id, id)))[0].p;

@@ -2,12 +2,12 @@
 // the anonymous reader cache (page data + ETag/304) never leaks a draft, pending changes, a hidden
 // comment or a signed-in member's view — also when the write comes from another app instance (plain SQL
 // on the shared database, which this process's cache never hears about).
-import { describe, it, expect, beforeAll, afterAll, beforeEach } from 'vitest';
+import { describe, it, expect, beforeEach } from 'vitest';
 import type { RequestEvent } from '@sveltejs/kit';
 import { isHttpError } from '@sveltejs/kit';
 import { sql } from 'drizzle-orm';
 import { db } from '../db';
-import { createTestUser, removeTestUsers, uniqueTitle } from '../testing/builds';
+import { buildFields as fields, uniqueTitle, useTestUsers, type TestUser } from '../testing/builds';
 import { addStep, archive, createDraft, getBuildDetail, publish, publishRevision, updateBuild, updateStep } from './index';
 import { postComment } from '../comments';
 import type { BuildInput } from '$lib/schemas/build';
@@ -15,29 +15,15 @@ import { setBuildLocked, setCommentHidden } from '../moderation';
 import { clearReaderCache, handleReaderCache, readerCacheStats } from './reader-cache';
 import { load } from '../../../routes/builds/[slug]/+page.server';
 
-type TestUser = Awaited<ReturnType<typeof createTestUser>>;
-let maker: TestUser, reader: TestUser, moderator: TestUser, admin: TestUser;
-
-beforeAll(async () => {
-	maker = await createTestUser('maker', 'Cache Maker');
-	reader = await createTestUser('maker', 'Cache Reader');
-	moderator = await createTestUser('moderator', 'Cache Mod');
-	admin = await createTestUser('admin', 'Cache Admin');
-});
-afterAll(async () => {
-	await removeTestUsers([maker.id, reader.id, moderator.id, admin.id]);
+const { maker, reader, moderator, admin } = useTestUsers({
+	maker: ['maker', 'Cache Maker'],
+	reader: ['maker', 'Cache Reader'],
+	moderator: ['moderator', 'Cache Mod'],
+	admin: ['admin', 'Cache Admin']
 });
 beforeEach(() => clearReaderCache());
 
 const ORIGIN = 'http://127.0.0.1:3999';
-const fields = (title: string): BuildInput => ({
-	title,
-	summary: 'Two monolithic power amplifier ICs on ±28 V rails.',
-	category: 'power-amp',
-	topology: 'class-ab-chip',
-	mainsPowered: true,
-	licence: 'CC-BY-SA-4.0'
-});
 
 /** A published build (Rev A) with one step. */
 async function publishedBuild() {

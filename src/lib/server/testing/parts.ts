@@ -1,6 +1,5 @@
 // Integration-test helpers for parts lists and spec blocks: a draft or published build of a fresh member,
 // valid block data of each kind, and the HTTP status a guarded call fails with.
-import { isHttpError } from '@sveltejs/kit';
 import { eq } from 'drizzle-orm';
 import { db } from '../db';
 import * as schema from '../db/schema';
@@ -26,16 +25,7 @@ export async function testBuild(ownerId: string, { published = false } = {}): Pr
 	return row;
 }
 
-/** The HTTP status a call fails with (it must fail). */
-export async function statusOf(p: Promise<unknown>): Promise<number> {
-	try {
-		await p;
-	} catch (e) {
-		if (isHttpError(e)) return e.status;
-		throw e;
-	}
-	throw new Error('expected the call to fail');
-}
+export { statusOf } from './builds';
 
 import { supplyBlock } from '$lib/specs/fixtures';
 

@@ -1,21 +1,10 @@
-import { json, redirect } from '@sveltejs/kit';
+import { json } from '@sveltejs/kit';
 import type { RequestHandler } from './$types';
-import { requireEditableBuild } from '$lib/server/builds';
-import { uploadCaller, uploadRoute } from '$lib/server/http';
+import { buildFileRoute } from '$lib/server/http/file-routes';
 import { removeBuildAttachment } from '$lib/server/attachments';
 
 /** Remove one attached file from a plain form (redirects back) or by fetch (answers JSON). The maker or an admin only. */
-export const POST: RequestHandler = async (event) => {
-	const { request, params } = event;
-	const { html, back } = uploadCaller(event, `/builds/${params.slug}/edit`);
-	return uploadRoute(
-		request,
-		async () => {
-			const { actor, build } = await requireEditableBuild(params.slug);
-			const deleted = (await removeBuildAttachment(actor, build, params.id)).id;
-			if (html) redirect(303, back);
-			return json({ deleted });
-		},
-		{ refusalTitle: 'File not changed', htmlBack: html ? back : undefined }
+export const POST: RequestHandler = (event) =>
+	buildFileRoute(event, { refusalTitle: 'File not changed' }, async ({ actor, build, answer }) =>
+		answer(json({ deleted: (await removeBuildAttachment(actor, build, event.params.id)).id }))
 	);
-};
