@@ -1,7 +1,9 @@
 // `npm test`: its own PostgreSQL (separate data folder and port from `npm start`) and fakes,
 // Vitest (unit + integration), a production build served on loopback, Playwright in Debian's
-// Chromium; everything it started is stopped again, also when tests fail.
-import { spawn, spawnSync, execFileSync } from 'node:child_process';
+// Chromium; everything it started is stopped again, also when tests fail and when it is stopped by
+// SIGINT/SIGTERM at any point (exit 130/143). Each child runs in a process group of its own and is stopped
+// by that id; the process ids are written to <data folder>/pids.json (tests/integration/test-signals.spec.ts).
+import { spawn, execFileSync } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -11,7 +13,8 @@ import { findPgBin } from './lib/postgres.js';
 const here = path.dirname(fileURLToPath(import.meta.url));
 const root = path.join(here, '..');
 const num = (v, d) => Number(process.env[v] ?? d);
-const dataRoot = path.join(root, '.data', 'test');
+// STARGROUND_TEST_DATA: the data folder (wiped at the start); default .data/test. A second run needs its own.
+const dataRoot = process.env.STARGROUND_TEST_DATA ? path.resolve(process.env.STARGROUND_TEST_DATA) : path.join(root, '.data', 'test');
 
 const o = {
 	root: dataRoot,
@@ -35,33 +38,76 @@ let stack;
 const startingStops = [];
 let app;
 const children = new Set();
+/** Set by SIGINT/SIGTERM: nothing new is started after it. */
+let stopping = null;
 
-async function cleanup() {
-	for (const c of children) if (c.exitCode === null) c.kill('SIGTERM');
-	if (app && app.exitCode === null) {
-		app.kill('SIGTERM');
+/** Process ids of what this run started, for anyone who has to check they are gone (pids.json in the data folder). */
+const pids = { 'npm test': process.pid };
+function recordPid(what, pid) {
+	if (!pid) return;
+	pids[what] = pid;
+	try {
+		fs.mkdirSync(dataRoot, { recursive: true });
+		fs.writeFileSync(path.join(dataRoot, 'pids.json'), JSON.stringify(pids, null, 1));
+	} catch {
+		/* the record is a help, not a need */
+	}
+}
+
+/** Signal a child's whole process group (it was started detached, so it leads one). */
+function signalGroup(child, sig) {
+	try {
+		process.kill(-child.pid, sig);
+	} catch {
+		/* already gone */
+	}
+}
+
+/** Stop a child and everything in its process group: SIGTERM, then SIGKILL after `graceMs`. */
+async function stopChild(child, graceMs) {
+	if (child.exitCode === null && child.signalCode === null) {
+		signalGroup(child, 'SIGTERM');
 		await new Promise((r) => {
-			const t = setTimeout(() => (app.kill('SIGKILL'), r()), 8000);
-			app.once('exit', () => (clearTimeout(t), r()));
+			const t = setTimeout(r, graceMs);
+			child.once('exit', () => (clearTimeout(t), r()));
 		});
 	}
-	if (stack) await stack.stop();
-	else for (const stop of startingStops.reverse()) await Promise.resolve(stop()).catch(() => undefined);
+	// Whatever the leader left behind in its group (workers, browsers) goes too.
+	signalGroup(child, 'SIGKILL');
 }
-let cleaning = false;
+
+let cleaning;
+/** Stop everything this run started (once; later calls wait for the same). */
+function cleanup() {
+	cleaning ??= (async () => {
+		await Promise.all([...children].map((c) => stopChild(c, 5000)));
+		if (app) await stopChild(app, 8000);
+		if (stack) await stack.stop();
+		else for (const stop of startingStops.reverse()) await Promise.resolve(stop()).catch(() => undefined);
+	})();
+	return cleaning;
+}
+const signalExit = { SIGINT: 130, SIGTERM: 143 };
 for (const sig of ['SIGINT', 'SIGTERM']) {
 	process.on(sig, async () => {
-		if (cleaning) return;
-		cleaning = true;
+		if (stopping) return;
+		stopping = sig;
+		console.log(`\n• ${sig}: stopping what this run started…`);
 		await cleanup();
-		process.exit(130);
+		process.exit(signalExit[sig]);
 	});
 }
 
-function run(cmd, args, env) {
+/**
+ * Run a command in a process group of its own (no terminal input: a background group reading it would stop);
+ * resolves with its exit code (1 when stopped by a signal).
+ */
+function run(what, cmd, args, env, stdio = ['ignore', 'inherit', 'inherit']) {
+	if (stopping) return Promise.resolve(1);
 	return new Promise((resolve) => {
-		const child = spawn(cmd, args, { cwd: root, stdio: 'inherit', env: { ...process.env, ...env } });
+		const child = spawn(cmd, args, { cwd: root, stdio, env: { ...process.env, ...env }, detached: true });
 		children.add(child);
+		recordPid(what, child.pid);
 		child.once('exit', (code) => {
 			children.delete(child);
 			resolve(code ?? 1);
@@ -97,7 +143,7 @@ try {
 	fs.rmSync(dataRoot, { recursive: true, force: true });
 	if (only !== 'unit') ensureChromium();
 	console.log('• starting test PostgreSQL and fakes…');
-	stack = await startStack({ ...o, stops: startingStops });
+	stack = await startStack({ ...o, stops: startingStops, onStarted: recordPid });
 	const testEnv = {
 		...stack.env,
 		NODE_ENV: 'test',
@@ -111,13 +157,12 @@ try {
 	};
 	if (only !== 'e2e') {
 		console.log('• Vitest: unit and integration tests');
-		const code = await run('npx', ['vitest', 'run', ...filters], { ...testEnv, MAIL_WORKER: 'off' });
+		const code = await run('vitest', 'npx', ['vitest', 'run', ...filters], { ...testEnv, MAIL_WORKER: 'off' });
 		if (code !== 0) failed++;
 	}
 	if (only !== 'unit') {
 		console.log('• building the app for end-to-end tests…');
-		const b = spawnSync('npx', ['vite', 'build'], { cwd: root, stdio: ['ignore', 'ignore', 'inherit'], env: { ...process.env, ...testEnv } });
-		if (b.status !== 0) throw new Error('vite build failed');
+		if ((await run('vite build', 'npx', ['vite', 'build'], testEnv, ['ignore', 'ignore', 'inherit'])) !== 0) throw new Error('vite build failed');
 		// Many tests share one client address and a few demo members: lift the budgets that would
 		// otherwise run out (each limit has its own test against the defaults).
 		const appEnv = {
@@ -135,23 +180,27 @@ try {
 		};
 		// The fault suite starts a second instance of the app the same way (two instances on one database).
 		testEnv.STARGROUND_TEST_APP_ENV = JSON.stringify(appEnv);
-		app = spawn(process.execPath, ['build'], {
+		if (stopping) throw new Error(`stopped by ${stopping}`);
+		// parent-watch: the app also stops if this script is killed outright (SIGKILL), as under `npm start`.
+		app = spawn(process.execPath, ['--import', path.join(here, 'lib', 'parent-watch.js'), 'build'], {
 			cwd: root,
 			stdio: ['ignore', fs.openSync(path.join(dataRoot, 'app.log'), 'a'), fs.openSync(path.join(dataRoot, 'app.log'), 'a')],
-			env: { ...process.env, ...testEnv, ...appEnv }
+			env: { ...process.env, ...testEnv, ...appEnv },
+			detached: true
 		});
+		recordPid('app', app.pid);
 		await waitFor(`${testEnv.ORIGIN}/`, 240_000);
 		console.log('• Playwright: end-to-end tests in Debian Chromium');
 		const faultFilters = filters.filter((f) => f.includes('fault'));
 		const e2eFilters = filters.filter((f) => !f.includes('fault'));
 		let code = 0;
 		if (filters.length === 0 || e2eFilters.length > 0) {
-			code = await run('npx', ['playwright', 'test', '--project=chromium', ...e2eFilters], testEnv);
+			code = await run('playwright', 'npx', ['playwright', 'test', '--project=chromium', ...e2eFilters], testEnv);
 		}
 		// The fault suite stops the services everything else uses: it runs last, alone.
 		if (filters.length === 0 || faultFilters.length > 0) {
 			console.log('• Playwright: the fault suite (PostgreSQL, SMTP and S3 stopped under the running app)');
-			const faults = await run('npx', ['playwright', 'test', '--project=faults', ...faultFilters], testEnv);
+			const faults = await run('fault suite', 'npx', ['playwright', 'test', '--project=faults', ...faultFilters], testEnv);
 			if (faults !== 0) code = faults;
 		}
 		if (code !== 0) {
@@ -165,6 +214,11 @@ try {
 	failed++;
 } finally {
 	await cleanup();
+}
+// A signal's handler exits on its own once everything is stopped; never report green meanwhile.
+if (stopping) {
+	await cleanup();
+	process.exit(signalExit[stopping]);
 }
 console.log(`\nnpm test finished in ${Math.round((Date.now() - t0) / 1000)} s: ${failed ? 'FAILED' : 'all green'}`);
 process.exit(failed ? 1 : 0);

@@ -15,7 +15,7 @@ async function requireFree(port, what) {
 /**
  * @param {{ root: string, pgPort: number, s3Port: number, smtpPort: number, mailViewerPort: number,
  *           appPort: number, database: string, fast?: boolean, controls?: boolean,
- *           stops?: Array<() => unknown> }} o
+ *           stops?: Array<() => unknown>, onStarted?: (what: string, pid: number | undefined) => void }} o
  */
 export async function startStack(o) {
 	// The caller may pass its own array, so a signal that arrives while we are still starting can stop
@@ -32,8 +32,17 @@ export async function startStack(o) {
 		stops.length = 0;
 	};
 	try {
-		const pg = await startPostgres({ root: path.join(o.root, 'postgres'), port: o.pgPort, database: o.database, fast: o.fast });
-		stops.push(() => pg.stop());
+		// Its stop is registered the moment pg_ctl has started it (not when this returns), with its process id.
+		const pg = await startPostgres({
+			root: path.join(o.root, 'postgres'),
+			port: o.pgPort,
+			database: o.database,
+			fast: o.fast,
+			onStarted: (stopPg, pid) => {
+				stops.push(stopPg);
+				o.onStarted?.('postgres', pid);
+			}
+		});
 		await runMigrations(pg.url);
 		await requireFree(o.s3Port, 'fake S3');
 		const s3 = await startFakeS3({ port: o.s3Port, directory: path.join(o.root, 's3'), bucket: 'starground' });
