@@ -9,7 +9,7 @@ import { testBuild } from './testing/parts';
 import { saveSpecBlock } from './specs';
 import { addStep, publish } from './builds';
 import type { BuildSnapshot } from './builds/snapshot';
-import { recheckStoredBuilds } from './specs-recheck';
+import { CHECK_RULES_VERSION, appliedRulesVersion, recheckAtStart, recheckStoredBuilds } from './specs-recheck';
 import { checkBuild } from '$lib/specs';
 import { amplifierBlock, supplyBlock } from '$lib/specs/fixtures';
 
@@ -94,5 +94,59 @@ describe('recheckStoredBuilds', () => {
 		expect(JSON.stringify(await rows(b.id))).toBe(stored);
 		// … and touches nothing a reader cache watches.
 		expect((await db.select().from(schema.build).where(eq(schema.build.id, b.id)))[0]).toEqual(viewBefore);
+	});
+});
+
+describe('recheckAtStart (keyed on the check rules version)', () => {
+	const tamper = async (buildId: string) => {
+		const [row] = await rows(buildId);
+		await db.update(schema.specBlock).set({ derived: { peakDcV: 1.23 }, checks: [] }).where(eq(schema.specBlock.id, row.id));
+	};
+	const derivedOf = async (buildId: string) => (await rows(buildId))[0].derived;
+	let stored: number | null;
+	beforeAll(async () => {
+		stored = await appliedRulesVersion();
+	});
+	afterAll(async () => {
+		// Leave the database as this file found it: the version the app's own start recorded (or none).
+		await db.delete(schema.checkRulesApplied);
+		if (stored !== null) await db.insert(schema.checkRulesApplied).values({ name: 'spec-checks', version: stored });
+	});
+
+	it('walks the builds once for a rules version, then touches no build until the version is bumped', async () => {
+		const b = await testBuild(maker.id);
+		expect((await saveSpecBlock(maker, b.id, { kind: 'supply', data: supplyBlock() })).ok).toBe(true);
+		const fresh = await derivedOf(b.id);
+		expect(fresh.peakDcV).not.toBe(1.23);
+
+		// A database from before the table (no row): the first start walks and records the version.
+		await db.delete(schema.checkRulesApplied);
+		await tamper(b.id);
+		const first = await recheckAtStart();
+		expect(first.skipped).toBe(false);
+		expect(first.builds).toBeGreaterThanOrEqual(1);
+		expect(await derivedOf(b.id)).toEqual(fresh);
+		expect(await appliedRulesVersion()).toBe(CHECK_RULES_VERSION);
+
+		// A second start with the same version walks nothing: a stale row stays stale, the build row is not read for update.
+		await tamper(b.id);
+		const [buildBefore] = await db.select().from(schema.build).where(eq(schema.build.id, b.id));
+		const second = await recheckAtStart();
+		expect(second).toEqual({ builds: 0, skipped: true });
+		expect((await derivedOf(b.id)).peakDcV).toBe(1.23);
+		expect((await db.select().from(schema.build).where(eq(schema.build.id, b.id)))[0]).toEqual(buildBefore);
+
+		// Bumping the version rechecks every build again and records the new version.
+		const third = await recheckAtStart({ version: CHECK_RULES_VERSION + 1 });
+		expect(third.skipped).toBe(false);
+		expect(third.builds).toBeGreaterThanOrEqual(1);
+		expect(await derivedOf(b.id)).toEqual(fresh);
+		expect(await appliedRulesVersion()).toBe(CHECK_RULES_VERSION + 1);
+
+		// RECHECK_ON_START=always walks although the version matches.
+		await tamper(b.id);
+		const forced = await recheckAtStart({ version: CHECK_RULES_VERSION + 1, always: true });
+		expect(forced.skipped).toBe(false);
+		expect(await derivedOf(b.id)).toEqual(fresh);
 	});
 });

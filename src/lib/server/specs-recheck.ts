@@ -7,7 +7,9 @@
  * shown (its derived values and checks only; what the maker published stays as it was). It writes only rows whose
  * result changed, never makes a revision and never touches "edited since sign-off": the maker's content is
  * unchanged, only what is computed from it.
- * Run at app start (startup.ts; RECHECK_ON_START=off skips it).
+ * Run at app start through recheckAtStart (startup.ts): only when the rules version stored in `check_rules_applied`
+ * differs from CHECK_RULES_VERSION, so an ordinary restart walks nothing (RECHECK_ON_START=off skips it, =always
+ * walks regardless).
  */
 import { and, asc, eq, gt, or, sql } from 'drizzle-orm';
 import * as schema from './db/schema';
@@ -16,6 +18,15 @@ import { inTx } from './db/tx';
 import type { Tx } from './db';
 import { recomputeChecks, refreshBuildChecks } from './parts/checks';
 import { stableJson, type BuildSnapshot } from './builds/snapshot';
+
+/**
+ * The version of the check rules this code computes (`$lib/specs` checkBuild, the parts-list checks). Bump it in the
+ * same commit as any change to a check's rule, figure, id, level or sentence: the next start then recomputes every
+ * stored result once. 2 = checks revision 2 (worst-case rails, rectifier currents, speaker protection).
+ */
+export const CHECK_RULES_VERSION = 2;
+/** The row of `check_rules_applied` that records the spec/parts checks. */
+const RULES_ROW = 'spec-checks';
 
 /** Recompute the derived values and checks inside the snapshot of revision `number` (what readers see). */
 async function recheckSnapshot(t: Tx, buildId: string, number: number): Promise<void> {
@@ -75,4 +86,26 @@ export async function recheckStoredBuilds(): Promise<{ builds: number }> {
 		after = page[page.length - 1].id;
 	}
 	return { builds };
+}
+
+/** The rules version the stored results were last brought up to, or null (never: a database from before the table). */
+export async function appliedRulesVersion(): Promise<number | null> {
+	const [row] = await db.select({ version: schema.checkRulesApplied.version }).from(schema.checkRulesApplied).where(eq(schema.checkRulesApplied.name, RULES_ROW));
+	return row?.version ?? null;
+}
+
+/**
+ * At app start: bring the stored checks up to `version` (CHECK_RULES_VERSION) unless they already are, then record it.
+ * The version is written only after the whole walk, so a start interrupted part-way walks again next time (each build's
+ * recheck is idempotent). Two instances starting together may both walk; each build is locked, so that only costs time.
+ * `always` walks whatever is stored. → { builds walked, skipped: true when nothing needed doing }.
+ */
+export async function recheckAtStart({ version = CHECK_RULES_VERSION, always = false } = {}): Promise<{ builds: number; skipped: boolean }> {
+	if (!always && (await appliedRulesVersion()) === version) return { builds: 0, skipped: true };
+	const { builds } = await recheckStoredBuilds();
+	await db
+		.insert(schema.checkRulesApplied)
+		.values({ name: RULES_ROW, version })
+		.onConflictDoUpdate({ target: schema.checkRulesApplied.name, set: { version, appliedAt: sql`now()` } });
+	return { builds, skipped: false };
 }

@@ -448,6 +448,16 @@ export const apiRateLimit = pgTable('api_rate_limit', {
 });
 
 /**
+ * Which version of the check rules the stored check results were last brought up to (specs-recheck.ts): one row per
+ * kind of stored result (`name` 'spec-checks'). At start the app walks the builds only when its CHECK_RULES_VERSION differs.
+ */
+export const checkRulesApplied = pgTable('check_rules_applied', {
+	name: text('name').primaryKey(),
+	version: integer('version').notNull(),
+	appliedAt: timestamp('applied_at', { withTimezone: true }).defaultNow().notNull()
+});
+
+/**
  * `Idempotency-Key` of API writes (http/idempotency.ts): per member or client address, the first
  * answer to a request, replayed when the same request comes again. Rows older than 24 hours are removed.
  */
