@@ -109,7 +109,7 @@ describe('flags of parts lines and attachments', () => {
 		const d = diffRevisions(before, after);
 		expect(d.parts.map((p) => [p.label, p.status, p.fields])).toEqual([
 			['R1 0R22', 'changed', [{ name: 'per channel', before: 'no', after: 'yes' }]],
-			['CX1 100n', 'changed', [{ name: 'rating is AC', before: 'no', after: 'yes' }]]
+			['CX1 100n', 'changed', [{ name: 'voltage rating is AC', before: 'no', after: 'yes' }]]
 		]);
 		// The revision summary counts the same two lines.
 		expect(diffSnapshots(before, after)).toContain('parts: 2 changed');

@@ -168,7 +168,7 @@ export const PART_DIFF_FIELDS: readonly [keyof SnapshotPart, string, (v: unknown
 		['valueText', 'value'],
 		['tolerancePct', 'tolerance %'],
 		['ratingV', 'rating V'],
-		['ratingVAc', 'rating is AC', yesNo],
+		['ratingVAc', 'voltage rating is AC', yesNo],
 		['ratingW', 'rating W'],
 		['package', 'package'],
 		['notes', 'notes'],
