@@ -1,6 +1,6 @@
 import { test, expect } from '@playwright/test';
 import { waitForMail, linkIn } from './helpers/mail';
-import { signIn, uniqueEmail, DEMO_PASSWORD } from './helpers/auth';
+import { expectSignedIn, memberMenu, signIn, signOut, uniqueEmail, DEMO_PASSWORD } from './helpers/auth';
 
 test('sign up, confirm by mail, sign out, sign in again', async ({ page }) => {
 	const email = uniqueEmail('newcomer');
@@ -17,12 +17,12 @@ test('sign up, confirm by mail, sign out, sign in again', async ({ page }) => {
 	expect(mail.html).toContain('Confirm my e-mail');
 	await page.goto(linkIn(mail, '/api/auth/verify-email'));
 	await expect(page.getByRole('heading', { name: 'Your e-mail is confirmed' })).toBeVisible();
-	await expect(page.getByRole('button', { name: 'Sign out' })).toBeVisible();
+	await expectSignedIn(page, 'Nadia Newcomer');
 
-	await page.getByRole('button', { name: 'Sign out' }).click();
-	await expect(page.getByRole('link', { name: 'Sign in' })).toBeVisible();
+	await signOut(page);
+	await expect(memberMenu(page)).toHaveCount(0);
 	await signIn(page, email, 'solder-and-flux-1');
-	await expect(page.getByRole('link', { name: 'Nadia Newcomer' })).toBeVisible();
+	await expectSignedIn(page, 'Nadia Newcomer');
 });
 
 test('sign-up refuses malformed input field by field and creates nothing', async ({ page, request }) => {
@@ -53,7 +53,7 @@ test('password reset through the mailed link', async ({ page }) => {
 	await page.getByLabel('Password').fill('first-password-1');
 	await page.getByRole('button', { name: 'Create account' }).click();
 	await page.goto(linkIn(await waitForMail(email, /Confirm your e-mail/), '/api/auth/verify-email'));
-	await page.getByRole('button', { name: 'Sign out' }).click();
+	await signOut(page);
 
 	await page.goto('/forgot-password');
 	await page.getByLabel('E-mail').fill(email);
@@ -88,7 +88,7 @@ test('a suspended member cannot sign in; restored, they can', async ({ browser }
 	await page.getByLabel('Password').fill('suspend-me-please');
 	await page.getByRole('button', { name: 'Create account' }).click();
 	await page.goto(linkIn(await waitForMail(email, /Confirm your e-mail/), '/api/auth/verify-email'));
-	await expect(page.getByRole('button', { name: 'Sign out' })).toBeVisible();
+	await expectSignedIn(page);
 
 	const mod = await (await browser.newContext()).newPage();
 	await signIn(mod, 'tomas@starground.test', DEMO_PASSWORD);

@@ -4,7 +4,7 @@
 import { test, expect } from '@playwright/test';
 import { ListObjectsV2Command, S3Client } from '@aws-sdk/client-s3';
 import sharp from 'sharp';
-import { signIn, uniqueEmail } from './helpers/auth';
+import { expectSignedIn, signIn, uniqueEmail } from './helpers/auth';
 import { createPublishedBuild, origin, postForm, uniqueTitle } from './helpers/builds';
 import { waitForMail, linkIn } from './helpers/mail';
 
@@ -57,7 +57,7 @@ test('/welcome after confirming the mail: signed in, or it says plainly how to s
 	await page.goto(link);
 	await expect(page.locator('[data-welcome]')).toHaveAttribute('data-welcome', 'signed-in');
 	await expect(page.getByText('You are signed in.')).toBeVisible();
-	await expect(page.getByRole('button', { name: 'Sign out' })).toBeVisible();
+	await expectSignedIn(page);
 
 	// The same link again in another browser: not signed in there, and the page says how to sign in.
 	const other = await browser.newContext();
@@ -70,7 +70,7 @@ test('/welcome after confirming the mail: signed in, or it says plainly how to s
 	await p2.getByLabel('E-mail').fill(email);
 	await p2.getByLabel('Password').fill('solder-and-flux-1');
 	await p2.getByRole('button', { name: 'Sign in' }).click();
-	await expect(p2.getByRole('button', { name: 'Sign out' })).toBeVisible();
+	await expectSignedIn(p2);
 
 	// A link that cannot be used (cut short): the page says so and how to go on, never a bare error.
 	const p3 = await (await browser.newContext()).newPage();

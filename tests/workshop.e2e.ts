@@ -2,7 +2,7 @@
 // followed by an edit keeps every line; two tabs on one parts list (the later save is refused with both
 // lists shown); a batch of edits published as ONE revision with a note, and its diff; "My builds".
 import { test, expect, type Page } from '@playwright/test';
-import { signIn } from './helpers/auth';
+import { openMemberMenu, signIn } from './helpers/auth';
 import { createPublishedBuild, uniqueTitle } from './helpers/builds';
 
 const JOSS = 'joss@starground.test';
@@ -155,8 +155,9 @@ for (const size of [
 		await page.getByRole('button', { name: 'Create draft' }).click();
 		await expect(page).toHaveURL(/\/edit/);
 		await page.goto('/');
-		if (size.name === 'phone') await page.getByRole('button', { name: 'Menu' }).click();
-		await page.getByRole('link', { name: 'My builds' }).first().click();
+		// The member menu holds "My builds" at every width (on a phone the header keeps search and this menu).
+		await expect(page.getByRole('searchbox', { name: 'Search builds' })).toBeVisible();
+		await (await openMemberMenu(page)).getByRole('link', { name: 'My builds' }).click();
 		await expect(page).toHaveURL(/\/my-builds$/);
 		const drafts = page.locator('[data-my-builds="draft"]');
 		await expect(drafts.getByRole('link', { name: title, exact: true })).toBeVisible();

@@ -8,7 +8,7 @@
 // - Series and parallel capacitors (any circuits textbook): parallel adds, series is 1/(1/C1 + 1/C2):
 //   two 1 µF in series = 0.5 µF, in parallel = 2 µF.
 import { describe, expect, it } from 'vitest';
-import { decodeCapacitorCode, decodeVoltageCodedMarking, expandCount, plusReadingNote, voltageCodeV } from './trade-notation';
+import { decodeCapacitorCode, decodeVoltageCodedMarking, expandCount, voltageCodeV } from './trade-notation';
 import { parsePartValue } from '$lib/parts';
 
 describe('counts of equal parts', () => {
@@ -63,10 +63,3 @@ describe('capacitor markings with tolerance and voltage', () => {
 	});
 });
 
-describe('a bare "+" between capacitors', () => {
-	it('says how it is read and how to write the other meaning', () => {
-		expect(plusReadingNote('1u+1u', 5e-7, 2e-6)).toBe('Read as in series = 500 nF (clearer: 2×1u series). Meant parallel (2 µF)? Write 1u||1u or 2×1u parallel.');
-		expect(plusReadingNote('1u||1u', 2e-6, 2e-6)).toBeNull();
-		expect(plusReadingNote('10u', 1e-5, 1e-5)).toBeNull();
-	});
-});

@@ -8,7 +8,7 @@
  *   capacitors): "2A104J" = 100 V, 100 000 pF, J (±5 %); a plain code with a tolerance letter and a voltage
  *   written after it ("472J 100V") is read by decodeMarking once the voltage is split off;
  * - a bare "+" between capacitor values: many builders read 1u+1u as parallel (the capacitances add),
- *   others as series; plusReadingNote says how it is read and how to write the other.
+ *   others as series, so $lib/parts asks which is meant (AmbiguousPlusError) instead of reading it.
  */
 import { decodeMarking, formatValue } from './values';
 
@@ -98,18 +98,4 @@ export function decodeCapacitorCode(text: string): { value: number; tolerancePct
 	if (!/^\d{3}[FGJKM]$/.test(s)) return null;
 	const d = decodeMarking(s, 'capacitor');
 	return { value: d.value, ...(d.tolerancePct !== undefined ? { tolerancePct: d.tolerancePct } : {}) };
-}
-
-/**
- * For a capacitor value joined by a bare "+": how it is read (series, as the value parser reads "+") and
- * how to write the other meaning; null when there is no bare "+". Values in farads.
- * plusReadingNote('1u+1u', 1e-6 / 2, 2e-6) → 'Read as in series = 500 nF. Meant parallel (2 µF)? Write 1u||1u or 2×1u parallel.'
- */
-export function plusReadingNote(text: string, seriesF: number, parallelF: number): string | null {
-	if (!/\+(?![/-])/.test(text) || text.includes('||')) return null;
-	const terms = text.split(/\+(?![/-])/).map((t) => t.trim());
-	const same = terms.every((t) => t === terms[0]);
-	const asParallel = same ? `${terms.join('||')} or ${terms.length}×${terms[0]} parallel` : terms.join('||');
-	const asSeries = same ? `${terms.length}×${terms[0]} series` : null;
-	return `Read as in series = ${formatValue(seriesF, 'F')}${asSeries ? ` (clearer: ${asSeries})` : ''}. Meant parallel (${formatValue(parallelF, 'F')})? Write ${asParallel}.`;
 }

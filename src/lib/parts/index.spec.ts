@@ -15,6 +15,8 @@ import {
 	valueAsTyped,
 	partsCautions,
 	valueKindOf,
+	microSpellings,
+	withMicroSign,
 	type PartLineDraft
 } from './index';
 
@@ -239,7 +241,7 @@ describe('potentiometer markings in a parts list', () => {
 	});
 });
 
-describe('bare digits per part kind (IEC 60062 three-digit code)', () => {
+describe('bare digits per part kind (IEC 60062 three- and four-digit codes)', () => {
 	it('reads a bare 104 on a capacitor line as the code in pF: 10 × 10⁴ pF = 100 nF, not 104 F', () => {
 		const p = parsePartValue('104', 'capacitance');
 		expect(p.value).toBeCloseTo(10 * 1e4 * 1e-12, 18);
@@ -259,6 +261,7 @@ describe('bare digits per part kind (IEC 60062 three-digit code)', () => {
 	});
 
 	it('reads 104 on a resistor line as 100 kΩ (IEC 60062 three-digit code) and keeps 100, 47, 1000 as ohms', () => {
+		// IEC 60062 three-digit code: two significant digits and a multiplier; 104 = 10 × 10⁴ Ω (worked by hand).
 		const p = parsePartValue('104', 'resistance');
 		expect(p.value).toBe(10 * 10 ** 4);
 		expect(p.codeReading).toContain('for 104 Ω write 104R');
@@ -267,6 +270,48 @@ describe('bare digits per part kind (IEC 60062 three-digit code)', () => {
 		expect(parsePartValue('47', 'resistance').value).toBe(47);
 		expect(parsePartValue('1000', 'resistance').value).toBe(1000);
 		expect(parsePartValue('104R', 'resistance').value).toBe(104);
+	});
+
+	it('reads 4 bare digits on a resistor line as the IEC 60062 4-digit code: three significant digits and a multiplier', () => {
+		// IEC 60062 (REFERENCE.md §6.1: three significant figures for close tolerances), worked by hand:
+		// 4702 = 470 × 10² Ω = 47 000 Ω; 1001 = 100 × 10¹ Ω = 1 000 Ω; 2493 = 249 × 10³ Ω = 249 000 Ω (E96 value).
+		const p = parsePartValue('4702', 'resistance');
+		expect(p.value).toBe(470 * 10 ** 2);
+		expect(p.codeReading).toBe('"4702" is read as the 4-digit resistor code (IEC 60062): 470 × 10² Ω = 47.0 kΩ; for 4702 Ω write 4702R.');
+		expect(parsePartValue('1001', 'resistance').value).toBe(100 * 10 ** 1);
+		expect(parsePartValue('2493', 'resistance').value).toBe(249 * 10 ** 3);
+		// IEC 60062: 1004 = 100 × 10⁴ Ω = 1 MΩ.
+		expect(parsePartValue('1004', 'resistance').value).toBe(1e6);
+		// Ohms as written where the last digit is no multiplier 1–6 (as for 3 digits), and with the R written out.
+		expect(parsePartValue('4702R', 'resistance').value).toBe(4702);
+		expect(parsePartValue('2200', 'resistance').value).toBe(2200);
+		// In a network: 1001 + 1001 = 1 kΩ + 1 kΩ = 2 kΩ (series resistors add).
+		expect(parsePartValue('1001+1001', 'resistance').value).toBe(2000);
+		// The same four digits are no capacitor code (4-digit codes are resistor codes, IEC 60062): refused with a sentence.
+		expect(() => parsePartValue('4702', 'capacitance')).toThrow(/"4702" on a capacitor line has no unit: write it with one/);
+	});
+
+	it('never reads a bare number on an inductor line as henries: the 3-digit code in µH, else a sentence', () => {
+		// Common marking practice (no single source; from memory): inductors carry the 3-digit code in µH,
+		// 101 = 10 × 10¹ µH = 100 µH, 472 = 47 × 10² µH = 4.7 mH.
+		const p = parsePartValue('101', 'inductance');
+		expect(p.value).toBeCloseTo(100e-6, 15);
+		expect(p.unit).toBe('H');
+		expect(p.codeReading).toBe('"101" is read as the 3-digit inductor code in µH (common marking practice): 10 × 10¹ µH = 100 µH.');
+		expect(parsePartValue('472', 'inductance').value).toBeCloseTo(4.7e-3, 15);
+		// "100" would be 100 H as a plain number and 10 µH as the code: neither is guessed.
+		expect(() => parsePartValue('100', 'inductance')).toThrow(
+			'"100" on an inductor line has no unit (as a 3-digit inductor code "100" would be 10.0 µH): a bare number is not read as henries; write it with one, e.g. 100u for µH or 100m for mH'
+		);
+		expect(() => parsePartValue('4.7', 'inductance')).toThrow(/"4.7" on an inductor line has no unit: a bare number is not read as henries/);
+		// With a unit or a multiplier letter it is read as written: 100u = 100 µH, 10uH = 10 µH, 1m5 = 1.5 mH (RKM).
+		expect(parsePartValue('100u', 'inductance').value).toBeCloseTo(100e-6, 15);
+		expect(parsePartValue('10uH', 'inductance').value).toBeCloseTo(10e-6, 15);
+		expect(parsePartValue('1m5', 'inductance').value).toBeCloseTo(1.5e-3, 15);
+		// Through a line: refused with the sentence on the value field, nothing stored.
+		const r = normaliseLine(draft({ designators: 'L1', kind: 'inductor', value: '100' }), 4);
+		expect(r.line).toBeUndefined();
+		expect(r.errors).toEqual([expect.objectContaining({ line: 4, field: 'value', message: expect.stringContaining('is not read as henries') })]);
 	});
 
 	it('stores the reading as a note on the line, so a misreading shows', () => {
@@ -338,5 +383,31 @@ describe('partsCautions: a caution said once per list', () => {
 		expect(r).toHaveLength(1);
 		expect(r[0].lines).toEqual(['C1', 'C2']);
 		expect(r[0].text).toMatch(/defer to local codes/);
+	});
+});
+
+describe('the micro sign: µ (U+00B5) and the Greek mu μ (U+03BC)', () => {
+	const MICRO = '\u00b5';
+	const MU = '\u03bc';
+	it('reads both alike and stores values with the micro sign only', () => {
+		// 4µ7 = 4.7 µF (RKM, IEC 60062: the letter stands for the decimal point); the same with either character.
+		expect(parsePartValue(`4${MICRO}7`, 'capacitance').value).toBeCloseTo(4.7e-6, 15);
+		expect(parsePartValue(`4${MU}7`, 'capacitance').value).toBeCloseTo(4.7e-6, 15);
+		expect(parsePartValue(`2×10000${MU}`, 'capacitance').value).toBeCloseTo(2e-2, 12);
+		const r = normaliseLine(draft({ designators: 'C1', kind: 'capacitor', value: `10000${MU}/63V`, designValue: `4${MU}7` }), 1);
+		expect(r.line!.valueText).toBe(`10000${MICRO}/63V`);
+		expect(r.line!.designValueText).toBe(`4${MICRO}7`);
+		expect(r.line!.valueText.includes(MU)).toBe(false);
+		// Shown as typed beside the SI reading, which is written with the micro sign.
+		expect(valueAsTyped({ valueText: `4.70${MU}F`, value: 4.7e-6, unit: 'F' })).toEqual({ typed: `4.70${MU}F`, si: null });
+		expect(valueAsTyped({ valueText: `4${MU}7`, value: 4.7e-6, unit: 'F' })).toEqual({ typed: `4${MU}7`, si: `4.70 ${MICRO}F` });
+		expect(formatPartValue(4.7e-6, 'F')).toBe(`4.70 ${MICRO}F`);
+	});
+
+	it('gives a search text in both spellings when it has either sign, and once when it has neither', () => {
+		expect(microSpellings(`10000${MU} caps`)).toEqual([`10000${MICRO} caps`, `10000${MU} caps`]);
+		expect(microSpellings(`4${MICRO}7`)).toEqual([`4${MICRO}7`, `4${MU}7`]);
+		expect(microSpellings('4k7')).toEqual(['4k7']);
+		expect(withMicroSign(`${MU}${MU}`)).toBe(`${MICRO}${MICRO}`);
 	});
 });

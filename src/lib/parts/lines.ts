@@ -6,7 +6,7 @@
  */
 import { decodeMarking } from '$lib/engineering';
 import { PART_KINDS, normaliseKind, valueKindOf, type PartKind } from './kinds';
-import { AmbiguousPlusError, deviationPct, designRatingOf, parsePartValue, parsePercent, parseVoltageRating, parseWatts, voltageRatingText } from './values';
+import { AmbiguousPlusError, withMicroSign, deviationPct, designRatingOf, parsePartValue, parsePercent, parseVoltageRating, parseWatts, voltageRatingText } from './values';
 import { partChecks } from './checks';
 import { parseCurrency, parseFlag, parseUnitPrice, priceText } from './cost';
 
@@ -150,9 +150,10 @@ export function normaliseLine(draft: PartLineDraft, line: number, ctx: PartConte
 	if (kindText === '') err('kind', 'choose a part kind');
 	else if (!kind) err('kind', `"${kindText}" is not a part kind; use one of ${PART_KINDS.join(', ')}`);
 
-	const valueText = text(draft.value);
+	// Values are stored with the micro sign only (U+00B5); a Greek mu (U+03BC) is rewritten to it.
+	const valueText = withMicroSign(text(draft.value));
 	if (valueText.length > PARTS_LIMITS.value) err('value', `the value is at most ${PARTS_LIMITS.value} characters`);
-	const designText = text(draft.designValue);
+	const designText = withMicroSign(text(draft.designValue));
 	if (designText.length > PARTS_LIMITS.value) err('designValue', `the design value is at most ${PARTS_LIMITS.value} characters`);
 
 	/** An optional number field: blank → null; else parsed, then checked against (0, max]. */

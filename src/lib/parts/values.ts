@@ -14,7 +14,7 @@
  *   X/Y capacitors) — and a tolerance — `4k7 ±1%`, `100n 10%`;
  * - a resistor position bridged by a wire: kind "jumper", or value `0R`, `0`, `link`, `jumper`.
  */
-import { cleanNumber, networkValue, parseValue, type NetworkPart, type ValueKind, type ValueUnit } from '$lib/engineering';
+import { decodeMarking, networkValue, parseValue, type NetworkPart, type ValueKind, type ValueUnit } from '$lib/engineering';
 import { PREFIXES } from '$lib/engineering/values';
 import { decodeCapacitorCode, decodeVoltageCodedMarking, expandCount } from '$lib/engineering/trade-notation';
 import { valueKindOf, type PartKind } from './kinds';
@@ -121,38 +121,54 @@ function networkReading(values: number[], unit: ValueUnit, arrangement: 'series'
 	return `${parts} ${how} = ${formatPartValue(total, unit)}`;
 }
 
+/** Superscript powers of ten for the readings' sentences: power(4) → "10⁴", power(-1) → "10⁻¹". */
+const power = (e: number) => `10${e < 0 ? '⁻' : ''}${[...String(Math.abs(e))].map((d) => '⁰¹²³⁴⁵⁶⁷⁸⁹'[Number(d)]).join('')}`;
+
 /**
- * Bare digits on a line of a known kind ("104", "470", "0.1"), read per IEC 60062 where they are a marking:
- * - capacitor: 3 digits not ending in 0 are the 3-digit code in pF ("104" = 10 × 10⁴ pF = 100 nF; 8 and 9 as
- *   the last digit are ×0.01 and ×0.1); anything else bare ("470", "10", "0.1") is refused, since makers mean pF,
- *   µF or the code and the unit decides;
- * - resistor: 3 digits whose last digit is 1–6 are the 3-digit code in Ω ("104" = 100 kΩ, "472" = 4.7 kΩ); other
- *   bare numbers ("100", "47", "1000") stay ohms as written;
- * - inductor: left to parseValue.
+ * Bare digits on a line of a known kind ("104", "4702", "470", "0.1"), read per IEC 60062 where they are a marking
+ * (the values themselves come from decodeMarking, $lib/engineering):
+ * - capacitor: 3 digits not ending in 0 are the 3-digit code in pF ("104" = 10 × 10⁴ pF = 100 nF; 8 and 9 as the
+ *   last digit are ×0.01 and ×0.1); anything else bare ("470", "10", "0.1") is refused, since makers mean pF, µF or
+ *   the code and the unit decides;
+ * - resistor: 3 digits whose last digit is 1–6 are the 3-digit code in Ω ("104" = 100 kΩ, "472" = 4.7 kΩ) and 4 digits
+ *   whose last digit is 1–6 the 4-digit code, three significant digits and a multiplier ("4702" = 470 × 10² Ω =
+ *   47.0 kΩ, "1001" = 1.00 kΩ); other bare numbers ("100", "47", "1000") stay ohms as written;
+ * - inductor: 3 digits whose last digit is 1–6 are the 3-digit code in µH ("101" = 10 × 10¹ µH = 100 µH; common
+ *   marking practice on moulded and chip inductors, no single source); any other bare number is refused — "100" on
+ *   an inductor line is never read as 100 H.
  * → the value and the sentence that says how it was read, or null when the text is not bare digits.
  */
 function readBareDigits(core: string, kind: ValueKind): { value: number; codeReading?: string } | null {
 	if (!/^\d+(?:[.,]\d+)?$/.test(core)) return null;
-	const code = /^\d{3}$/.test(core) ? { sig: Number(core.slice(0, 2)), exp: Number(core[2]) } : null;
-	const codeValue = (scale: number) => {
-		const e = code!.exp;
-		return cleanNumber((e === 8 ? code!.sig / 100 : e === 9 ? code!.sig / 10 : code!.sig * 10 ** e) * scale);
-	};
-	const power = (e: number) => (e === 8 ? '10⁻²' : e === 9 ? '10⁻¹' : `10${'⁰¹²³⁴⁵⁶⁷'[e]}`);
+	const code = /^\d{3,4}$/.test(core) ? { sig: Number(core.slice(0, -1)), exp: Number(core.at(-1)), digits: core.length } : null;
+	const exp = code ? (code.exp === 8 ? -2 : code.exp === 9 ? -1 : code.exp) : 0;
+	const threeDigits = code?.digits === 3;
+	const multiplierCode = !!code && code.exp >= 1 && code.exp <= 6;
 	if (kind === 'capacitance') {
-		if (code && code.exp !== 0) {
-			const value = codeValue(1e-12);
-			return { value, codeReading: `"${core}" is read as the 3-digit capacitor code: ${code.sig} × ${power(code.exp)} pF = ${formatPartValue(value, 'F')}.` };
+		if (threeDigits && code.exp !== 0) {
+			const value = decodeMarking(core, 'capacitor').value;
+			return { value, codeReading: `"${core}" is read as the 3-digit capacitor code: ${code.sig} × ${power(exp)} pF = ${formatPartValue(value, 'F')}.` };
 		}
-		const asCode = code ? ` (as a 3-digit code "${core}" would be ${formatPartValue(codeValue(1e-12), 'F')})` : '';
+		const asCode = threeDigits ? ` (as a 3-digit code "${core}" would be ${formatPartValue(decodeMarking(core, 'capacitor').value, 'F')})` : '';
 		throw new RangeError(`"${core}" on a capacitor line has no unit${asCode}: write it with one, e.g. ${core}p, ${core}n or ${core}u`);
 	}
-	if (kind === 'resistance' && code && code.exp >= 1 && code.exp <= 6) {
-		const value = codeValue(1);
+	if (kind === 'resistance' && multiplierCode) {
+		const value = decodeMarking(core, 'resistor').value;
 		return {
 			value,
-			codeReading: `"${core}" is read as the 3-digit resistor code (IEC 60062): ${code.sig} × ${power(code.exp)} Ω = ${formatPartValue(value, 'ohm')}; for ${core} Ω write ${core}R.`
+			codeReading: `"${core}" is read as the ${code.digits}-digit resistor code (IEC 60062): ${code.sig} × ${power(exp)} Ω = ${formatPartValue(value, 'ohm')}; for ${core} Ω write ${core}R.`
 		};
+	}
+	if (kind === 'inductance') {
+		if (threeDigits && multiplierCode) {
+			const value = decodeMarking(core, 'inductor').value;
+			return {
+				value,
+				codeReading: `"${core}" is read as the 3-digit inductor code in µH (common marking practice): ${code.sig} × ${power(exp)} µH = ${formatPartValue(value, 'H')}.`
+			};
+		}
+		const asCode = threeDigits ? ` (as a 3-digit inductor code "${core}" would be ${formatPartValue(decodeMarking(core, 'inductor').value, 'H')})` : '';
+		throw new RangeError(`"${core}" on an inductor line has no unit${asCode}: a bare number is not read as henries; write it with one, e.g. ${core}u for µH or ${core}m for mH`);
 	}
 	return null;
 }
@@ -267,6 +283,28 @@ export function parsePartValue(text: string, kind: ValueKind): ParsedPartValue {
 		);
 	}
 	return { value, unit, parts, arrangement, ...extra, reading: networkReading(all, unit, arrangement, value) };
+}
+
+/** The micro sign (U+00B5): THE way values are written and shown (formatPartValue), never the Greek small mu. */
+export const MICRO_SIGN = '\u00b5';
+/** The Greek small letter mu (U+03BC), which keyboards and fonts often give instead of the micro sign. */
+export const GREEK_MU = '\u03bc';
+
+/**
+ * A value as stored: the Greek small mu (U+03BC) written as the micro sign (U+00B5), so every value uses one sign.
+ * withMicroSign('4μ7') → '4µ7' (U+00B5). Both parse alike (parseValue reads either); this keeps stored text uniform.
+ */
+export function withMicroSign(text: string): string {
+	return text.replaceAll(GREEK_MU, MICRO_SIGN);
+}
+
+/**
+ * The spellings of a search text that differ only in the micro sign: ['10000µ caps'] when it has neither sign, else
+ * the text with every µ/μ as U+00B5 and as U+03BC (two entries), so a search for one finds text written with the other.
+ */
+export function microSpellings(text: string): string[] {
+	if (!text.includes(MICRO_SIGN) && !text.includes(GREEK_MU)) return [text];
+	return [withMicroSign(text), text.replaceAll(MICRO_SIGN, GREEK_MU)];
 }
 
 /** What GET /api/v1/parts/value answers: the value read for a part kind, its display and how it was read. */

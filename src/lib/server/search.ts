@@ -9,6 +9,7 @@ import { and, asc, desc, eq, inArray, sql, type SQL } from 'drizzle-orm';
 import { db, type Tx } from './db';
 import * as schema from './db/schema';
 import { escapeUTF8 as escapeHtml } from 'entities';
+import { microSpellings } from '$lib/parts/values';
 
 /** Longest search text kept per build, in characters (the tsvector has a 1 MB limit; this is far below it). */
 const SEARCH_TEXT_MAX = 200_000;
@@ -55,9 +56,12 @@ export async function refreshSearchText(tx: Tx, buildId: string): Promise<void> 
 	await tx.update(schema.build).set({ searchText: text }).where(eq(schema.build.id, buildId));
 }
 
-/** websearch_to_tsquery over the English configuration: quotes, `or` and `-word` work as people expect. */
+/**
+ * websearch_to_tsquery over the English configuration: quotes, `or` and `-word` work as people expect. A text with a
+ * micro sign is searched in both spellings, µ (U+00B5) and μ (U+03BC), so "4µ7" finds "4μ7" too ($lib/parts microSpellings).
+ */
 export function searchQuery(q: string): SQL {
-	return sql`websearch_to_tsquery('english', ${q})`;
+	return sql`(${sql.join(microSpellings(q).map((v) => sql`websearch_to_tsquery('english', ${v})`), sql` || `)})`;
 }
 
 /** Rank of a build against a tsquery: cover density, length-normalised (flag 1: divide by 1 + log(length)). */

@@ -10,6 +10,7 @@ import type { DbLike } from '../db/tx';
 import type { Viewer } from '../actor';
 import { canEdit, isOwner } from './access';
 import { findPhotoViews } from '../photos';
+import { markRemovedPhotos, placedPhotoIds } from './steps';
 import type { BuildSnapshot } from './snapshot';
 import type { BuildContent } from './queries';
 
@@ -31,7 +32,8 @@ export async function loadPublishedContent(b: schema.Build, dbx: DbLike = db): P
 	if (!rev) return null;
 	const snap = rev.snapshot as unknown as BuildSnapshot;
 	const coverId = snap.build.coverPhotoId ?? null;
-	const photos = await findPhotoViews([...(coverId ? [coverId] : []), ...snap.steps.flatMap((s) => s.photoIds ?? [])], dbx);
+	const placed = snap.steps.flatMap((s) => placedPhotoIds(s.bodyHtml));
+	const photos = await findPhotoViews([...(coverId ? [coverId] : []), ...snap.steps.flatMap((s) => s.photoIds ?? []), ...placed], dbx);
 	const at = rev.createdAt;
 	const build: schema.Build = {
 		...b,
@@ -53,7 +55,8 @@ export async function loadPublishedContent(b: schema.Build, dbx: DbLike = db): P
 				position: i,
 				title: s.title,
 				bodyMd: s.bodyMd,
-				bodyHtml: s.bodyHtml,
+				// Photos placed in the text and deleted since read as a sentence, not a broken image.
+				bodyHtml: markRemovedPhotos(s.bodyHtml, (id) => photos.has(id)),
 				createdAt: at,
 				updatedAt: at,
 				photos: (s.photoIds ?? []).map((id) => photos.get(id)).filter((p) => !!p)

@@ -2,7 +2,7 @@
 // from the two snapshots written out below.
 import { describe, expect, it } from 'vitest';
 import { diffRevisions, recordChanges, textRuns } from './revision-diff';
-import type { BuildSnapshot, SnapshotPart } from './snapshot';
+import { diffSnapshots, type BuildSnapshot, type SnapshotPart } from './snapshot';
 
 const part = (id: string, over: Partial<SnapshotPart>): SnapshotPart => ({
 	id,
@@ -82,6 +82,59 @@ describe('diffRevisions', () => {
 		expect(d.steps.map((s) => s.status)).toEqual(['changed', 'same', 'removed']);
 		expect(d.parts.at(-1)).toMatchObject({ label: 'R2 4k7', status: 'removed' });
 		expect(diffRevisions(A, A).empty).toBe(true);
+	});
+});
+
+describe('flags of parts lines and attachments', () => {
+	const schematic = { id: 'a1', name: 'schematic-rev2.pdf', kind: 'schematic' };
+	const gerbers = { id: 'a2', name: 'board-gerbers.zip', kind: 'pcb' };
+	const before: BuildSnapshot = {
+		...A,
+		parts: [
+			part('l1', { designators: 'R1', valueText: '0R22', ratingW: 5 }),
+			part('l4', { designators: 'CX1', kind: 'capacitor', valueText: '100n', ratingV: 275, ratingVAc: false })
+		],
+		attachments: [schematic]
+	};
+	const after: BuildSnapshot = {
+		...A,
+		parts: [
+			part('l1', { designators: 'R1', valueText: '0R22', ratingW: 5, perChannel: true }),
+			part('l4', { designators: 'CX1', kind: 'capacitor', valueText: '100n', ratingV: 275, ratingVAc: true })
+		],
+		attachments: [gerbers]
+	};
+
+	it('lists a per-channel flag and an AC rating that changed, as yes/no', () => {
+		const d = diffRevisions(before, after);
+		expect(d.parts.map((p) => [p.label, p.status, p.fields])).toEqual([
+			['R1 0R22', 'changed', [{ name: 'per channel', before: 'no', after: 'yes' }]],
+			['CX1 100n', 'changed', [{ name: 'voltage rating is AC', before: 'no', after: 'yes' }]]
+		]);
+		// The revision summary counts the same two lines.
+		expect(diffSnapshots(before, after)).toContain('parts: 2 changed');
+	});
+
+	it('lists attachments added and removed by name and kind (matched by id), and counts them as a difference', () => {
+		const d = diffRevisions(before, after);
+		expect(d.attachments).toEqual([
+			{ status: 'added', name: 'board-gerbers.zip', kind: 'pcb' },
+			{ status: 'removed', name: 'schematic-rev2.pdf', kind: 'schematic' }
+		]);
+		const onlyFiles = diffRevisions(before, { ...before, attachments: [schematic, gerbers] });
+		expect(onlyFiles.empty).toBe(false);
+		expect(onlyFiles.attachments).toEqual([{ status: 'added', name: 'board-gerbers.zip', kind: 'pcb' }]);
+	});
+
+	it('reads a snapshot from before the flags and attachments existed as "no" and none: nothing differs', () => {
+		// Older snapshots have no ratingVAc/perChannel keys and no attachments list.
+		const old: BuildSnapshot = { ...A, attachments: undefined };
+		const now: BuildSnapshot = { ...A, parts: A.parts.map((p) => ({ ...p, ratingVAc: false, perChannel: false, mpn: '', supplier: '', unitPrice: null, currency: null })), attachments: [] };
+		expect(diffRevisions(old, now).empty).toBe(true);
+		expect(diffSnapshots(old, now)).toEqual([]);
+		// An added line lists the fields it has, not its unset flags.
+		const added = diffRevisions(A, { ...A, parts: [...A.parts, part('l5', { designators: 'R5', valueText: '1k', perChannel: false })] }).parts.at(-1)!;
+		expect(added.fields.map((f) => f.name)).toEqual(['designators', 'quantity', 'kind', 'value']);
 	});
 });
 

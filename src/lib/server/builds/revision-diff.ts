@@ -1,11 +1,25 @@
 /**
  * The differences between two revisions of a build, for the revisions compare page: build fields, step
- * text line by line (jsdiff's `diffLines`), spec-block values field by field, and parts lines field by
- * field. Items are matched as the revision summary matches them (diffList: by id, then content, then label).
- * Pure; no I/O.
+ * text line by line (jsdiff's `diffLines`), spec-block values field by field, parts lines field by field
+ * (snapshot.ts PART_DIFF_FIELDS: flags such as per channel and an AC rating as yes/no), and attachments
+ * added or removed. Items are matched as the revision summary matches them (diffList: by id, then content,
+ * then label). Pure; no I/O.
  */
 import { diffLines } from 'diff';
-import { diffList, stableJson, type BuildSnapshot, type SnapshotPart, type SnapshotSpecBlock, type SnapshotStep } from './snapshot';
+import {
+	BUILD_FIELD_NAMES,
+	PART_DIFF_FIELDS,
+	attachmentChanges,
+	diffList,
+	partContent,
+	partLabel,
+	partMatchKey,
+	shownPartField,
+	specContent,
+	stableJson,
+	stepContent,
+	type BuildSnapshot
+} from './snapshot';
 
 export type ItemStatus = 'added' | 'removed' | 'changed' | 'same';
 
@@ -37,11 +51,19 @@ export interface ListItemDiff {
 	fields: FieldChange[];
 }
 
+/** A file attached or taken off between the two revisions. */
+export interface AttachmentDiff {
+	status: 'added' | 'removed';
+	name: string;
+	kind: string;
+}
+
 export interface RevisionDiff {
 	fields: FieldChange[];
 	steps: StepDiff[];
 	specBlocks: ListItemDiff[];
 	parts: ListItemDiff[];
+	attachments: AttachmentDiff[];
 	/** True when nothing differs. */
 	empty: boolean;
 }
@@ -93,44 +115,12 @@ function pairUp<T extends { id: string }>(prev: T[], next: T[], content: (x: T) 
 
 const statusOf = (before: unknown, after: unknown, same: boolean): ItemStatus => (!before ? 'added' : !after ? 'removed' : same ? 'same' : 'changed');
 
-const PART_FIELDS: [keyof SnapshotPart, string][] = [
-	['designators', 'designators'],
-	['quantity', 'quantity'],
-	['kind', 'kind'],
-	['valueText', 'value'],
-	['tolerancePct', 'tolerance %'],
-	['ratingV', 'rating V'],
-	['ratingW', 'rating W'],
-	['package', 'package'],
-	['notes', 'notes'],
-	['designValueText', 'design value'],
-	['substitutionReason', 'substitution reason'],
-	['mpn', 'manufacturer part number'],
-	['supplier', 'supplier'],
-	['unitPrice', 'unit price'],
-	['currency', 'currency']
-];
-
-const partLabel = (p: SnapshotPart) => [p.designators, p.valueText || p.kind].filter(Boolean).join(' ') || p.kind;
-const partContent = (p: SnapshotPart) => stableJson(PART_FIELDS.map(([k]) => (p[k] === '' ? null : p[k]) ?? null));
-const stepContent = (s: SnapshotStep) => stableJson([s.title, s.bodyMd]);
-const specContent = (b: SnapshotSpecBlock) => stableJson([b.kind, b.title, b.data]);
-
-const BUILD_FIELDS: [keyof BuildSnapshot['build'], string][] = [
-	['title', 'title'],
-	['summary', 'summary'],
-	['category', 'category'],
-	['topology', 'topology'],
-	['mainsPowered', 'mains powered'],
-	['licence', 'licence']
-];
-
 /**
  * Everything that differs between two snapshots (older first). Steps come with their text as line runs;
  * spec blocks and parts lines with the fields that changed (all fields for added or removed ones).
  */
 export function diffRevisions(prev: BuildSnapshot, next: BuildSnapshot): RevisionDiff {
-	const fields = BUILD_FIELDS.filter(([k]) => stableJson(prev.build[k]) !== stableJson(next.build[k])).map(([k, name]) => ({
+	const fields = BUILD_FIELD_NAMES.filter(([k]) => stableJson(prev.build[k]) !== stableJson(next.build[k])).map(([k, name]) => ({
 		name,
 		before: show(prev.build[k]),
 		after: show(next.build[k])
@@ -162,19 +152,24 @@ export function diffRevisions(prev: BuildSnapshot, next: BuildSnapshot): Revisio
 		return { status: statusOf(before, after, changes.length === 0), label: `${item.kind}${item.title ? `: ${item.title}` : ''}`, fields: changes };
 	});
 
-	const parts: ListItemDiff[] = pairUp(prev.parts, next.parts, partContent, (p) => `${p.designators}|${p.kind}`).map(({ before, after }) => {
-		// Compared as shown: an empty text and no value are the same to a reader.
-		const changes = PART_FIELDS.filter(([k]) => show(before?.[k]) !== show(after?.[k])).map(([k, name]) => ({
-			name,
-			before: show(before?.[k]),
-			after: show(after?.[k])
-		}));
+	const parts: ListItemDiff[] = pairUp(prev.parts, next.parts, partContent, partMatchKey).map(({ before, after }) => {
+		// Compared as shown: an empty text and no value are the same to a reader, an absent flag and "no" too.
+		const changes = PART_DIFF_FIELDS.map((f) => ({ name: f[1], before: shownPartField(before, f), after: shownPartField(after, f) })).filter(
+			(c) => c.before !== c.after
+		);
 		return { status: statusOf(before, after, changes.length === 0), label: partLabel((after ?? before)!), fields: changes };
 	});
 
+	const files = attachmentChanges(prev, next);
+	const attachments: AttachmentDiff[] = [
+		...files.added.map((a) => ({ status: 'added' as const, name: a.name, kind: a.kind })),
+		...files.removed.map((a) => ({ status: 'removed' as const, name: a.name, kind: a.kind }))
+	];
+
 	const empty =
 		fields.length === 0 &&
+		attachments.length === 0 &&
 		[...steps, ...specBlocks, ...parts].every((x) => x.status === 'same') &&
 		!steps.some((s) => s.photos.added || s.photos.removed);
-	return { fields, steps, specBlocks, parts, empty };
+	return { fields, steps, specBlocks, parts, attachments, empty };
 }

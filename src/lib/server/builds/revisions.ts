@@ -9,13 +9,14 @@ import { and, asc, desc, eq, gt, isNotNull, ne, sql } from 'drizzle-orm';
 import * as schema from '../db/schema';
 import type { Tx } from '../db';
 import { db } from '../db';
-import { diffSnapshots, summarize, type BuildSnapshot } from './snapshot';
+import { diffSnapshots, snapshotPart, snapshotSpecBlock, summarize, type BuildSnapshot } from './snapshot';
 import { findPhotoViews } from '../photos';
 import { inTx, type DbLike } from '../db/tx';
 import type { Actor } from '../actor';
 import { assertCanEdit } from './access';
 import { revisionLabel } from '$lib/revision-label';
 import { refreshFindIndex } from './find-index';
+import { markRemovedPhotos, placedPhotoIds } from './steps';
 
 /** Read the build's current content into a snapshot (in the caller's transaction, to see its writes). */
 export async function takeSnapshot(tx: DbLike, buildId: string): Promise<BuildSnapshot> {
@@ -54,39 +55,8 @@ export async function takeSnapshot(tx: DbLike, buildId: string): Promise<BuildSn
 			bodyHtml: s.bodyHtml,
 			photoIds: photos.filter((p) => p.stepId === s.id).map((p) => p.id)
 		})),
-		specBlocks: specBlocks.map((s) => ({
-			id: s.id,
-			kind: s.kind,
-			title: s.title,
-			data: s.data,
-			derived: s.derived,
-			checks: s.checks
-		})),
-		parts: parts.map((p) => ({
-			id: p.id,
-			designators: p.designators,
-			quantity: p.quantity,
-			kind: p.kind,
-			valueText: p.valueText,
-			value: p.value,
-			unit: p.unit,
-			tolerancePct: p.tolerancePct,
-			ratingV: p.ratingV,
-			ratingW: p.ratingW,
-			package: p.package,
-			notes: p.notes,
-			designValueText: p.designValueText,
-			designValue: p.designValue,
-			substitutionReason: p.substitutionReason,
-			deviationPct: p.deviationPct,
-			ratingVAc: p.ratingVAc,
-			mpn: p.mpn,
-			supplier: p.supplier,
-			unitPrice: p.unitPrice,
-			currency: p.currency,
-			perChannel: p.perChannel,
-			checks: p.checks
-		})),
+		specBlocks: specBlocks.map(snapshotSpecBlock),
+		parts: parts.map(snapshotPart),
 		attachments
 	};
 }
@@ -242,7 +212,7 @@ export async function getRevisionView(buildId: string, number: number, dbx: DbLi
 	const rev = await getRevision(buildId, number, dbx);
 	if (!rev) return null;
 	const snap = rev.snapshot;
-	const photos = await findPhotoViews(snap.steps.flatMap((s) => s.photoIds ?? []), dbx);
+	const photos = await findPhotoViews(snap.steps.flatMap((s) => [...(s.photoIds ?? []), ...placedPhotoIds(s.bodyHtml)]), dbx);
 	return {
 		revision: { number: rev.number, summary: rev.summary, note: rev.note, createdAt: rev.createdAt, authorName: rev.authorName },
 		snapshot: {
@@ -250,7 +220,7 @@ export async function getRevisionView(buildId: string, number: number, dbx: DbLi
 			steps: snap.steps.map((s) => ({
 				id: s.id,
 				title: s.title,
-				bodyHtml: s.bodyHtml,
+				bodyHtml: markRemovedPhotos(s.bodyHtml, (id) => photos.has(id)),
 				photos: (s.photoIds ?? []).map((id) => photos.get(id)).filter((p) => !!p),
 				photosGone: (s.photoIds ?? []).filter((id) => !photos.has(id)).length
 			})),

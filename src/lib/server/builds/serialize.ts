@@ -9,6 +9,7 @@ import { CATEGORY_LABELS, PROGRESS_LABELS, TOPOLOGY_LABELS, labelOf } from '$lib
 import type { PhotoView } from '$lib/media';
 import type { BuildListRow } from './list';
 import type { BuildContent, Lineage, LineageLink } from './queries';
+import { snapshotPart, snapshotSpecBlock } from './snapshot';
 
 /** A photo in API form: pixel sizes, alt text and the URL of every WebP rendition. */
 export function serializePhoto(p: Omit<PhotoView, 'placeholder'>) {
@@ -102,45 +103,17 @@ export function serializeBuildDetail({ build: b, maker: m, content, lineage, rev
 			bodyHtml: s.bodyHtml,
 			photos: s.photos.map(serializePhoto)
 		})),
-		specBlocks: content.specBlocks.map((s) => ({
-			id: s.id,
-			kind: s.kind,
-			title: s.title,
-			data: s.data,
-			derived: s.derived,
-			checks: s.checks
-		})),
-		parts: content.parts.map((p) => ({
-			id: p.id,
-			position: p.position,
-			designators: p.designators,
-			quantity: p.quantity,
-			kind: p.kind,
-			valueText: p.valueText,
-			value: p.value,
-			unit: p.unit,
-			tolerancePct: p.tolerancePct,
-			ratingV: p.ratingV,
-			ratingW: p.ratingW,
-			ratingVAc: p.ratingVAc,
-			package: p.package,
-			notes: p.notes,
-			mpn: p.mpn,
-			supplier: p.supplier,
-			unitPrice: p.unitPrice,
-			currency: p.currency,
-			perChannel: p.perChannel,
-			substitution:
-				p.designValueText != null && p.designValueText !== ''
-					? {
-							designValueText: p.designValueText,
-							designValue: p.designValue,
-							reason: p.substitutionReason,
-							deviationPct: p.deviationPct
-						}
-					: null,
-			checks: p.checks
-		})),
+		specBlocks: content.specBlocks.map(snapshotSpecBlock),
+		parts: content.parts.map((p) => {
+			// The line as a revision keeps it (one field list: snapshot.ts), with the substitution fields grouped.
+			const { designValueText, designValue, substitutionReason, deviationPct, ...line } = snapshotPart(p);
+			return {
+				...line,
+				position: p.position,
+				substitution:
+					designValueText != null && designValueText !== '' ? { designValueText, designValue, reason: substitutionReason, deviationPct } : null
+			};
+		}),
 		review: reviewStateJson(review),
 		lineage: {
 			derivedFrom: lineage.derivedFrom ? serializeLink(lineage.derivedFrom) : null,

@@ -138,28 +138,13 @@ function counts(d: ListDiff): string {
 		.join(', ');
 }
 
-const stepContent = (s: SnapshotStep) => stableJson([s.title, s.bodyMd]);
-const specContent = (b: SnapshotSpecBlock) => stableJson([b.kind, b.title, b.data]);
-const partContent = (p: SnapshotPart) =>
-	stableJson([
-		p.designators,
-		p.quantity,
-		p.kind,
-		p.valueText,
-		p.tolerancePct,
-		p.ratingV,
-		p.ratingW,
-		p.package,
-		p.notes,
-		p.designValueText,
-		p.substitutionReason,
-		// Costed-list fields (issue 13) count only when set, so snapshots from before them compare equal.
-		...(p.ratingVAc || p.mpn || p.supplier || (p.unitPrice ?? null) !== null || (p.currency ?? null) !== null || p.perChannel
-			? [!!p.ratingVAc, p.mpn ?? '', p.supplier ?? '', p.unitPrice ?? null, p.currency ?? null, !!p.perChannel]
-			: [])
-	]);
+/** What counts as a step's content (its photos are compared apart). */
+export const stepContent = (s: SnapshotStep) => stableJson([s.title, s.bodyMd]);
+/** What counts as a spec block's content (derived values and checks follow from it). */
+export const specContent = (b: SnapshotSpecBlock) => stableJson([b.kind, b.title, b.data]);
 
-const FIELD_NAMES: [keyof SnapshotBuild, string][] = [
+/** The build fields a revision records and a diff names, with their names on screen. */
+export const BUILD_FIELD_NAMES: readonly [keyof SnapshotBuild, string][] = [
 	['title', 'title'],
 	['summary', 'summary'],
 	['category', 'category'],
@@ -167,6 +152,102 @@ const FIELD_NAMES: [keyof SnapshotBuild, string][] = [
 	['mainsPowered', 'mains powered'],
 	['licence', 'licence']
 ];
+
+const yesNo = (v: unknown) => (v ? 'yes' : 'no');
+
+/**
+ * The fields of a parts line a reader sees, as a diff names and shows them: [field, name on screen, how shown].
+ * Text as typed; numbers plainly; flags as yes/no. Blank, null and absent read alike (and an absent flag as "no"), so
+ * snapshots taken before a field existed compare equal to ones with it unset.
+ */
+export const PART_DIFF_FIELDS: readonly [keyof SnapshotPart, string, (v: unknown) => string][] = (
+	[
+		['designators', 'designators'],
+		['quantity', 'quantity'],
+		['kind', 'kind'],
+		['valueText', 'value'],
+		['tolerancePct', 'tolerance %'],
+		['ratingV', 'rating V'],
+		['ratingVAc', 'voltage rating is AC', yesNo],
+		['ratingW', 'rating W'],
+		['package', 'package'],
+		['notes', 'notes'],
+		['designValueText', 'design value'],
+		['substitutionReason', 'substitution reason'],
+		['mpn', 'manufacturer part number'],
+		['supplier', 'supplier'],
+		['unitPrice', 'unit price'],
+		['currency', 'currency'],
+		['perChannel', 'per channel', yesNo]
+	] as [keyof SnapshotPart, string, ((v: unknown) => string)?][]
+).map(([k, name, show]) => [k, name, show ?? ((v: unknown) => (v === null || v === undefined ? '' : String(v)))]);
+
+/** A parts line's field as a reader sees it (PART_DIFF_FIELDS); no line reads as a line with the field unset ('' or "no"). */
+export const shownPartField = (p: SnapshotPart | null | undefined, field: (typeof PART_DIFF_FIELDS)[number]): string => field[2](p?.[field[0]]);
+
+/** What counts as a parts line's content: every field as shown. */
+export const partContent = (p: SnapshotPart) => stableJson(PART_DIFF_FIELDS.map((f) => shownPartField(p, f)));
+
+/** A parts line's label in summaries and diffs: "R1 0R22", or its kind. */
+export const partLabel = (p: SnapshotPart) => [p.designators, p.valueText || p.kind].filter(Boolean).join(' ') || p.kind;
+/** The key a parts line is matched by when its id changed. */
+export const partMatchKey = (p: SnapshotPart) => `${p.designators}|${p.kind}`;
+
+/** Attachments added and removed between two snapshots, matched by id only (a file replaced by another of the same name is one removed, one added). */
+export function attachmentChanges(prev: BuildSnapshot, next: BuildSnapshot): { added: SnapshotAttachment[]; removed: SnapshotAttachment[] } {
+	const prevIds = new Set((prev.attachments ?? []).map((a) => a.id));
+	const nextIds = new Set((next.attachments ?? []).map((a) => a.id));
+	return {
+		added: (next.attachments ?? []).filter((a) => !prevIds.has(a.id)),
+		removed: (prev.attachments ?? []).filter((a) => !nextIds.has(a.id))
+	};
+}
+
+/** The stored fields of a parts line, in column order: THE list a snapshot keeps and the API shows (with id and checks). */
+export const PART_LINE_KEYS = [
+	'designators',
+	'quantity',
+	'kind',
+	'valueText',
+	'value',
+	'unit',
+	'tolerancePct',
+	'ratingV',
+	'ratingVAc',
+	'ratingW',
+	'package',
+	'notes',
+	'designValueText',
+	'designValue',
+	'substitutionReason',
+	'deviationPct',
+	'mpn',
+	'supplier',
+	'unitPrice',
+	'currency',
+	'perChannel'
+] as const satisfies readonly (keyof PartLineFields)[];
+// Every stored field is in the list: a field added to PartLineFields and not here fails to compile.
+const everyPartField: Exclude<keyof PartLineFields, (typeof PART_LINE_KEYS)[number]> extends never ? true : never = true;
+void everyPartField;
+
+/** The spec block fields a snapshot keeps and the API shows. */
+export const SPEC_BLOCK_KEYS = ['id', 'kind', 'title', 'data', 'derived', 'checks'] as const satisfies readonly (keyof SnapshotSpecBlock)[];
+
+/** `keys` of `o`, in that order. */
+function pick<T, K extends keyof T>(o: T, keys: readonly K[]): Pick<T, K> {
+	return Object.fromEntries(keys.map((k) => [k, o[k]])) as Pick<T, K>;
+}
+
+/** A parts line (a part_line row) as a snapshot keeps it: id, the stored fields (PART_LINE_KEYS) and its checks. */
+export function snapshotPart<P extends PartLineFields & { id: string; checks: unknown }>(p: P): Pick<P, 'id' | (typeof PART_LINE_KEYS)[number] | 'checks'> {
+	return pick(p, ['id', ...PART_LINE_KEYS, 'checks']);
+}
+
+/** A spec block as a snapshot keeps it and the API shows it. */
+export function snapshotSpecBlock<B extends SnapshotSpecBlock>(b: B): Pick<B, (typeof SPEC_BLOCK_KEYS)[number]> {
+	return pick(b, SPEC_BLOCK_KEYS);
+}
 
 /**
  * What changed between two snapshots, as short phrases in a fixed order (steps, build fields, photos,
@@ -183,7 +264,7 @@ export function diffSnapshots(prev: BuildSnapshot, next: BuildSnapshot): string[
 	const order = [...steps.pairs].sort((a, b) => a[1] - b[1]).map(([i]) => i);
 	if (order.some((v, k) => k > 0 && v < order[k - 1])) out.push('steps reordered');
 
-	for (const [key, name] of FIELD_NAMES) {
+	for (const [key, name] of BUILD_FIELD_NAMES) {
 		if (stableJson(prev.build[key]) !== stableJson(next.build[key])) out.push(`${name} changed`);
 	}
 
@@ -199,16 +280,12 @@ export function diffSnapshots(prev: BuildSnapshot, next: BuildSnapshot): string[
 	const specText = counts(specs);
 	if (specText) out.push(`spec blocks: ${specText}`);
 
-	const parts = diffList(prev.parts, next.parts, partContent, (p) => `${p.designators}|${p.kind}`);
+	const parts = diffList(prev.parts, next.parts, partContent, partMatchKey);
 	const partText = counts(parts);
 	if (partText) out.push(`parts: ${partText}`);
 
-	// Attachments are matched by id only: a file replaced by another of the same name is one removed, one added.
-	const prevFiles = new Set((prev.attachments ?? []).map((a) => a.id));
-	const nextFiles = new Set((next.attachments ?? []).map((a) => a.id));
-	const filesAdded = [...nextFiles].filter((a) => !prevFiles.has(a)).length;
-	const filesRemoved = [...prevFiles].filter((a) => !nextFiles.has(a)).length;
-	const fileBits = [filesAdded ? `${filesAdded} added` : '', filesRemoved ? `${filesRemoved} removed` : ''].filter(Boolean);
+	const files = attachmentChanges(prev, next);
+	const fileBits = [files.added.length ? `${files.added.length} added` : '', files.removed.length ? `${files.removed.length} removed` : ''].filter(Boolean);
 	if (fileBits.length) out.push(`attachments: ${fileBits.join(', ')}`);
 
 	return out;

@@ -6,7 +6,8 @@ import { JSDOM } from 'jsdom';
 import { db } from '../db';
 import * as schema from '../db/schema';
 import { createTestUser, removeTestUsers, uniqueTitle } from '../testing/builds';
-import { addStep, createDraft, renderStepMarkdown } from './index';
+import { addStep, createDraft, getRevisionView, loadPublishedContent, markRemovedPhotos, publish, renderStepMarkdown, stepVersion } from './index';
+import { deletePhoto } from '../photos';
 import { renderMarkdown } from '../markdown';
 import { eq } from 'drizzle-orm';
 
@@ -86,5 +87,51 @@ describe('inline code and block quotes', () => {
 		expect(d.querySelector('p')!.textContent).toBe('Use 0R22 emitter resistors.');
 		const q = d.querySelector('blockquote > p')!;
 		expect(q.textContent).toBe('Check the rails before fitting the chips.\nTwice.');
+	});
+});
+
+describe('deleting a photo placed in step text', () => {
+	it('takes its code out of the step text in the same transaction and renders the text again', async () => {
+		const b = await createDraft(maker.id, { title: uniqueTitle('Photo deleted'), summary: '', category: 'power-amp', topology: 'class-ab-discrete', mainsPowered: false, licence: 'CC-BY-4.0' });
+		const gone = await photoRow(b.id);
+		const kept = await photoRow(b.id);
+		const code = (p: schema.Photo) => `[[photo:${p.id.slice(0, 8)}]]`;
+		const { id } = await addStep(maker, b.id, { title: 'Boards', bodyMd: `Fit the board.\n\n${code(gone)}\n\nThen ${code(kept)} the heatsinks.` });
+		const [before] = await db.select().from(schema.buildStep).where(eq(schema.buildStep.id, id));
+		expect(before.bodyHtml).toContain(`/media/photos/${gone.id}/`);
+
+		await deletePhoto(gone.id, maker);
+		const [after] = await db.select().from(schema.buildStep).where(eq(schema.buildStep.id, id));
+		expect(after.bodyMd).toBe(`Fit the board.\n\nThen ${code(kept)} the heatsinks.`);
+		expect(after.bodyHtml).not.toContain(gone.id);
+		expect(doc(after.bodyHtml).querySelectorAll('.photo-missing')).toHaveLength(0);
+		// The other placed photo stays, and the step's version moved on (an editor holding the old text gets a conflict).
+		expect(doc(after.bodyHtml).querySelector('img.placed-photo')!.getAttribute('src')).toBe(`/media/photos/${kept.id}/1280.webp`);
+		expect(stepVersion(after)).not.toBe(stepVersion(before));
+	});
+
+	it('shows a published revision’s placed photo that was deleted since as a sentence, not a broken image', async () => {
+		const b = await createDraft(maker.id, { title: uniqueTitle('Published photo'), summary: '', category: 'power-amp', topology: 'class-ab-discrete', mainsPowered: false, licence: 'CC-BY-4.0' });
+		const p = await photoRow(b.id);
+		await addStep(maker, b.id, { title: 'Boards', bodyMd: `Fit the board.\n\n[[photo:${p.id.slice(0, 8)}]]` });
+		await publish(maker, b.id);
+		await deletePhoto(p.id, maker);
+		const [row] = await db.select().from(schema.build).where(eq(schema.build.id, b.id));
+		// Readers see Rev A, whose stored HTML still places the photo: it reads as removed.
+		for (const html of [(await loadPublishedContent(row))!.content.steps[0].bodyHtml, (await getRevisionView(b.id, 1))!.snapshot.steps[0].bodyHtml]) {
+			expect(html).not.toContain(p.id);
+			expect(doc(html).querySelectorAll('img')).toHaveLength(0);
+			expect(doc(html).querySelector('.photo-missing')!.textContent).toBe('[This photo has been removed.]');
+			expect(doc(html).body.textContent).toContain('Fit the board.');
+		}
+	});
+
+	it('leaves images of photos that exist and anything that is not a placed photo as they are', () => {
+		const id = crypto.randomUUID();
+		const placed = `<p><img class="placed-photo" src="/media/photos/${id}/1280.webp" alt="a &quot;quoted&quot; &gt; alt" width="1280" height="960" loading="lazy" decoding="async"></p>`;
+		expect(markRemovedPhotos(placed, () => true)).toBe(placed);
+		expect(markRemovedPhotos(placed, () => false)).toBe('<p><span class="photo-missing">[This photo has been removed.]</span></p>');
+		const other = `<p><img src="/media/photos/${id}/1280.webp" alt=""></p>`;
+		expect(markRemovedPhotos(other, () => false)).toBe(other);
 	});
 });

@@ -38,6 +38,56 @@ export async function renderStepMarkdown(dbx: DbLike | undefined, buildId: strin
 	return renderMarkdown(md, { photos: (ref) => placed.get(ref) ?? null });
 }
 
+/**
+ * A photo of the build is being deleted (in `tx`, after its row is gone): take its `[[photo:…]]` code out of the
+ * build's step text and store the text rendered again, so no step keeps an image that is gone or a code that points
+ * nowhere. The step's version moves on, so an editor still holding the old text gets the usual conflict instead of
+ * putting the code back unseen. If another photo of the build shares the 8-character code, the text keeps it (it now
+ * names that photo) and is only rendered again. → the number of steps changed.
+ */
+export async function forgetPlacedPhoto(tx: Tx, buildId: string, photoId: string): Promise<number> {
+	const ref = photoId.slice(0, 8).toLowerCase();
+	if (!/^[0-9a-f]{8}$/.test(ref)) return 0;
+	const steps = await tx
+		.select({ id: schema.buildStep.id, bodyMd: schema.buildStep.bodyMd })
+		.from(schema.buildStep)
+		.where(and(eq(schema.buildStep.buildId, buildId), sql`${schema.buildStep.bodyMd} ilike ${`%[[photo:${ref}]]%`}`));
+	if (steps.length === 0) return 0;
+	const [another] = await tx
+		.select({ id: schema.photo.id })
+		.from(schema.photo)
+		.where(and(eq(schema.photo.buildId, buildId), sql`${schema.photo.id}::text like ${`${ref}%`}`))
+		.limit(1);
+	const code = new RegExp(`\\[\\[photo:${ref}\\]\\]`, 'gi');
+	for (const step of steps) {
+		const bodyMd = another ? step.bodyMd : step.bodyMd.replace(code, '').replace(/\n{3,}/g, '\n\n').trim();
+		const bodyHtml = await renderStepMarkdown(tx, buildId, bodyMd);
+		await tx.update(schema.buildStep).set({ bodyMd, bodyHtml, updatedAt: new Date() }).where(eq(schema.buildStep.id, step.id));
+	}
+	return steps.length;
+}
+
+/** An <img> tag as the sanitizer writes it (attribute values in double quotes, `"` inside them escaped). */
+const IMG_TAG = /<img\b(?:\s+[^\s"'>/=]+(?:="[^"]*")?)*\s*\/?>/g;
+/** The photo id in a placed photo's address (`/media/photos/<id>/<width>.webp`). */
+const PLACED_SRC = /\ssrc="\/media\/photos\/([0-9a-f-]{36})\//;
+
+/** The ids of the photos placed in stored step HTML (`img.placed-photo`). */
+export function placedPhotoIds(html: string): string[] {
+	return [...html.matchAll(IMG_TAG)].filter((m) => m[0].includes('class="placed-photo"')).flatMap((m) => PLACED_SRC.exec(m[0])?.[1] ?? []);
+}
+
+/**
+ * Stored step HTML with every placed photo that no longer exists shown as a short sentence instead of a broken image:
+ * a published revision keeps the HTML of its day, and its photos may have been deleted since.
+ */
+export function markRemovedPhotos(html: string, exists: (photoId: string) => boolean): string {
+	return html.replace(IMG_TAG, (tag) => {
+		const id = tag.includes('class="placed-photo"') ? PLACED_SRC.exec(tag)?.[1] : undefined;
+		return id && !exists(id) ? '<span class="photo-missing">[This photo has been removed.]</span>' : tag;
+	});
+}
+
 /** The step and its build (row-locked), checking that `actor` may edit; 404 when the step is gone. */
 async function stepForEdit(tx: Tx, actor: Actor, stepId: string, buildId?: string) {
 	const [step] = await tx.select().from(schema.buildStep).where(eq(schema.buildStep.id, stepId));

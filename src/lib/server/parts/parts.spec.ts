@@ -1,7 +1,7 @@
 // Integration tests against the real PostgreSQL of DATABASE_URL: saving parts lists, CSV import, checks that
 // need the spec blocks, revisions, owner checks and the parts.csv API route.
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
-import { asc, eq } from 'drizzle-orm';
+import { asc, eq, sql } from 'drizzle-orm';
 import { db } from '../db';
 import * as schema from '../db/schema';
 import { createTestUser, removeTestUsers } from '../testing/builds';
@@ -11,6 +11,7 @@ import { deleteSpecBlock, saveSpecBlock } from '../specs';
 import { editorRowsOf, importPartsCsv, listPartLines, partsToCsv, savePartsList } from './index';
 import { pendingChanges, publishRevision } from '../builds';
 import { emptyDraft, type PartLineDraft } from '$lib/parts';
+import { searchQuery } from '../search';
 import { GET as getPartsCsv } from '../../../routes/api/v1/builds/[slug]/parts.csv/+server';
 
 type TestUser = Awaited<ReturnType<typeof createTestUser>>;
@@ -323,5 +324,29 @@ describe('GET /api/v1/builds/:slug/parts.csv', () => {
 		expect(reader).not.toContain(',10k,');
 		expect(await (await call(b.slug, maker)).text()).toContain('"R1, R2",2,resistor,10k');
 		expect((await call('no-such-build-anywhere', null)).status).toBe(404);
+	});
+});
+
+describe('the micro sign in stored values and in search', () => {
+	const MICRO = '\u00b5';
+	const MU = '\u03bc';
+	it('stores a value typed with the Greek mu with the micro sign, and search finds either spelling', async () => {
+		const b = await testBuild(maker.id);
+		const r = await savePartsList(maker, b.id, [
+			draft({ designators: 'C9', kind: 'capacitor', value: `4${MU}7`, notes: `bypass beside the 10000${MU}F reservoir` })
+		]);
+		expect(r.ok).toBe(true);
+		const [row] = await stored(b.id);
+		expect(row.valueText).toBe(`4${MICRO}7`);
+		expect(row.notes).toBe(`bypass beside the 10000${MU}F reservoir`);
+		const found = async (q: string, query = searchQuery(q)) => {
+			const [x] = await db.select({ hit: sql<boolean>`${schema.build.search} @@ ${query}` }).from(schema.build).where(eq(schema.build.id, b.id));
+			return x.hit;
+		};
+		// The value (stored with µ) and the notes (kept as written, with μ) are found by both spellings.
+		for (const q of [`4${MICRO}7`, `4${MU}7`, `10000${MICRO}F`, `10000${MU}F`]) expect(await found(q), q).toBe(true);
+		// Control: the two characters are different words to PostgreSQL's parser, so one spelling alone misses the other.
+		expect(await found(`10000${MICRO}F`, sql`websearch_to_tsquery('english', ${`10000${MICRO}F`})`)).toBe(false);
+		expect(await found(`22${MICRO}F`)).toBe(false);
 	});
 });

@@ -10,6 +10,7 @@ import { deleteObjectsDurably } from './object-deletion';
 import { FieldError } from '../http/upload';
 import type { Actor } from '../actor';
 import { afterContentChange } from '../builds/editable';
+import { forgetPlacedPhoto } from '../builds/steps';
 import { photoSrcset, photoUrl, type PhotoView } from '$lib/media';
 import { isUuid } from '$lib/uuid';
 
@@ -382,6 +383,8 @@ export async function deletePhoto(photoId: string, changedBy?: Actor): Promise<s
 		const [deleted] = await tx.delete(schema.photo).where(eq(schema.photo.id, photoId)).returning();
 		if (deleted) {
 			await tx.update(schema.build).set({ coverPhotoId: null }).where(eq(schema.build.coverPhotoId, photoId));
+			// Its [[photo:…]] code leaves the build's step text in the same transaction.
+			if (deleted.buildId) await forgetPlacedPhoto(tx, deleted.buildId, deleted.id);
 			if (changedBy && deleted.buildId) await afterContentChange(tx, deleted.buildId, changedBy);
 		}
 		return deleted ?? null;
