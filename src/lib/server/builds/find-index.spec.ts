@@ -226,11 +226,11 @@ describe('EXPLAIN: the named find queries use their indexes', () => {
 		const text = await plan((tx) => explain(tx, figureCondition(sql`b.id`, { railMinV: 28, railMaxV: 28.5, loadOhm: 4 })));
 		expect(text).toMatch(/published_figure_(rail|load)_idx|published_figure_pkey/);
 		expect(text).not.toMatch(/Seq Scan on published_figure/);
-	});
+	}, 240_000);
 
 	it('find.part (kind and value) reads published_part through an index', async () => {
 		const text = await plan((tx) => explain(tx, partCondition(sql`b.id`, { kind: 'resistor', value: 4700 })));
 		expect(text).toMatch(/published_part_value_idx|published_part_pkey/);
 		expect(text).not.toMatch(/Seq Scan on published_part/);
-	});
+	}, 240_000);
 });

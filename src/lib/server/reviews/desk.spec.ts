@@ -171,14 +171,18 @@ describe('each desk query uses its index (EXPLAIN)', () => {
 		// Requests dated 2100, after every other test's (test files run one at a time); removed at the end.
 		const owner = await createTestUser('maker', 'Explain owner');
 		users.push(owner.id);
-		await db.execute(sql`
+		// A bulk load on a shared, loaded machine: no statement time limit for these two statements.
+		await db.transaction(async (tx) => {
+			await tx.execute(sql`set local statement_timeout = 0`);
+			await tx.execute(sql`
 			insert into build (slug, owner_id, title, category, topology, mains_powered, status, review_requested_at)
 			select 'explain-' || ${owner.id} || '-' || g, ${owner.id}, 'Explain ' || g,
 				(array['power-amp','preamp','headphone-amp','dac','power-supply','crossover','test-gear','other'])[1 + g % 8],
 				'class-ab-chip', g % 3 = 0, 'published', timestamp '2100-01-01' + g * interval '1 minute'
 			from generate_series(1, 6000) g`);
-		await db.execute(sql`update review_request rr set danger_checks = (hashtext(rr.build_id::text) & 7) % 4
+			await tx.execute(sql`update review_request rr set danger_checks = (hashtext(rr.build_id::text) & 7) % 4
 			from build b where b.id = rr.build_id and b.owner_id = ${owner.id}`);
+		});
 		await db.execute(sql`analyze review_request`);
 		await db.execute(sql`analyze build`);
 		try {
@@ -189,9 +193,12 @@ describe('each desk query uses its index (EXPLAIN)', () => {
 				expect(json, `${d.name} → ${json.slice(0, 600)}`).toContain(`"Index Name":"${d.index}"`);
 			}
 		} finally {
-			await db.delete(schema.build).where(eq(schema.build.ownerId, owner.id));
+			await db.transaction(async (tx) => {
+				await tx.execute(sql`set local statement_timeout = 0`);
+				await tx.delete(schema.build).where(eq(schema.build.ownerId, owner.id));
+			});
 		}
-	});
+	}, 240_000);
 });
 
 describe('claims: "I\'m reviewing this"', () => {
