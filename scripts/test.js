@@ -9,6 +9,7 @@ import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { startStack } from './lib/stack.js';
 import { findPgBin } from './lib/postgres.js';
+import { runMigrations } from './migrate.js';
 
 const here = path.dirname(fileURLToPath(import.meta.url));
 const root = path.join(here, '..');
@@ -124,6 +125,24 @@ function ensureChromium() {
 	execFileSync('apt-get', ['install', '-y', 'chromium'], { stdio: 'inherit', env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' } });
 }
 
+/** Drop and create `name` on the server of `url`, run the migrations on it and return its URL. */
+async function freshDatabase(url, name) {
+	const admin = new URL(url);
+	admin.pathname = '/postgres';
+	const { default: postgres } = await import('postgres');
+	const sql = postgres(admin.href, { max: 1, onnotice: () => {} });
+	try {
+		await sql.unsafe(`drop database if exists "${name}" with (force)`);
+		await sql.unsafe(`create database "${name}"`);
+	} finally {
+		await sql.end({ timeout: 5 });
+	}
+	const fresh = new URL(url);
+	fresh.pathname = `/${name}`;
+	await runMigrations(fresh.href);
+	return fresh.href;
+}
+
 async function waitFor(url, ms) {
 	const until = Date.now() + ms;
 	while (Date.now() < until) {
@@ -163,6 +182,9 @@ try {
 	if (only !== 'unit') {
 		console.log('• building the app for end-to-end tests…');
 		if ((await run('vite build', 'npx', ['vite', 'build'], testEnv, ['ignore', 'ignore', 'inherit'])) !== 0) throw new Error('vite build failed');
+		// The end-to-end tests get a database of their own, migrated afresh: whatever the unit run left behind
+		// (members of a failed test, bulk rows) must not keep the demo scenario from being seeded.
+		testEnv.DATABASE_URL = await freshDatabase(testEnv.DATABASE_URL, 'starground_e2e');
 		// Many tests share one client address and a few demo members: lift the budgets that would
 		// otherwise run out (each limit has its own test against the defaults).
 		const appEnv = {
