@@ -6,11 +6,13 @@
 // → the attachment downloaded as a file → the costed parts list exported as CSV and imported back unchanged → review
 // asked with a note. The pieces are tested on their own in workshop, parts-grid and build-side; this is the path a
 // new maker walks through them.
-import { test, expect, type Page } from '@playwright/test';
+import { test, expect } from '@playwright/test';
 import sharp from 'sharp';
 import { expectSignedIn, openMemberMenu, uniqueEmail } from './helpers/auth';
 import { waitForMail, linkIn } from './helpers/mail';
-import { uniqueTitle } from './helpers/builds';
+import { publishChangesAndOpenDiff, uniqueTitle } from './helpers/builds';
+import { COSTED_CSV_HEADER, fillByLabel, importCsv } from './helpers/parts';
+import { SIZES } from './helpers/sizes';
 
 /** A minimal PDF 1.4 file (ISO 32000-1 §7.5 layout): the "schematic". */
 const PDF = Buffer.from('%PDF-1.4\n1 0 obj << /Type /Catalog /Pages 2 0 R >> endobj\n2 0 obj << /Type /Pages /Kids [] /Count 0 >> endobj\ntrailer << /Root 1 0 R >>\n%%EOF\n');
@@ -21,24 +23,12 @@ const PDF = Buffer.from('%PDF-1.4\n1 0 obj << /Type /Catalog /Pages 2 0 R >> end
  * (After the batch edit R30, R31 become per channel, but they carry no price: "2 lines have no price".)
  */
 const CSV_ADD = [
-	'designators,quantity,kind,value,tolerance_pct,rating_v,rating_w,package,notes,design_value,substitution_reason,mpn,supplier,unit_price,currency,per_channel',
+	COSTED_CSV_HEADER,
 	'"C1, C2",2,capacitor,10000u,20,63,,snap-in,"reservoir, one per rail",,,,Any shop,3.20,EUR,',
 	'"Q1, Q2",2,transistor,complementary output pair,,,,TO-3P,on the heatsink with mica,,,,Any shop,1.15,EUR,'
 ].join('\r\n');
 
-async function importCsv(page: Page, text: string, mode: 'replace' | 'append', count: number) {
-	await page.getByLabel('…or paste the CSV text').fill(text);
-	await page.getByLabel('Then').selectOption(mode);
-	await page.getByRole('button', { name: 'Preview' }).click();
-	await expect(page.getByText(`All ${count} line`)).toBeVisible();
-	await page.getByRole('button', { name: `Save these ${count} line` }).click();
-	await expect(page.getByText(`Imported and saved: ${count} line`)).toBeVisible();
-}
-
-for (const size of [
-	{ name: 'desktop', viewport: { width: 1280, height: 900 } },
-	{ name: 'phone', viewport: { width: 390, height: 844 } }
-]) {
+for (const size of SIZES) {
 	test.describe(size.name, () => {
 		test.use({ viewport: size.viewport });
 
@@ -97,29 +87,33 @@ for (const size of [
 			await page.getByRole('link', { name: /Amplifier/ }).first().click();
 			await expect(page.getByRole('heading', { name: 'Add an amplifier block' })).toBeVisible();
 			await expect(page.locator('form[data-ready="true"]')).toBeVisible();
-			await page.getByLabel('Title').fill('Output stage');
-			await page.getByLabel('Channels').fill('2');
 			await page.getByLabel('Topology').selectOption('class-ab-discrete');
-			await page.getByLabel(/Rail voltage/).fill('±30');
-			await page.getByLabel('Nominal load').fill('8R');
-			await page.getByLabel('Max total supply').fill('140');
-			await page.getByLabel('Dropout per side').fill('4');
-			await page.getByLabel('Junction max').fill('150');
-			await page.getByLabel('Rth junction–case').fill('0.8');
-			await page.getByLabel('Minimum load').fill('4R');
+			await fillByLabel(page, {
+				Title: 'Output stage',
+				Channels: '2',
+				'Rail voltage': '±30',
+				'Nominal load': '8R',
+				'Max total supply': '140',
+				'Dropout per side': '4',
+				'Junction max': '150',
+				'Rth junction–case': '0.8',
+				'Minimum load': '4R'
+			});
 			await page.getByRole('button', { name: 'Add block' }).click();
 			await expect(page.getByText('Block saved.')).toBeVisible();
 			const amp = page.locator('section[data-spec-block="amplifier"]');
 			await expect(amp).toContainText('±30');
 			await page.getByRole('link', { name: /Power supply/ }).first().click();
 			await expect(page.locator('form[data-ready="true"]')).toBeVisible();
-			await page.getByLabel('Title').fill('Supply');
-			await page.getByLabel('Transformer rating').fill('300');
-			await page.getByLabel('Secondary per rail').fill('22');
-			await page.getByLabel('Reservoir per rail').fill('10000u');
-			await page.getByLabel('Reservoir voltage rating').fill('63');
-			await page.getByLabel('Load current per rail').fill('2');
-			await page.getByLabel('Fuse rating').fill('2');
+			await fillByLabel(page, {
+				Title: 'Supply',
+				'Transformer rating': '300',
+				'Secondary per rail': '22',
+				'Reservoir per rail': '10000u',
+				'Reservoir voltage rating': '63',
+				'Load current per rail': '2',
+				'Fuse rating': '2'
+			});
 			await page.getByLabel('Fuse type').selectOption('slow');
 			await page.getByRole('button', { name: 'Add block' }).click();
 			await expect(page.getByText('Block saved.')).toBeVisible();
@@ -187,18 +181,7 @@ for (const size of [
 			await expect(pending).toContainText('1 step changed');
 			await expect(pending).toContainText('parts: 1 changed');
 			await expect(pending).toContainText('attachments: 1 added');
-			await page.locator('#revision-note').fill('Emitter resistors counted per channel; bleeders noted; schematic attached.');
-			await page.getByRole('button', { name: 'Publish changes as Rev B' }).click();
-			await expect(page.getByText(/Published as Rev B/)).toBeVisible();
-			await expect(page.getByText('No changes since Rev B')).toBeVisible();
-
-			// Its diff: the step line, the flag, the file — and nothing else.
-			await page.goto(`/builds/${slug}/revisions`);
-			const block = page.locator('[data-revision-block]');
-			await expect(block.locator('tbody tr')).toHaveCount(2);
-			await expect(block.locator('tr[data-revision="2"]')).toContainText('Emitter resistors counted per channel; bleeders noted; schematic attached.');
-			await block.getByRole('link', { name: 'Changes from Rev A' }).click();
-			await expect(page.getByRole('heading', { name: /Changes from Rev A to Rev B/ })).toBeVisible();
+			await publishChangesAndOpenDiff(page, slug, 'Emitter resistors counted per channel; bleeders noted; schematic attached.');
 			await expect(page.locator('[data-step-diff="changed"] [data-run="added"]')).toContainText('Bleeder 4k7 across each rail.');
 			await expect(page.locator('[data-step-diff]')).toHaveCount(1);
 			const partDiff = page.locator('[data-part-diff="changed"]');

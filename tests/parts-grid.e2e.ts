@@ -5,6 +5,8 @@
 import { test, expect, type Page } from '@playwright/test';
 import { signIn } from './helpers/auth';
 import { createPublishedBuild, postForm } from './helpers/builds';
+import { COSTED_CSV_HEADER, importCsv } from './helpers/parts';
+import { SIZES } from './helpers/sizes';
 
 const JOSS = 'joss@starground.test';
 
@@ -39,7 +41,7 @@ const AMP_FORM = {
  *   H1  screws 4, no price → "1 line has no price".
  */
 const COSTED = [
-	'designators,quantity,kind,value,tolerance_pct,rating_v,rating_w,package,notes,design_value,substitution_reason,mpn,supplier,unit_price,currency,per_channel',
+	COSTED_CSV_HEADER,
 	'"R1, R2",2,resistor,0R22,5,,5,wirewound,"emitter resistors, one pair per channel",,,WW5-0R22,"Bench ""B"", Ltd",0.0125,EUR,yes',
 	'C1,2,capacitor,10000u,20,50,,snap-in,reservoir,,,,Any shop,3.20,EUR,',
 	'CX1,1,capacitor,100n,,275 V AC,,box,"across the mains\nafter the fuse",,,,,0.35,EUR,',
@@ -47,19 +49,7 @@ const COSTED = [
 	'H1,4,hardware,M3 screws,,,,,,,,,,,,'
 ].join('\r\n');
 
-async function importCsv(page: Page, text: string, count: number) {
-	await page.getByLabel('…or paste the CSV text').fill(text);
-	await page.getByLabel('Then').selectOption('replace');
-	await page.getByRole('button', { name: 'Preview' }).click();
-	await expect(page.getByText(`All ${count} line`)).toBeVisible();
-	await page.getByRole('button', { name: `Save these ${count} line` }).click();
-	await expect(page.getByText(`Imported and saved: ${count} line`)).toBeVisible();
-}
-
-for (const size of [
-	{ name: 'desktop', viewport: { width: 1280, height: 900 } },
-	{ name: 'phone', viewport: { width: 390, height: 844 } }
-]) {
+for (const size of SIZES) {
 	test.describe(size.name, () => {
 		test.use({ viewport: size.viewport });
 
@@ -72,7 +62,7 @@ for (const size of [
 
 			await page.goto(`/builds/${slug}/edit/parts`);
 			await expect(page.locator('#parts-form')).toHaveAttribute('data-ready', 'true');
-			await importCsv(page, COSTED, 5);
+			await importCsv(page, COSTED, 'replace', 5);
 			await expect(page.locator('#parts-form tr[data-line]')).toHaveCount(5);
 			await expect(page.locator('#l1-unitPrice')).toHaveValue('0.0125');
 			await expect(page.locator('#l1-perChannel')).toHaveValue('yes');
@@ -104,7 +94,7 @@ for (const size of [
 			expect(csv1).toContain('"Bench ""B"", Ltd",0.0125,EUR,yes');
 			await page.goto(`/builds/${slug}/edit/parts`);
 			await expect(page.locator('#parts-form')).toHaveAttribute('data-ready', 'true');
-			await importCsv(page, csv1, 5);
+			await importCsv(page, csv1, 'replace', 5);
 			const second = await page.request.get(`/api/v1/builds/${slug}/parts.csv`);
 			expect(await second.text()).toBe(csv1);
 		});

@@ -3,7 +3,9 @@
 // lists shown); a batch of edits published as ONE revision with a note, and its diff; "My builds".
 import { test, expect, type Page } from '@playwright/test';
 import { openMemberMenu, signIn } from './helpers/auth';
-import { createPublishedBuild, uniqueTitle } from './helpers/builds';
+import { createPublishedBuild, publishChangesAndOpenDiff, uniqueTitle } from './helpers/builds';
+import { importCsv } from './helpers/parts';
+import { SIZES } from './helpers/sizes';
 
 const JOSS = 'joss@starground.test';
 
@@ -14,21 +16,9 @@ const CSV = [
 	',4,hardware,,,,,,M3 screws and mica insulators'
 ].join('\n');
 
-async function importCsv(page: Page, text: string, mode: 'replace' | 'append', count: number) {
-	await page.getByLabel('…or paste the CSV text').fill(text);
-	await page.getByLabel('Then').selectOption(mode);
-	await page.getByRole('button', { name: 'Preview' }).click();
-	await expect(page.getByText(`All ${count} line`)).toBeVisible();
-	await page.getByRole('button', { name: `Save these ${count} line` }).click();
-	await expect(page.getByText(`Imported and saved: ${count} line`)).toBeVisible();
-}
-
 const editorLines = (page: Page) => page.locator('#parts-form tr[data-line]');
 
-for (const size of [
-	{ name: 'desktop', viewport: { width: 1280, height: 900 } },
-	{ name: 'phone', viewport: { width: 390, height: 844 } }
-]) {
+for (const size of SIZES) {
 	test.describe(size.name, () => {
 		test.use({ viewport: size.viewport });
 
@@ -119,20 +109,9 @@ test('a batch of edits on a published build is published as ONE revision with a 
 	// Still Rev A: the edits wait as pending changes.
 	await expect(page.locator('[data-pending-changes]')).toContainText('1 step added');
 	await expect(page.locator('[data-pending-changes]')).toContainText('1 step changed');
-	await page.locator('#revision-note').fill('Fuse sized for inrush; bring-up step added.');
-	await page.getByRole('button', { name: 'Publish changes as Rev B' }).click();
-	await expect(page.getByText(/Published as Rev B/)).toBeVisible();
-	await expect(page.getByText('No changes since Rev B')).toBeVisible();
-
-	// The revision block: two rows, Rev B with the note.
-	await page.goto(`/builds/${slug}/revisions`);
-	const block = page.locator('[data-revision-block]');
-	await expect(block.locator('tbody tr')).toHaveCount(2);
-	await expect(block.locator('tr[data-revision="2"]')).toContainText('Fuse sized for inrush; bring-up step added.');
-	await block.getByRole('link', { name: 'Changes from Rev A' }).click();
+	await publishChangesAndOpenDiff(page, slug, 'Fuse sized for inrush; bring-up step added.');
 
 	// The diff: the changed line removed and added, the new step, nothing else.
-	await expect(page.getByRole('heading', { name: /Changes from Rev A to Rev B/ })).toBeVisible();
 	const changed = page.locator('[data-step-diff="changed"]');
 	await expect(changed.locator('[data-run="added"]')).toContainText('Fuse: T2A slow-blow, sized for the inrush.');
 	await expect(changed.locator('[data-run="removed"]')).toHaveCount(0);
@@ -140,10 +119,7 @@ test('a batch of edits on a published build is published as ONE revision with a 
 	await expect(page.locator('[data-part-diff]')).toHaveCount(0);
 });
 
-for (const size of [
-	{ name: 'desktop', viewport: { width: 1280, height: 900 } },
-	{ name: 'phone', viewport: { width: 390, height: 844 } }
-]) {
+for (const size of SIZES) {
 	test(`"My builds" lists a draft, reachable from the header (${size.name})`, async ({ page }) => {
 		await page.setViewportSize(size.viewport);
 		await signIn(page, JOSS);

@@ -2,6 +2,7 @@
 // JavaScript would post them), with the signed-in page's cookies. Nothing depends on seed content.
 import { expect, type APIRequestContext, type Page } from '@playwright/test';
 import { SUPPLY_FORM as SUPPLY_FORM_FIXTURE } from '../../src/lib/specs/fixtures';
+import { revisionLabel } from '../../src/lib/revision-label';
 
 export const origin = () => process.env.ORIGIN ?? 'http://127.0.0.1:3100';
 
@@ -75,4 +76,24 @@ export async function createPublishedBuild(page: Page, opts: { title?: string; s
 	const pub = await postForm(req, `/builds/${slug}/edit?/publish`, {});
 	expect([200, 303], 'publish').toContain(pub.status());
 	return { slug, title };
+}
+
+/**
+ * On a published build's editor, with pending changes: publish them as revision `number` (default 2, Rev B) with
+ * `note`, then open the revisions page, check that revision's row carries the note, and follow "Changes from <the
+ * one before>" to its diff.
+ */
+export async function publishChangesAndOpenDiff(page: Page, slug: string, note: string, number = 2): Promise<void> {
+	const next = revisionLabel(number);
+	const previous = revisionLabel(number - 1);
+	await page.locator('#revision-note').fill(note);
+	await page.getByRole('button', { name: `Publish changes as ${next}` }).click();
+	await expect(page.getByText(new RegExp(`Published as ${next}`))).toBeVisible();
+	await expect(page.getByText(`No changes since ${next}`)).toBeVisible();
+	await page.goto(`/builds/${slug}/revisions`);
+	const block = page.locator('[data-revision-block]');
+	await expect(block.locator('tbody tr')).toHaveCount(number);
+	await expect(block.locator(`tr[data-revision="${number}"]`)).toContainText(note);
+	await block.getByRole('link', { name: `Changes from ${previous}` }).click();
+	await expect(page.getByRole('heading', { name: new RegExp(`Changes from ${previous} to ${next}`) })).toBeVisible();
 }

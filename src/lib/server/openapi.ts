@@ -415,7 +415,7 @@ export const OPERATIONS: Operation[] = [
 		tag: 'Bench tools',
 		summary: 'Read a parts-list value for a part kind, as the parts editor does',
 		description:
-			'Trade notation per kind: RKM and SI prefixes, networks ("2×1u series", "10k||10k"), ratings ("100n 275VAC"), bare 3-digit codes ("104"). A bare "+" between capacitors ("1u+1u") is ambiguous: 422 with a sentence naming both "2×1u series" and "1u||1u".',
+			'Trade notation per kind: RKM and SI prefixes, networks ("2×1u series", "10k||10k"), ratings ("100n 275VAC"), bare 3-digit codes ("104"; on an inductor line in µH), 4-digit resistor codes ("4702" = 47.0 kΩ, IEC 60062); any other bare number on a capacitor or inductor line is 422 with a sentence (never read as farads or henries). A bare "+" between capacitors ("1u+1u") is ambiguous: 422 with a sentence naming both "2×1u series" and "1u||1u".',
 		query: partValueQuery,
 		response: partValueOut,
 		errors: [400, 422]

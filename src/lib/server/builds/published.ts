@@ -11,7 +11,7 @@ import type { Viewer } from '../actor';
 import { canEdit, isOwner } from './access';
 import { findPhotoViews } from '../photos';
 import { markRemovedPhotos, placedPhotoIds } from './steps';
-import type { BuildSnapshot } from './snapshot';
+import { partLineOfSnapshot, type BuildSnapshot } from './snapshot';
 import type { BuildContent } from './queries';
 
 /** True when `viewer` sees the live content of `b` (its maker or whoever may edit it); readers see the published snapshot. */
@@ -73,34 +73,8 @@ export async function loadPublishedContent(b: schema.Build, dbx: DbLike = db): P
 				createdAt: at,
 				updatedAt: at
 			})),
-			parts: snap.parts.map((p, i) => ({
-				designators: p.designators,
-				quantity: p.quantity,
-				kind: p.kind,
-				valueText: p.valueText,
-				value: p.value ?? null,
-				unit: p.unit ?? null,
-				tolerancePct: p.tolerancePct ?? null,
-				ratingV: p.ratingV ?? null,
-				ratingW: p.ratingW ?? null,
-				package: p.package,
-				notes: p.notes,
-				designValueText: p.designValueText ?? null,
-				designValue: p.designValue ?? null,
-				substitutionReason: p.substitutionReason ?? null,
-				deviationPct: p.deviationPct ?? null,
-				// Costed-list fields (issue 13): absent from snapshots taken before them.
-				ratingVAc: p.ratingVAc ?? false,
-				mpn: p.mpn ?? '',
-				supplier: p.supplier ?? '',
-				unitPrice: p.unitPrice ?? null,
-				currency: p.currency ?? null,
-				perChannel: p.perChannel ?? false,
-				id: p.id,
-				buildId: b.id,
-				position: i,
-				checks: (p.checks ?? []) as schema.StoredCheck[]
-			}))
+			// Fields a snapshot predates get their defaults (snapshot.ts partLineOfSnapshot).
+			parts: snap.parts.map((p, i) => ({ ...partLineOfSnapshot(p), buildId: b.id, position: i, checks: (p.checks ?? []) as schema.StoredCheck[] }))
 		}
 	};
 }

@@ -9,7 +9,7 @@ import { and, asc, desc, eq, gt, isNotNull, ne, sql } from 'drizzle-orm';
 import * as schema from '../db/schema';
 import type { Tx } from '../db';
 import { db } from '../db';
-import { diffSnapshots, snapshotPart, snapshotSpecBlock, summarize, type BuildSnapshot } from './snapshot';
+import { diffSnapshots, partLineOfSnapshot, snapshotPart, snapshotSpecBlock, summarize, type BuildSnapshot } from './snapshot';
 import { findPhotoViews } from '../photos';
 import { inTx, type DbLike } from '../db/tx';
 import type { Actor } from '../actor';
@@ -225,7 +225,7 @@ export async function getRevisionView(buildId: string, number: number, dbx: DbLi
 				photosGone: (s.photoIds ?? []).filter((id) => !photos.has(id)).length
 			})),
 			specBlocks: snap.specBlocks,
-			parts: snap.parts.map((p, i) => ({ ...p, position: i, checks: (p.checks ?? []) as schema.StoredCheck[] }))
+			parts: snap.parts.map((p, i) => ({ ...partLineOfSnapshot(p), position: i, checks: (p.checks ?? []) as schema.StoredCheck[] }))
 		}
 	};
 }

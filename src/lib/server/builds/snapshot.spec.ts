@@ -1,5 +1,5 @@
 import { describe, it, expect } from 'vitest';
-import { diffSnapshots, summarize, stableJson, type BuildSnapshot, type SnapshotPart, type SnapshotStep } from './snapshot';
+import { diffSnapshots, partLineOfSnapshot, snapshotPart, summarize, stableJson, type BuildSnapshot, type SnapshotPart, type SnapshotStep } from './snapshot';
 
 function step(id: string, title: string, bodyMd = '', photoIds: string[] = []): SnapshotStep {
 	return { id, title, bodyMd, bodyHtml: `<p>${bodyMd}</p>`, photoIds };
@@ -131,5 +131,50 @@ describe('stableJson', () => {
 	it('ignores key order (jsonb stores keys in its own order)', () => {
 		expect(stableJson({ b: 1, a: { d: [1, { y: 2, x: 1 }], c: null } })).toBe(stableJson({ a: { c: null, d: [1, { x: 1, y: 2 }] }, b: 1 }));
 		expect(stableJson({ a: 1 })).not.toBe(stableJson({ a: 2 }));
+	});
+});
+
+describe('one field list for parts lines (snapshots, the API, readers’ view)', () => {
+	const stored = {
+		id: 'l1',
+		buildId: 'b1',
+		position: 0,
+		designators: 'CX1',
+		quantity: 1,
+		kind: 'capacitor',
+		valueText: '100n',
+		value: 1e-7,
+		unit: 'F',
+		tolerancePct: 10,
+		ratingV: 275,
+		ratingVAc: true,
+		ratingW: null,
+		package: 'box',
+		notes: 'across the mains',
+		designValueText: null,
+		designValue: null,
+		substitutionReason: null,
+		deviationPct: null,
+		mpn: 'X2-100N',
+		supplier: 'Any shop',
+		unitPrice: '0.3500',
+		currency: 'EUR',
+		perChannel: false,
+		checks: [{ id: 'part.ac-rating' }]
+	};
+
+	it('keeps every stored field of a line, and gives it back whole', () => {
+		const snap = snapshotPart(stored);
+		// Everything but the row's place (build, position) is kept.
+		const { buildId, position, ...rest } = stored;
+		expect([buildId, position]).toEqual(['b1', 0]);
+		expect(snap).toEqual(rest);
+		expect(partLineOfSnapshot(snap)).toEqual(rest);
+	});
+
+	it('fills the fields an older snapshot predates with what they mean when absent', () => {
+		const { ratingVAc, mpn, supplier, unitPrice, currency, perChannel, checks, ...old } = snapshotPart(stored);
+		expect([ratingVAc, mpn, supplier, unitPrice, currency, perChannel, checks.length]).toEqual([true, 'X2-100N', 'Any shop', '0.3500', 'EUR', false, 1]);
+		expect(partLineOfSnapshot(old)).toEqual({ ...old, ratingVAc: false, mpn: '', supplier: '', unitPrice: null, currency: null, perChannel: false, checks: [] });
 	});
 });

@@ -244,6 +244,15 @@ export function snapshotPart<P extends PartLineFields & { id: string; checks: un
 	return pick(p, ['id', ...PART_LINE_KEYS, 'checks']);
 }
 
+/** What a field absent from an older snapshot means (fields added later, issue 13); any other absent field is null. */
+const LATER_PART_DEFAULTS: Partial<Record<(typeof PART_LINE_KEYS)[number], unknown>> = { ratingVAc: false, mpn: '', supplier: '', perChannel: false };
+
+/** A snapshot's parts line as a whole stored line (PART_LINE_KEYS), fields it predates filled with their defaults. */
+export function partLineOfSnapshot(p: SnapshotPart): PartLineFields & { id: string; checks: unknown[] } {
+	const fields = Object.fromEntries(PART_LINE_KEYS.map((k) => [k, p[k] ?? LATER_PART_DEFAULTS[k] ?? null])) as unknown as PartLineFields;
+	return { ...fields, id: p.id, checks: p.checks ?? [] };
+}
+
 /** A spec block as a snapshot keeps it and the API shows it. */
 export function snapshotSpecBlock<B extends SnapshotSpecBlock>(b: B): Pick<B, (typeof SPEC_BLOCK_KEYS)[number]> {
 	return pick(b, SPEC_BLOCK_KEYS);
