@@ -145,4 +145,15 @@ describe('control characters (12a)', () => {
 		expect(await json.seen!.request.json()).toEqual({ body: 'fuse T2A' });
 		expect(await cleanedRequest(new Request(`${ORIGIN}/x`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: '{"a":"b"}' }))).toBeNull();
 	});
+
+	it('a multipart form that cannot be parsed (a raw line break in a file name) is a 400 with a sentence, never a 500', async () => {
+		const body = '--b\r\nContent-Disposition: form-data; name="csvFile"; filename="one\r\ntwo.csv"\r\n\r\nx\r\n--b--\r\n';
+		const req = () => new Request(`${ORIGIN}/builds/x/edit/parts?/import`, { method: 'POST', headers: { 'content-type': 'multipart/form-data; boundary=b' }, body });
+		// What a form action would meet (RFC 7578 forbids the raw CR LF; undici refuses the body).
+		await expect(req().formData()).rejects.toThrow();
+		const { response, seen } = await run(handleControlCharacters, req());
+		expect(seen).toBeNull();
+		expect(response.status).toBe(400);
+		expect(await response.text()).toMatch(/arrived incomplete or malformed/);
+	});
 });

@@ -136,8 +136,11 @@ function withBody(req: Request, body: BodyInit, keepType: boolean): Request {
 	return new Request(req.url, { method: req.method, headers, body, signal: req.signal });
 }
 
-/** The request with control characters removed from every text it carries, or null when it had none. */
-export async function cleanedRequest(req: Request): Promise<Request | null> {
+/**
+ * The request with control characters removed from every text it carries, or null when it had none;
+ * 'unreadable' for a multipart body that cannot be parsed (the handler answers 400 for it).
+ */
+export async function cleanedRequest(req: Request): Promise<Request | null | 'unreadable'> {
 	if (!req.body) return null;
 	const type = (req.headers.get('content-type') ?? '').split(';')[0].trim().toLowerCase();
 	if (type === 'application/json') {
@@ -168,7 +171,7 @@ export async function cleanedRequest(req: Request): Promise<Request | null> {
 		try {
 			form = await req.clone().formData();
 		} catch {
-			return null; // the route answers for a broken upload
+			return 'unreadable'; // cut off or malformed (e.g. a raw line break inside a file name)
 		}
 		let dirty = false;
 		const out = new FormData();
@@ -204,6 +207,13 @@ export const handleControlCharacters: Handle = async ({ event, resolve }) => {
 	if (search !== null) url.search = search;
 	if (WRITE.has(event.request.method) && !isUploadRoute(url.pathname)) {
 		const cleaned = await cleanedRequest(event.request);
+		// A form action would fail reading it (a 500): say so here, as upload routes do for theirs.
+		if (cleaned === 'unreadable') {
+			const message = 'The form arrived incomplete or malformed. Try again.';
+			return url.pathname.startsWith('/api/')
+				? apiError(400, 'invalid', message)
+				: new Response(message, { status: 400, headers: { 'content-type': 'text/plain; charset=utf-8' } });
+		}
 		if (cleaned) event.request = cleaned;
 	}
 	return resolve(event);
