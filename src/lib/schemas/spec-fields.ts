@@ -3,7 +3,8 @@
  * build page reads them for the order of a block's inputs and must not pull zod into the browser. The schemas
  * and the text ⇄ data conversion live in $lib/schemas/spec-forms, which re-exports everything here.
  */
-import { RECTIFIERS, TOPOLOGIES, type ValueKind } from '$lib/engineering';
+import { RECTIFIERS, TOPOLOGIES } from '$lib/engineering/choices';
+import type { ValueKind } from '$lib/engineering';
 import { CHASSIS, type SpecKind } from '$lib/specs/kinds';
 
 /** How a field is typed and read. */
