@@ -1,5 +1,5 @@
 /** Human labels for the values stored on builds; shared by pages, lists and the API's display fields. */
-import type { BuildProgress, BuildStatus, Category, Licence, Topology } from '$lib/schemas/build';
+import type { BuildProgress, BuildStatus, Category, Licence, Topology } from '$lib/schemas/build-values';
 
 export const CATEGORY_LABELS: Record<Category, string> = {
 	'power-amp': 'Power amp',

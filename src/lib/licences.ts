@@ -8,7 +8,7 @@
  * modifications of the covered source stay CERN-OHL-W (its §4.1, from memory; we read it conservatively and
  * do not offer a switch to OHL-S). Every licence here except CC0 asks for attribution of the original.
  */
-import { LICENCES, type Licence } from '$lib/schemas/build';
+import { LICENCES, type Licence } from '$lib/schemas/build-values';
 
 /** Licences whose terms carry over to builds based on it. */
 export const SHARE_ALIKE: readonly Licence[] = ['CC-BY-SA-4.0', 'CERN-OHL-S-2.0', 'CERN-OHL-W-2.0'];

@@ -7,6 +7,7 @@
  */
 import { InputRangeError } from './values';
 import { minimumImpedanceOhm } from './speaker';
+import { TOPOLOGIES, type Topology } from './choices';
 
 /** "split": ±railV; "single": one supply of railV, treated as a split supply of railV/2 (output capacitor coupled). */
 export type SupplyKind = 'split' | 'single';
@@ -104,10 +105,8 @@ export function amplifierOutput(input: AmplifierInput): AmplifierOutput {
 	return out;
 }
 
-/** Amplifier topologies (API.md). */
-export const TOPOLOGIES = ['class-ab-chip', 'class-ab-discrete', 'class-a', 'class-d', 'valve', 'other'] as const;
-/** One amplifier topology. */
-export type Topology = (typeof TOPOLOGIES)[number];
+/** Amplifier topologies (API.md), kept in ./choices. */
+export { TOPOLOGIES, type Topology };
 
 /** Mains rise a worst-case figure designs for when none is given: +10 % (usual design figure; national limits from memory). */
 export const MAINS_HIGH_PCT = 10;

@@ -6,11 +6,10 @@
  * defer to local codes and licensed practice.
  */
 import { InputRangeError } from './values';
+import { RECTIFIERS, type RectifierKind } from './choices';
 
-/** Rectifier arrangements (API.md /tools/supply). */
-export type RectifierKind = 'bridge' | 'bridge-split' | 'center-tap' | 'half-wave';
-/** All rectifier kinds. */
-export const RECTIFIERS = ['bridge', 'bridge-split', 'center-tap', 'half-wave'] as const;
+/** Rectifier arrangements (API.md /tools/supply), kept in ./choices. */
+export { RECTIFIERS, type RectifierKind };
 
 /** Diode drops in each rail's charging path: bridge 2, bridge-split 1, centre-tap 1, half-wave 1. */
 export const DIODE_DROPS: Readonly<Record<RectifierKind, number>> = {

@@ -9,6 +9,10 @@
  * `channels` of the build's amplifier spec block (the largest, if there are several), else 1.
  */
 import Decimal from 'decimal.js';
+import { channelsOf, totalQuantity } from './channels';
+
+/** The channel count and per-channel quantities, kept in ./channels (no decimal.js there, for pages that show a list without prices). */
+export { channelsOf, totalQuantity };
 
 /** Largest unit price accepted, in any currency. */
 export const MAX_UNIT_PRICE = 1_000_000;
@@ -68,26 +72,12 @@ export function parseFlag(text: string): boolean | null {
 	return null;
 }
 
-/** The build's channel count: the largest `channels` of its amplifier blocks (a whole number 1–64), else 1. */
-export function channelsOf(blocks: readonly { kind: string; data: unknown }[]): number {
-	const n = blocks
-		.filter((b) => b.kind === 'amplifier')
-		.map((b) => Number((b.data as Record<string, unknown> | null)?.channels))
-		.filter((c) => Number.isInteger(c) && c >= 1 && c <= 64);
-	return n.length ? Math.max(...n) : 1;
-}
-
 /** The fields of a line the costing reads. */
 export interface CostLine {
 	quantity: number;
 	perChannel: boolean;
 	unitPrice: string | null;
 	currency: string | null;
-}
-
-/** How many of a line the whole build needs: quantity × channels for a per-channel line, else quantity. */
-export function totalQuantity(line: Pick<CostLine, 'quantity' | 'perChannel'>, channels: number): number {
-	return line.perChannel ? line.quantity * channels : line.quantity;
 }
 
 /** A line's cost (unit price × total quantity) as an exact decimal string, or null without a price. */

@@ -6,44 +6,12 @@ import { z } from 'zod';
 import { BUILD_PROGRESS, CATEGORIES, TOPOLOGIES } from './build';
 import { PART_KINDS, valueKindOf } from '$lib/parts/kinds';
 import { parsePartValue } from '$lib/parts/values';
-
-/** Orders of a list. `relevance` needs a search text `q` and is its default. */
-export const LIST_SORTS = ['recent', 'most-derived', 'recently-reviewed', 'relevance'] as const;
-export type ListSort = (typeof LIST_SORTS)[number];
-
-export const SORT_LABELS: Record<ListSort, string> = {
-	recent: 'Newest',
-	'most-derived': 'Most built upon',
-	'recently-reviewed': 'Recently reviewed',
-	relevance: 'Best match'
-};
-
-/** Review-state filter values: the review labels, with both "edited since" labels folded into `changed`. */
-export const REVIEW_FILTERS = ['unreviewed', 'waiting', 'safe', 'rework', 'changed'] as const;
-export type ReviewFilter = (typeof REVIEW_FILTERS)[number];
-
-export const REVIEW_FILTER_LABELS: Record<ReviewFilter, string> = {
-	unreviewed: 'Not reviewed',
-	waiting: 'Waiting for review',
-	safe: 'Signed off as safe (this revision)',
-	rework: 'Sent back for changes (this revision)',
-	changed: 'Edited since sign-off or send-back'
-};
-
-/** The `mains` filter: 'true' = mains powered, 'false' = runs from a low-voltage supply or batteries. */
-export const MAINS_FILTER_LABELS = { true: 'Mains powered', false: 'Not mains powered' } as const;
-
-export const LIST_LIMIT_DEFAULT = 20;
-export const LIST_LIMIT_MAX = 100;
-/** Longest accepted search text, in characters. */
-export const QUERY_MAX = 200;
+import { LIST_SORTS, SORT_LABELS, REVIEW_FILTERS, REVIEW_FILTER_LABELS, MAINS_FILTER_LABELS, LIST_LIMIT_DEFAULT, LIST_LIMIT_MAX, QUERY_MAX, FIND_LIMITS, FIND_KEYS, type ListSort, type ReviewFilter, type FindFilterValues } from './list-values';
+export { LIST_SORTS, SORT_LABELS, REVIEW_FILTERS, REVIEW_FILTER_LABELS, MAINS_FILTER_LABELS, LIST_LIMIT_DEFAULT, LIST_LIMIT_MAX, QUERY_MAX, FIND_LIMITS, FIND_KEYS, type ListSort, type ReviewFilter, type FindFilterValues };
 
 const oneOf = (values: readonly string[]) => ({ error: `must be one of: ${values.join(', ')}` });
 
 // --- Find by numbers (builds/find-index.ts): rails, load, power, "builds using this part" ---------------
-
-/** Highest rail (each side), power and load a find filter takes; beyond these nothing is published. */
-export const FIND_LIMITS = { railV: 1000, powerW: 100_000, loadOhm: 100_000, text: 100 } as const;
 
 /**
  * A number typed in a query string, checked here with a sentence (range problems answer 400 like any other
@@ -84,12 +52,6 @@ const FIND_FIELDS = {
 		.optional()
 		.describe('The part’s package as the maker wrote it, ignoring case (TO-220, axial, DIP-8).')
 };
-
-/** The query-string keys of the find fields, in the order forms show them. */
-export const FIND_KEYS = ['railMinV', 'railMaxV', 'loadOhm', 'powerMinW', 'powerMaxW', 'partKind', 'partValue', 'partPackage'] as const;
-
-/** The find fields as a form shows them (text, '' or absent when not given). */
-export type FindFilterValues = Partial<Record<(typeof FIND_KEYS)[number], string>>;
 
 /** Filters of the find fields as the list query takes them: numbers checked, the part value read in SI. */
 export interface FindQuery {

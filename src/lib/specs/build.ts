@@ -11,16 +11,8 @@ import { thermalSpec, deriveThermal } from './thermal';
 import { measurementsSpec, deriveMeasurements, type MeasurementsDerived } from './measurements';
 import { bringupSpec, deriveBringup } from './bringup';
 import { CHARGE_CAUTION, HEAT_CAUTION, MAINS_CAUTION, fmt, type Check } from './types';
-
-/** The spec-block kinds, in the order the UI lists them. */
-export const SPEC_KINDS = ['amplifier', 'supply', 'thermal', 'measurements', 'bringup'] as const;
-/** One spec-block kind. */
-export type SpecKind = (typeof SPEC_KINDS)[number];
-
-/** True when `kind` is one of SPEC_KINDS. isSpecKind('supply') → true. */
-export function isSpecKind(kind: unknown): kind is SpecKind {
-	return typeof kind === 'string' && (SPEC_KINDS as readonly string[]).includes(kind);
-}
+import { SPEC_KINDS, isSpecKind, type SpecKind } from './kinds';
+export { SPEC_KINDS, isSpecKind, type SpecKind };
 
 /** A block as stored with a build or posted to spec-check/build. */
 export interface SpecBlockInput {

@@ -24,9 +24,10 @@ import {
 	CAPACITOR_INPUT_FORM_FACTOR
 } from '../engineering';
 import { CHARGE_CAUTION, HEAT_CAUTION, MAINS_CAUTION, flag, fmt, num, oneOf, pos, type Check, type SpecResult } from './types';
+import { CHASSIS } from './kinds';
 
-/** Chassis materials (API.md). */
-export const CHASSIS = ['metal', 'plastic', 'wood', 'none'] as const;
+/** Chassis materials (API.md); kept in ./kinds so pages can read them without the schemas. */
+export { CHASSIS };
 
 /** Capacitor margin asked for against the high-mains unloaded rail: 1.2 (API.md threshold; common practice 1.2–1.25). */
 export const CAP_MARGIN = 1.2;

@@ -1,6 +1,6 @@
 /** Chips for the "by the numbers" filters in force (browse page): text, and the keys its × link drops. */
 import { PART_KIND_LABELS, type PartKind } from '$lib/parts/kinds';
-import type { FindFilterValues } from '$lib/schemas/list';
+import type { FindFilterValues } from '$lib/schemas/list-values';
 
 const range = (lo: string | undefined, hi: string | undefined, unit: string, pre = '') =>
 	lo && hi ? `${pre}${lo}–${hi} ${unit}` : lo ? `${pre}${lo} ${unit} or more` : `up to ${pre}${hi} ${unit}`;

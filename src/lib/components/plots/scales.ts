@@ -1,12 +1,16 @@
 /**
- * Scale and tick helpers for the bench tools' SVG plots. Pure functions on top of d3-scale,
- * so the same axes come out on the server and in the browser.
+ * Scale and tick helpers for the bench tools' SVG plots. Pure functions, so the same axes come out on
+ * the server and in the browser. Nice domains and linear ticks are d3-array's (the algorithm d3-scale's
+ * linear scale uses); the maps themselves are the straight lines d3-scale draws (linear, or linear in
+ * log10 on a log axis). d3-scale itself is not shipped: its scales bring d3-interpolate, d3-color and
+ * d3-format (about 8 KB gzip) for colour interpolation and tick formats these plots never use;
+ * scales.spec.ts checks these maps against d3-scale.
  */
-import { scaleLinear, scaleLog } from 'd3-scale';
+import { nice, ticks } from 'd3-array';
 
 export type PlotPoint = { x: number; y: number };
 export type Tick = { value: number; label: string };
-export type AxisScale = ((v: number) => number) & { domain(): number[] };
+export type AxisScale = ((v: number) => number) & { domain(): number[]; ticks?(count: number): number[] };
 
 const SI_PREFIXES: [number, string][] = [
 	[1e12, 'T'],
@@ -52,10 +56,22 @@ export function axisDomain(values: number[], log = false, padFraction = 0): [num
 	return [lo, hi];
 }
 
-/** A d3 scale (linear or log) from a domain to a pixel range; linear domains are rounded out to nice ticks. */
+/** A scale (linear or log) from a domain to a pixel range; linear domains are rounded out to nice ticks (d3-array's nice). */
 export function makeScale(domain: [number, number], range: [number, number], log = false): AxisScale {
-	if (log) return scaleLog().domain(domain).range(range);
-	return scaleLinear().domain(domain).range(range).nice(6);
+	const [r0, r1] = range;
+	// As d3-interpolate's interpolateNumber: the same floating-point steps as d3-scale.
+	const between = (t: number) => r0 * (1 - t) + r1 * t;
+	// A zero-width domain maps to the middle of the range, as in d3-scale.
+	const part = (v: number, a: number, b: number) => (b === a ? 0.5 : (v - a) / (b - a));
+	if (log) {
+		const [l0, l1] = [Math.log(domain[0]), Math.log(domain[1])];
+		return Object.assign((v: number) => between(part(Math.log(v), l0, l1)), { domain: () => [...domain] });
+	}
+	const [d0, d1] = nice(domain[0], domain[1], 6);
+	return Object.assign((v: number) => between(part(v, d0, d1)), {
+		domain: () => [d0, d1],
+		ticks: (count: number) => ticks(d0, d1, count)
+	});
 }
 
 /**
@@ -97,7 +113,7 @@ export function axisTicks(scale: AxisScale, log: boolean, count = 6): Tick[] {
 			}
 		}
 	} else {
-		values = (scale as unknown as { ticks(n: number): number[] }).ticks(count);
+		values = scale.ticks?.(count) ?? [];
 	}
 	return values.map((value) => ({ value, label: formatTick(value) }));
 }
