@@ -1,5 +1,7 @@
 // Seed a large invented dataset for scale checks: 1,000 members (20 reviewers), 10,000 builds,
-// 100,000 steps, 50,000 parts lines, 200,000 comments, reviews, derived builds and revisions.
+// 100,000 steps, 50,000 parts lines, 200,000 comments, reviews, derived builds and revisions, and spec
+// blocks on the builds that would have them (amplifiers, supplies; about 3,400 at 10,000 builds) so the
+// find-by-numbers index (published_figure, published_part) is filled as on a real site.
 // Everything is generated inside PostgreSQL (INSERT … SELECT over generate_series), so it runs in
 // well under a minute. Deterministic: the same numbers give the same rows.
 //
@@ -8,6 +10,8 @@
 // Rows are recognisable (members' e-mails end in @large.test, build slugs start with "lg-"); --reset
 // removes a previous large seed first (members cascade to their builds, steps, comments, …).
 import postgres from 'postgres';
+import { drizzle } from 'drizzle-orm/postgres-js';
+import { loadAppModule } from './lib/app-module.js';
 
 const url = process.env.DATABASE_URL;
 if (!url) {
@@ -102,6 +106,15 @@ const COMMENT_TEXT = [
 ];
 
 const t0 = Date.now();
+// Spec blocks as the app's own checks compute them, parts values as its parser reads them (scripts/lib/large-seed.ts).
+const app = await loadAppModule('scripts/lib/large-seed.ts');
+const variants = app.specBlockVariants();
+const jsonLit = (v) => `'${JSON.stringify(v).replaceAll("'", "''")}'::jsonb`;
+const variantRows = (list) =>
+	list.map((b, i) => `(${i}, '${b.kind}', '${b.title.replaceAll("'", "''")}', ${jsonLit(b.data)}, ${jsonLit(b.derived)}, ${jsonLit(b.checks)})`).join(',\n');
+const partValues = PART_KINDS.flatMap(([kind, values]) =>
+	values.map((v) => [kind, v, app.partValueSI(v, kind)]).filter(([, , si]) => si !== null)
+);
 
 try {
 	const [{ n: existing }] = await sql`select count(*)::int as n from "user" where email like '%@large.test'`;
@@ -205,6 +218,32 @@ try {
 		);
 
 		await run(
+			'parts values (SI)',
+			`update part_line p set value = v.si
+			 from (values ${partValues.map(([k, t, si]) => `('${k}', '${t}', ${si}::float8)`).join(', ')}) v(kind, txt, si)
+			 where p.kind = v.kind and p.value_text = v.txt and p.build_id in (select md5('lg-build-' || n)::uuid from generate_series(1, ${BUILDS}) n)`
+		);
+
+		// Spec blocks where a real site has them: most power amps carry an amplifier block and many a
+		// supply block, headphone amps an amplifier block, supplies a supply block, some preamps a supply.
+		await run(
+			'spec blocks',
+			`with amp(i, kind, title, data, derived, checks) as (values ${variantRows(variants.amplifier)}),
+			      sup(i, kind, title, data, derived, checks) as (values ${variantRows(variants.supply)}),
+			      b as (select id, category, hashtext(id::text) as h from build
+			            where id in (select md5('lg-build-' || n)::uuid from generate_series(1, ${BUILDS}) n))
+			 insert into spec_block (build_id, kind, title, data, derived, checks, position, created_at, updated_at)
+			 select b.id, amp.kind, amp.title, amp.data, amp.derived, amp.checks, 0, now(), now()
+			 from b join amp on amp.i = mod(abs(b.h), ${variants.amplifier.length})
+			 where (b.category = 'power-amp' and mod(abs(b.h / 7), 10) < 7) or (b.category = 'headphone-amp' and mod(abs(b.h / 7), 10) < 5)
+			 union all
+			 select b.id, sup.kind, sup.title, sup.data, sup.derived, sup.checks, 1, now(), now()
+			 from b join sup on sup.i = mod(abs(b.h / 3), ${variants.supply.length})
+			 where (b.category = 'power-amp' and mod(abs(b.h / 11), 10) < 5) or (b.category = 'power-supply' and mod(abs(b.h / 11), 10) < 8)
+			    or (b.category = 'preamp' and mod(abs(b.h / 11), 10) < 2)`
+		);
+
+		await run(
 			'comments',
 			`insert into comment (build_id, author_id, body_md, body_html, created_at)
 			 select md5('lg-build-' || (1 + mod(i, ${BUILDS})))::uuid,
@@ -268,7 +307,9 @@ try {
 			                                      'mainsPowered', b.mains_powered, 'licence', b.licence, 'coverPhotoId', null),
 			          'steps', coalesce((select jsonb_agg(jsonb_build_object('id', s.id, 'title', s.title, 'bodyMd', s.body_md, 'bodyHtml', s.body_html, 'photoIds', '[]'::jsonb) order by s.position)
 			                             from build_step s where s.build_id = b.id), '[]'::jsonb),
-			          'specBlocks', '[]'::jsonb,
+			          'specBlocks', coalesce((select jsonb_agg(jsonb_build_object('id', s.id, 'kind', s.kind, 'title', s.title, 'data', s.data, 'derived', s.derived,
+			                                    'checks', s.checks) order by s.position)
+			                             from spec_block s where s.build_id = b.id), '[]'::jsonb),
 			          'parts', coalesce((select jsonb_agg(jsonb_build_object('id', p.id, 'designators', p.designators, 'quantity', p.quantity, 'kind', p.kind,
 			                                    'valueText', p.value_text, 'value', p.value, 'unit', p.unit, 'tolerancePct', p.tolerance_pct, 'ratingV', p.rating_v,
 			                                    'ratingW', p.rating_w, 'package', p.package, 'notes', p.notes, 'designValueText', p.design_value_text,
@@ -278,16 +319,23 @@ try {
 			        b.published_at
 			 from build b where b.slug like 'lg-%' and b.status = 'published'`
 		);
+
 	});
+	// The find index from the revisions just written, by the app's own refresh (as the revision transaction does).
+	const tf = Date.now();
+	await drizzle(sql).transaction((tx) => app.refreshFindIndex(tx, null));
+	const [f] = await sql`select (select count(*)::int from published_figure) as figures, (select count(*)::int from published_part) as parts`;
+	console.log(`  ${'find index'.padEnd(34)} ${String(f.figures + f.parts).padStart(7)} rows  ${((Date.now() - tf) / 1000).toFixed(1)} s (${f.figures} figures, ${f.parts} parts)`);
 	await sql.unsafe('analyze');
 	const [c] = await sql`select
 		(select count(*)::int from build where slug like 'lg-%') as builds,
 		(select count(*)::int from build_step s join build b on b.id = s.build_id where b.slug like 'lg-%') as steps,
 		(select count(*)::int from part_line p join build b on b.id = p.build_id where b.slug like 'lg-%') as parts,
 		(select count(*)::int from comment c join build b on b.id = c.build_id where b.slug like 'lg-%') as comments,
-		(select count(*)::int from review r join build b on b.id = r.build_id where b.slug like 'lg-%') as reviews`;
+		(select count(*)::int from review r join build b on b.id = r.build_id where b.slug like 'lg-%') as reviews,
+		(select count(*)::int from spec_block s join build b on b.id = s.build_id where b.slug like 'lg-%') as blocks`;
 	console.log(
-		`Done in ${((Date.now() - t0) / 1000).toFixed(1)} s: ${c.builds} builds, ${c.steps} steps, ${c.parts} parts lines, ${c.comments} comments, ${c.reviews} reviews.`
+		`Done in ${((Date.now() - t0) / 1000).toFixed(1)} s: ${c.builds} builds, ${c.steps} steps, ${c.parts} parts lines, ${c.comments} comments, ${c.reviews} reviews, ${c.blocks} spec blocks.`
 	);
 } finally {
 	await sql.end({ timeout: 5 });

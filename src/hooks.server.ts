@@ -7,12 +7,13 @@ import { handleUnavailable, noteUnavailable } from '$lib/server/hooks/unavailabl
 import { unavailableMessage } from '$lib/server/http/unavailable';
 import { handleIdempotency } from '$lib/server/http/idempotency';
 import { handleReaderCache } from '$lib/server/builds/reader-cache';
+import { handleListCache } from '$lib/server/builds/list-cache';
 
 export const init: ServerInit = async () => {
 	if (!building) await startBackground();
 };
 
-export const handle: Handle = sequence(handleUnavailable, handleSecurityHeaders, handleApiEnvelope, handleRequestGuards, handleControlCharacters, handleAuth, handleReaderCache, handleIdempotency, handleApiRateLimit, handleHttpCache);
+export const handle: Handle = sequence(handleUnavailable, handleSecurityHeaders, handleApiEnvelope, handleRequestGuards, handleControlCharacters, handleAuth, handleReaderCache, handleListCache, handleIdempotency, handleApiRateLimit, handleHttpCache);
 
 export const handleError: HandleServerError = ({ error, event, status, message }) => {
 	if (status === 404) return { message: 'Not found' };

@@ -6,8 +6,9 @@ import { effectiveSort, encodeCursor as encodeCursorFor, listPublishedBuilds, qu
 import { getReviewStates, type ReviewState } from './reviews/state';
 import { FIND_KEYS, listQuerySchema, type ListQuery } from '$lib/schemas/list';
 import { highlightBuilds, type SearchHighlight } from './search';
+import { currentReaderVersion } from './builds/reader-version';
 import { queryObject, type ApiIssue } from './http';
-import { CATEGORY_LABELS, TOPOLOGY_LABELS, labelOf } from '$lib/labels';
+import { listRowFields } from './builds/serialize';
 import type { BuildCardData } from '$lib/components/build/card';
 
 export type { BuildCardData };
@@ -22,51 +23,23 @@ export async function toCards(
 	return rows.map((r) => toCard(r, reviews.get(r.id) ?? null, highlights?.get(r.id)));
 }
 
-/** One card from a list row (pure). */
+/** One card from a list row (pure): the list fields every list shows (builds/serialize), the review state, highlights. */
 export function toCard(r: BuildListRow, review: ReviewState | null, hl?: SearchHighlight): BuildCardData {
-	return {
-		id: r.id,
-		slug: r.slug,
-		title: r.title,
-		summary: r.summary,
-		category: r.category,
-		categoryLabel: labelOf(CATEGORY_LABELS, r.category),
-		topology: r.topology,
-		topologyLabel: labelOf(TOPOLOGY_LABELS, r.topology),
-		mainsPowered: r.mainsPowered,
-		progress: r.progress,
-		derivedCount: r.derivedCount,
-		publishedAt: r.publishedAt ? r.publishedAt.toISOString() : null,
-		maker: { name: r.makerName, handle: r.makerHandle },
-		cover: r.cover?.id
-			? {
-					id: r.cover.id,
-					keyPrefix: r.cover.keyPrefix!,
-					widths: r.cover.widths!,
-					width: r.cover.width!,
-					height: r.cover.height!,
-					alt: r.cover.alt!,
-					placeholder: r.cover.placeholder
-				}
-			: null,
-		review,
-		titleHtml: hl?.titleHtml,
-		snippetHtml: hl?.snippetHtml
-	};
+	return { id: r.id, ...listRowFields(r), review, titleHtml: hl?.titleHtml, snippetHtml: hl?.snippetHtml };
 }
 
-/** Seconds the home page's lists are reused within one app process (the page is the same for everyone). */
-export const HOME_CACHE_S = 5;
-let homeCache: { at: number; value: Promise<Awaited<ReturnType<typeof homeLists>>> } | null = null;
+let homeCache: { version: number; value: ReturnType<typeof homeLists> } | null = null;
 
 /**
- * homeLists, reused for HOME_CACHE_S seconds: the home page is the busiest page and identical for every
- * reader, so a new build or verdict shows there within a few seconds instead of costing six queries a view.
+ * homeLists, reused while the site-wide reader version (builds/reader-version) stays the same: the home
+ * page is the busiest page and identical for every reader; any write a list could show moves the
+ * version (in the database, so every app instance sees it), and the next view asks again.
  */
-export function cachedHomeLists(now = Date.now()) {
-	if (!homeCache || now - homeCache.at > HOME_CACHE_S * 1000) {
+export async function cachedHomeLists() {
+	const { version } = await currentReaderVersion();
+	if (!homeCache || homeCache.version !== version) {
 		const value = homeLists();
-		homeCache = { at: now, value };
+		homeCache = { version, value };
 		value.catch(() => {
 			if (homeCache?.value === value) homeCache = null;
 		});

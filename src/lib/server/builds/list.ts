@@ -5,7 +5,7 @@
  * keyset cursor pagination on (sort key…, id) so pages never repeat or skip while builds are published.
  * The query string's schema is $lib/schemas/list; the JSON shapes are ./serialize.
  */
-import { and, desc, eq, gt, sql, type SQL } from 'drizzle-orm';
+import { and, desc, eq, gt, inArray, sql, type SQL } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/pg-core';
 import * as schema from '../db/schema';
 import { db } from '../db';
@@ -186,6 +186,10 @@ export async function listPublishedBuilds(opts: ListOptions = {}, dbx: DbLike = 
 	const limit = Math.min(Math.max(opts.limit ?? LIST_LIMIT_DEFAULT, 1), LIST_LIMIT_MAX);
 	const sort = opts.sort ?? 'recent';
 	const filters = opts.filters ?? {};
+	if (sort === 'relevance' && filters.q && onlySearch(filters)) {
+		const page = await relevanceFromCandidates(filters.q, limit, opts.cursor ?? null, dbx);
+		if (page) return page;
+	}
 	const spec = sortSpec(sort, filters.q ? searchQuery(filters.q) : undefined);
 	const conds: SQL[] = [eq(schema.build.status, 'published'), ...filterConditions(filters)];
 	if (opts.cursor) {
@@ -208,6 +212,60 @@ export async function listPublishedBuilds(opts: ListOptions = {}, dbx: DbLike = 
 	const page = more ? rows.slice(0, limit) : rows;
 	const last = page[page.length - 1];
 	const next: ListCursor | null = more && last ? { sort, keys: last.sortKeys, id: last.id } : null;
+	return { rows: page, next };
+}
+
+/** True when a list is narrowed by the search text alone (the bounded relevance path's case). */
+function onlySearch(f: ListFilters): boolean {
+	const figures = f.figures && Object.values(f.figures).some((v) => v !== undefined);
+	const part = f.part && Object.values(f.part).some((v) => v !== undefined && v !== '');
+	return !f.category && !f.topology && !f.review && f.mains === undefined && !f.maker && !f.ownerId && !f.derivedOnly && !f.progress && !figures && !part;
+}
+
+/**
+ * Matches the relevance order reads from the RUM index's own ordered scan (`ORDER BY search <=> q
+ * LIMIT n`) before ordering them completely: the index hands them over best first, so the page is
+ * decided among these few instead of sorting every match with its distance computed from the table.
+ */
+export const RELEVANCE_CANDIDATES = 200;
+
+/**
+ * One page of the relevance order (distance ascending, then newest, then id — the same total order as
+ * the general query) from a bounded candidate set: the first `RELEVANCE_CANDIDATES` published matches
+ * after the cursor in RUM's ordered scan. Every match nearer than the last candidate is among them, so
+ * the page is exact when its last row is strictly nearer than that candidate (or all matches were
+ * read); otherwise (a run of equal distances crosses the edge) → null, and the general query answers.
+ */
+export async function relevanceFromCandidates(q: string, limit: number, cursor: ListCursor | null, dbx: DbLike) {
+	const b = schema.build;
+	const tsq = searchQuery(q);
+	const distance = searchDistance(tsq);
+	const take = Math.max(RELEVANCE_CANDIDATES, 4 * (limit + 1));
+	const after = cursor
+		? sql`and ((-${distance}), ${b.publishedAt}, ${b.id}) < (${cursor.keys[0]}::real, ${cursor.keys[1]}::timestamp, ${cursor.id}::uuid)`
+		: sql``;
+	const found = await dbx.execute<{ id: string; d: number; k0: string; k1: string }>(sql`
+		select ${b.id} as id, (${distance})::float8 as d, (-${distance})::text as k0, ${microTs(b.publishedAt)} as k1
+		from ${b}
+		where ${b.status} = 'published' and ${b.search} @@ ${tsq} ${after}
+		order by ${distance}
+		limit ${take}`);
+	const rows = [...found];
+	const edge = rows.length === take ? rows[rows.length - 1].d : Infinity;
+	// The total order among the candidates: nearer first, then newer, then the larger id (uuid order is its hex text's).
+	rows.sort((x, y) => x.d - y.d || (x.k1 < y.k1 ? 1 : x.k1 > y.k1 ? -1 : 0) || (x.id < y.id ? 1 : x.id > y.id ? -1 : 0));
+	const chosen = rows.slice(0, limit + 1);
+	if (chosen.length && chosen[chosen.length - 1].d >= edge) return null;
+	const full = chosen.length ? await selectBuildList(dbx).where(inArray(b.id, chosen.map((r) => r.id))) : [];
+	const byId = new Map(full.map((r) => [r.id, r]));
+	const ordered = chosen.flatMap((c) => {
+		const r = byId.get(c.id);
+		return r ? [{ ...r, sortKeys: [c.k0, c.k1] }] : [];
+	});
+	const more = ordered.length > limit;
+	const page = more ? ordered.slice(0, limit) : ordered;
+	const last = page[page.length - 1];
+	const next: ListCursor | null = more && last ? { sort: 'relevance', keys: last.sortKeys, id: last.id } : null;
 	return { rows: page, next };
 }
 

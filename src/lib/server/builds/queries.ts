@@ -20,6 +20,14 @@ export async function getBuildBySlug(slug: string, dbx: DbLike = db): Promise<sc
 	return row ?? null;
 }
 
+/** What the reader cache needs of the build with this slug (id, status, view version): one small indexed read. */
+export async function getBuildHead(slug: string, dbx: DbLike = db) {
+	if (!isSlugShaped(slug)) return null;
+	const b = schema.build;
+	const [row] = await dbx.select({ id: b.id, status: b.status, viewVersion: b.viewVersion, viewChangedAt: b.viewChangedAt }).from(b).where(eq(b.slug, slug));
+	return row ?? null;
+}
+
 /** The build with this slug if `viewer` may see it; 404 otherwise (drafts look absent to others). */
 export async function requireVisibleBuild(slug: string, viewer: Viewer, dbx: DbLike = db): Promise<schema.Build> {
 	const b = await getBuildBySlug(slug, dbx);

@@ -16,7 +16,8 @@ import { LRUCache } from 'lru-cache';
 import { env } from '$env/dynamic/private';
 import { version } from '$app/environment';
 import type { Build } from '../db/schema';
-import { getBuildBySlug } from './queries';
+import { getBuildBySlug, getBuildHead } from './queries';
+import { currentReaderVersion } from './reader-version';
 import { etagMatches } from '../http-cache';
 
 function positive(v: string | undefined, fallback: number): number {
@@ -65,7 +66,7 @@ export function readerKey(b: Pick<Build, 'id' | 'viewVersion'>): string {
 }
 
 /** True when an anonymous reader's view of `b` may be cached (published or archived). */
-export function readerCacheable(b: Pick<Build, 'status'> | null): b is Build {
+export function readerCacheable<T extends Pick<Build, 'status'>>(b: T | null): b is T {
 	return !!b && b.status !== 'draft';
 }
 
@@ -83,6 +84,7 @@ export async function cachedReaderData<T extends PageData>(b: Pick<Build, 'id' |
 export function clearReaderCache(): void {
 	cache?.clear();
 	pages?.clear();
+	heads?.clear();
 }
 
 /** How many entries and bytes the cache holds (for the bench script and tests). */
@@ -99,11 +101,34 @@ const BUILD_PAGE = /^\/builds\/([^/]+)\/?$/;
 /** Readers' browsers keep the page but ask every time (a new comment shows at once). */
 export const READER_CACHE_CONTROL = 'no-cache';
 
+/** What the hook needs of a build to label and find its anonymous page. */
+type Head = Pick<Build, 'id' | 'status' | 'viewVersion' | 'viewChangedAt'>;
+
 /**
- * For an anonymous GET of a build page: read the build row (with its view version) once, answer 304 when
- * the browser holds this version (If-None-Match, or If-Modified-Since when no ETag was sent), serve the
- * page rendered for this version when this process has it, otherwise let the page render (its load takes
- * the row from `locals.readerBuild`), label the answer and keep it.
+ * The head of the build behind a slug, by site-wide reader version: while that version has not moved, no
+ * build a reader can see has changed (./reader-version), so the head read at that version still holds
+ * and the request needs no query of its own. Drafts are not kept (their pages are never cached).
+ */
+let heads: LRUCache<string, { readerVersion: number; head: Head }> | null = null;
+
+async function headOf(slug: string): Promise<Head | null> {
+	heads ??= new LRUCache({ max: positive(env.READER_CACHE_MAX, 2000) * 4 });
+	const { version } = await currentReaderVersion();
+	const known = heads.get(slug);
+	if (known && known.readerVersion === version) return known.head;
+	// Read after the version: what is kept under `version` is never older than it.
+	const head = await getBuildHead(slug);
+	if (head && readerCacheable(head)) heads.set(slug, { readerVersion: version, head });
+	else heads.delete(slug);
+	return head;
+}
+
+/**
+ * For an anonymous GET of a build page: find the build's head (id, status, view version) — from the
+ * per-version head cache, else one small indexed query — answer 304 when the browser holds this version
+ * (If-None-Match, or If-Modified-Since when no ETag was sent), serve the page rendered for this version
+ * when this process has it, otherwise read the whole row, let the page render (its load takes the row
+ * from `locals.readerBuild`), label the answer and keep it.
  */
 export const handleReaderCache: Handle = async ({ event, resolve }) => {
 	const m = event.request.method === 'GET' && !event.isDataRequest && !event.locals.user && !event.url.search ? BUILD_PAGE.exec(event.url.pathname) : null;
@@ -114,30 +139,34 @@ export const handleReaderCache: Handle = async ({ event, resolve }) => {
 	} catch {
 		return resolve(event);
 	}
-	const b = await getBuildBySlug(slug);
+	let b: Head | null = await headOf(slug);
 	if (!readerCacheable(b)) return resolve(event);
-	event.locals.readerBuild = b;
-	const etag = readerEtag(b, event.url.origin);
-	const changed = Math.floor(b.viewChangedAt.getTime() / 1000) * 1000;
-	const labels = {
-		etag,
-		'last-modified': new Date(changed).toUTCString(),
+	const labelsOf = (h: Head) => ({
+		etag: readerEtag(h, event.url.origin),
+		'last-modified': new Date(Math.floor(h.viewChangedAt.getTime() / 1000) * 1000).toUTCString(),
 		'cache-control': READER_CACHE_CONTROL,
 		vary: 'Cookie'
-	};
+	});
+	let labels = labelsOf(b);
 	const inm = event.request.headers.get('if-none-match');
 	const ims = Date.parse(event.request.headers.get('if-modified-since') ?? '');
-	if (inm ? etagMatches(inm, etag) : Number.isFinite(ims) && ims >= changed) {
+	if (inm ? etagMatches(inm, labels.etag) : Number.isFinite(ims) && ims >= Math.floor(b.viewChangedAt.getTime() / 1000) * 1000) {
 		return new Response(null, { status: 304, headers: labels });
 	}
-	const hit = pageCache().get(etag);
+	const hit = pageCache().get(labels.etag);
 	if (hit) return new Response(hit.body.slice(), { status: 200, headers: hit.headers });
+	// Not rendered here yet: the page needs the whole row (read now, so it is at least as new as the head).
+	const row = await getBuildBySlug(slug);
+	if (!readerCacheable(row)) return resolve(event);
+	event.locals.readerBuild = row;
+	b = row;
+	labels = labelsOf(row);
 	const response = await resolve(event);
 	if (response.status !== 200 || response.headers.has('set-cookie')) return response;
 	for (const [k, v] of Object.entries(labels)) response.headers.set(k, v);
 	if (!(response.headers.get('content-type') ?? '').startsWith('text/html')) return response;
 	const body = new Uint8Array(await response.arrayBuffer());
 	// A page with a per-request CSP nonce must never be served twice (kit.csp is in hash mode: none).
-	if (!new TextDecoder().decode(body).includes(' nonce=')) pageCache().set(etag, { body, headers: [...response.headers] });
+	if (!new TextDecoder().decode(body).includes(' nonce=')) pageCache().set(labels.etag, { body, headers: [...response.headers] });
 	return new Response(body, { status: 200, headers: response.headers });
 };

@@ -26,11 +26,13 @@ export function serializePhoto(p: Omit<PhotoView, 'placeholder'>) {
 
 const iso = (d: Date | null | undefined) => (d ? d.toISOString() : null);
 
-/** One build in a list, as the API answers it. */
-export function serializeListItem(r: BuildListRow) {
+/**
+ * What every list shows of a list row, as both the API list items and the build cards (server/discover)
+ * carry it: names and labels, the maker, the publish time (ISO 8601) and the cover as a photo view.
+ */
+export function listRowFields(r: BuildListRow) {
 	return {
 		slug: r.slug,
-		url: `/builds/${r.slug}`,
 		title: r.title,
 		summary: r.summary,
 		category: r.category,
@@ -38,17 +40,35 @@ export function serializeListItem(r: BuildListRow) {
 		topology: r.topology,
 		topologyLabel: labelOf(TOPOLOGY_LABELS, r.topology),
 		mainsPowered: r.mainsPowered,
+		progress: r.progress,
+		derivedCount: r.derivedCount,
+		publishedAt: iso(r.publishedAt),
+		maker: { name: r.makerName, handle: r.makerHandle },
+		cover: coverView(r)
+	};
+}
+
+/** The cover photo of a list row (left-joined: all fields null when the build has none). */
+function coverView(r: BuildListRow): PhotoView | null {
+	const c = r.cover;
+	return c?.id
+		? { id: c.id, keyPrefix: c.keyPrefix!, widths: c.widths!, width: c.width!, height: c.height!, alt: c.alt!, placeholder: c.placeholder }
+		: null;
+}
+
+/** One build in a list, as the API answers it. */
+export function serializeListItem(r: BuildListRow) {
+	const f = listRowFields(r);
+	return {
+		...f,
+		url: `/builds/${r.slug}`,
 		licence: r.licence,
 		status: r.status,
-		progress: r.progress,
 		progressLabel: labelOf(PROGRESS_LABELS, r.progress),
 		revision: r.revision,
-		derivedCount: r.derivedCount,
 		locked: r.locked,
-		publishedAt: iso(r.publishedAt),
 		updatedAt: iso(r.updatedAt),
-		maker: { name: r.makerName, handle: r.makerHandle },
-		cover: r.cover?.id ? serializePhoto(r.cover as Parameters<typeof serializePhoto>[0]) : null,
+		cover: f.cover ? serializePhoto(f.cover) : null,
 		derivedFrom:
 			r.originSlug && r.originStatus !== 'draft' ? { slug: r.originSlug, title: r.originTitle, url: `/builds/${r.originSlug}` } : null
 	};

@@ -14,6 +14,7 @@ import {
 	primaryKey,
 	customType,
 	check,
+	bigint,
 	type AnyPgColumn
 } from 'drizzle-orm/pg-core';
 import { user } from './auth.schema';
@@ -550,6 +551,22 @@ export const buildReport = pgTable(
 		updatedAt: timestamp('updated_at').defaultNow().notNull()
 	},
 	(t) => [uniqueIndex('build_report_member_idx').on(t.buildId, t.userId), index('build_report_user_idx').on(t.userId)]
+);
+
+/**
+ * What anonymous readers see of the lists (home, browse, search, the API list) as one number: database
+ * triggers (migration 0011) move it once per transaction that inserts, changes or deletes a build that is
+ * not a draft — and every change a list shows touches its build row (migration 0004's triggers). The list
+ * caches (server/builds/list-cache.ts) key on it. One row.
+ */
+export const readerVersion = pgTable(
+	'reader_version',
+	{
+		id: integer('id').primaryKey().default(1),
+		version: bigint('version', { mode: 'number' }).default(0).notNull(),
+		changedAt: timestamp('changed_at', { precision: 3 }).defaultNow().notNull()
+	},
+	(t) => [check('reader_version_one_row', sql`${t.id} = 1`)]
 );
 
 export type Build = typeof build.$inferSelect;

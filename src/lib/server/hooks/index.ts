@@ -24,9 +24,18 @@ async function httpSignIn(request: Request, clientAddress: string): Promise<Resp
 	return passwordSignIn(body.email, body.password, clientAddress);
 }
 
+/**
+ * True when the request carries a better-auth session cookie (`better-auth.session_token`, with the
+ * `__Secure-` prefix over https). Without one there is no session to look up.
+ */
+export function hasSessionCookie(cookie: string | null): boolean {
+	return !!cookie && cookie.includes('.session_token=');
+}
+
 /** Resolve the session once per request into locals, then let better-auth serve /api/auth/*. */
 export const handleAuth: Handle = async ({ event, resolve }) => {
-	const session = await auth.api.getSession({ headers: event.request.headers });
+	// Anonymous readers (no session cookie) skip the session lookup: most requests are theirs.
+	const session = hasSessionCookie(event.request.headers.get('cookie')) ? await auth.api.getSession({ headers: event.request.headers }) : null;
 	if (session && !session.user.suspendedAt) {
 		event.locals.user = session.user;
 		event.locals.session = session.session;
