@@ -542,6 +542,24 @@ export const buildReport = pgTable(
 	(t) => [uniqueIndex('build_report_member_idx').on(t.buildId, t.userId), index('build_report_user_idx').on(t.userId)]
 );
 
+/**
+ * Watching a build (server/watching): the member gets mail about its new comments, revisions and review state
+ * changes, like its maker. Member-only state: no build page reader sees it, so the reader cache ignores it.
+ */
+export const buildWatch = pgTable(
+	'build_watch',
+	{
+		buildId: uuid('build_id')
+			.notNull()
+			.references(() => build.id, { onDelete: 'cascade' }),
+		userId: text('user_id')
+			.notNull()
+			.references(() => user.id, { onDelete: 'cascade' }),
+		createdAt: timestamp('created_at').defaultNow().notNull()
+	},
+	(t) => [primaryKey({ columns: [t.buildId, t.userId] }), index('build_watch_user_idx').on(t.userId)]
+);
+
 export type Build = typeof build.$inferSelect;
 export type BuildStep = typeof buildStep.$inferSelect;
 export type Photo = typeof photo.$inferSelect;
