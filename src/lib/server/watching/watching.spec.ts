@@ -48,6 +48,11 @@ const mark = async () => {
 	await new Promise((r) => setTimeout(r, 5));
 	return new Date();
 };
+/** The build's first top-level comment. */
+async function firstComment() {
+	const [top] = await db.select({ id: schema.comment.id }).from(schema.comment).where(eq(schema.comment.buildId, b.id)).orderBy(schema.comment.createdAt).limit(1);
+	return top;
+}
 /** The build as the comments module takes it. */
 const ref = () => ({ id: b.id, slug: b.slug, title: b.title, status: 'published' as const, locked: false, ownerId: maker.id });
 
@@ -94,12 +99,7 @@ describe('watching: who gets which mail', () => {
 	});
 
 	it('a reply: its parent’s author gets ONE mail (the reply), even though they also watch the build', async () => {
-		const [top] = await db
-			.select({ id: schema.comment.id })
-			.from(schema.comment)
-			.where(eq(schema.comment.buildId, b.id))
-			.orderBy(schema.comment.createdAt)
-			.limit(1);
+		const top = await firstComment();
 		const t = await mark();
 		await postComment(maker, ref(), { body: 'Yes: 0.6 K/W now.', parentId: top.id });
 		expect(await to(watcher, t)).toEqual([`${maker.name} replied to your comment on “${b.title}”`]);
@@ -108,12 +108,7 @@ describe('watching: who gets which mail', () => {
 	});
 
 	it('a parent author who turned reply mail off but watches the build still gets one mail, under comment mail', async () => {
-		const [top] = await db
-			.select({ id: schema.comment.id })
-			.from(schema.comment)
-			.where(eq(schema.comment.buildId, b.id))
-			.orderBy(schema.comment.createdAt)
-			.limit(1);
+		const top = await firstComment();
 		await db.update(schema.user).set({ notifyReply: false }).where(eq(schema.user.id, watcher.id));
 		const t = await mark();
 		await postComment(reviewer, ref(), { body: 'Measure the tab-to-chassis resistance too.', parentId: top.id });
