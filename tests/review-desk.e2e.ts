@@ -27,6 +27,17 @@ test('filter the desk to mains + DANGER, claim, review with photo and checklist,
 		multipart: { file: { name: 'inlet.jpg', mimeType: 'image/jpeg', buffer: jpeg }, alt: 'Fused inlet with the earth lead to the chassis stud', purpose: 'step', stepId: stepId! }
 	});
 	expect(up.status(), 'upload step photo').toBe(201);
+	// The schematic as a file, then all of it published as Rev B; one more step stays unpublished (pending).
+	const pdf = Buffer.from('%PDF-1.4\n1 0 obj << /Type /Catalog /Pages 2 0 R >> endobj\n2 0 obj << /Type /Pages /Kids [] /Count 0 >> endobj\ntrailer << /Root 1 0 R >>\n%%EOF\n');
+	const file = await joss.request.post(`${buildUrl}/attachments`, {
+		headers: { origin: origin(), accept: 'application/json' },
+		multipart: { kind: 'schematic', file: { name: 'inlet-schematic.pdf', mimeType: 'application/pdf', buffer: pdf } }
+	});
+	expect(file.status(), 'attach the schematic').toBe(201);
+	const rev = await postForm(joss.request, `${buildUrl}/edit?/publishChanges`, { note: 'Supply block, inlet photo and the schematic.' });
+	expect(rev.status(), 'publish Rev B').toBe(200);
+	const pending = await postForm(joss.request, `${buildUrl}/edit?/addStep`, { title: 'Lid and feet', bodyMd: 'Rubber feet; the lid is not fitted yet.' });
+	expect(pending.status(), 'add a pending step').toBe(200);
 
 	// The maker asks for review with a note.
 	await joss.goto(`${buildUrl}/request-review`, { waitUntil: 'networkidle' });
@@ -84,6 +95,17 @@ test('filter the desk to mains + DANGER, claim, review with photo and checklist,
 	const photo = maren.locator('[data-review-target="step"]').filter({ hasText: 'Mains inlet and fuse' }).locator('[data-step-photos] img');
 	await expect(photo).toHaveAttribute('alt', 'Fused inlet with the earth lead to the chassis stud');
 	await expect.poll(() => photo.evaluate((img: HTMLImageElement) => img.complete && img.naturalWidth)).toBeGreaterThan(0);
+	// Rev B as published — its files listed with type and size — and the unpublished step only under "Pending changes".
+	await expect(maren.locator('[data-reviewed-revision]')).toContainText('Rev B as published');
+	const files = maren.locator('[data-review-files] [data-attachment="inlet-schematic.pdf"]');
+	await expect(files).toContainText('Schematic · PDF');
+	await expect(files.locator('[data-size]')).toHaveText(`${pdf.length} bytes`);
+	await expect(maren.locator('[data-review-target="step"]')).toHaveCount(2);
+	await expect(maren.locator('[data-review-target="step"]').filter({ hasText: 'Lid and feet' })).toHaveCount(0);
+	const pendingBox = maren.locator('[data-pending-changes]');
+	await expect(pendingBox).toContainText('Pending changes — not published, not under review');
+	await pendingBox.getByText('Show the pending changes').click();
+	await expect(pendingBox.locator('[data-step-diff="added"]')).toContainText('Lid and feet');
 	const checklist = maren.locator('[data-checklist]');
 	await expect(checklist.locator('input[type="checkbox"]')).toHaveCount(6);
 	await expect(checklist).toContainText('IEC 62368-1');
@@ -109,16 +131,16 @@ test('filter the desk to mains + DANGER, claim, review with photo and checklist,
 	await expect(heatsink.locator('[data-flag-state="resolved"]')).toHaveCount(1);
 	await expect(maren.getByLabel(/^Summary/)).toHaveValue('Inlet wiring, earth bond and fuse checked from the photo and the steps.');
 	await expect(checklist.locator('input:checked')).toHaveCount(5);
-	await maren.getByRole('button', { name: /Record the review of Rev A/ }).click();
+	await maren.getByRole('button', { name: /Record the review of Rev B/ }).click();
 	await expect(maren.getByRole('alert')).toContainText('1 of 6 checklist items are not ticked');
 	await maren.getByLabel(/^Why items are left unticked/).fill('No heatsink on this board: the chip runs from the case floor, checked separately.');
-	await maren.getByRole('button', { name: /Record the review of Rev A/ }).click();
+	await maren.getByRole('button', { name: /Record the review of Rev B/ }).click();
 	await expect(maren).toHaveURL(new RegExp(`${buildUrl}\\?done=review-safe(#review-state)?$`));
 	await expect(maren.locator('[data-outcome]')).toHaveText(/Review recorded: you signed this revision off as safe/);
 
 	// The maker sees the sign-off with its checklist, the reason for the unticked item, and the peer-opinion sentence.
 	await joss.goto(buildUrl, { waitUntil: 'networkidle' });
-	await expect(joss.locator('#review-state [data-review-label]')).toHaveText(/Signed off as safe at Rev A/);
+	await expect(joss.locator('#review-state [data-review-label]')).toHaveText(/Signed off as safe at Rev B/);
 	await expect(joss.locator('#review-state [data-checklist-summary] summary')).toHaveText(/Mains checklist: 5 of 6 ticked/);
 	const listed = joss.locator('[data-review="safe"] [data-review-checklist]');
 	await expect(listed.locator('[data-ticked="true"]')).toHaveCount(5);

@@ -16,7 +16,9 @@ export const OUTCOMES = {
 	claimed: 'Claimed: other reviewers see that you are reviewing this build.',
 	renewed: 'Claim renewed: it holds for another full period.',
 	released: 'Claim released: any reviewer can take this build now.',
-	following: 'Saved: the categories you follow for review desk mail.'
+	following: 'Saved: the categories you follow for review desk mail.',
+	watching: 'You watch this build now: you get an e-mail about its new comments, revisions, reviews and hazard tags.',
+	unwatched: 'You stopped watching this build. No more e-mail about it (unless it is about your own comment or hazard tag).'
 } as const;
 
 export type Outcome = keyof typeof OUTCOMES;

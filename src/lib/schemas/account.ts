@@ -52,5 +52,7 @@ export const profileSchema = z.object({
 	bio: z.string().trim().max(600, 'Keep the bio under 600 characters.').default(''),
 	notifyReview: z.boolean().default(true),
 	notifyFlag: z.boolean().default(true),
-	notifyReply: z.boolean().default(true)
+	notifyReply: z.boolean().default(true),
+	notifyComment: z.boolean().default(true),
+	notifyRevision: z.boolean().default(true)
 });

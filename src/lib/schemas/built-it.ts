@@ -88,12 +88,57 @@ export const builtItForm = z
 				path: ['railsMeasuredV'],
 				message: `give one measured value for each expected rail (${f.railsExpectedV.length} expected, ${f.railsMeasuredV.length} measured)`
 			});
-		if (f.thdPoints.length && f.dcOffsetMv.length === 0)
-			ctx.addIssue({ code: 'custom', path: ['dcOffsetMv'], message: 'measure the DC offset too (one value per channel) before distortion figures' });
-		if (!f.railsMeasuredV.length && !f.dcOffsetMv.length && !f.thdPoints.length)
-			ctx.addIssue({ code: 'custom', path: ['railsMeasuredV'], message: 'give at least one figure you measured: rails, DC offset or distortion points' });
+		figureRules(f, ctx, { offset: 'dcOffsetMv', figures: 'railsMeasuredV' });
 	});
 export type BuiltItForm = z.output<typeof builtItForm>;
+
+/** The rules both the form and the API body follow: distortion needs the offset, and at least one figure. */
+function figureRules(
+	f: Pick<BuiltItForm, 'railsMeasuredV' | 'dcOffsetMv' | 'thdPoints'>,
+	ctx: z.RefinementCtx,
+	path: { offset: string; figures: string }
+): void {
+	if (f.thdPoints.length && f.dcOffsetMv.length === 0)
+		ctx.addIssue({ code: 'custom', path: [path.offset], message: 'measure the DC offset too (one value per channel) before distortion figures' });
+	if (!f.railsMeasuredV.length && !f.dcOffsetMv.length && !f.thdPoints.length)
+		ctx.addIssue({ code: 'custom', path: [path.figures], message: 'give at least one figure you measured: rails, DC offset or distortion points' });
+}
+
+const finite = z.number().refine(Number.isFinite, 'must be a finite number');
+
+/**
+ * The JSON body of `POST /api/v1/builds/{slug}/built-it` (API.md conventions: SI numbers, the unit in every
+ * field name): the same figures as the form, as numbers. Checked afterwards like the form (the bring-up and
+ * measurements blocks' own schemas and checks).
+ */
+export const builtItApiBody = z
+	.object({
+		note: z.string().trim().max(BUILT_IT_NOTE_MAX, `at most ${BUILT_IT_NOTE_MAX} characters`).default(''),
+		basedOn: z.string().trim().max(500, 'at most 500 characters').nullish().describe('Your own published build based on this one (slug or link)'),
+		currentLimited: z.boolean().default(false).describe('First power-up through a current limiter (bulb or variac)'),
+		rails: z.array(z.object({ expectedV: finite, measuredV: finite })).max(8, 'at most 8 rails').default([]),
+		dcOffsetMv: z.array(finite).max(8, 'at most 8 channels').default([]),
+		thd: z.array(z.object({ powerW: finite, thdPct: finite })).max(50, 'at most 50 points').default([]).describe('Output power at a THD figure, W @ %'),
+		loadOhm: finite.nullish()
+	})
+	.transform(
+		(b): BuiltItForm => ({
+			note: b.note,
+			basedOn: b.basedOn ?? '',
+			currentLimited: b.currentLimited,
+			railsExpectedV: b.rails.map((r) => r.expectedV),
+			railsMeasuredV: b.rails.map((r) => r.measuredV),
+			dcOffsetMv: b.dcOffsetMv,
+			thdPoints: b.thd,
+			loadOhm: b.loadOhm ?? null
+		})
+	)
+	.superRefine((f, ctx) => figureRules(f, ctx, { offset: 'dcOffsetMv', figures: 'rails' }));
+
+/** The API body's field for a form field an issue names (recordBuiltIt reports form fields). */
+export function apiFieldOf(formField: string): string {
+	return { railsExpectedV: 'rails', railsMeasuredV: 'rails', thdPoints: 'thd' }[formField] ?? formField;
+}
 
 /** The blocks a filled form stands for: a bring-up block (rails, offsets, current limiter) and, with distortion points or a load, a measurements block. */
 export function blocksOfForm(f: BuiltItForm): { kind: 'bringup' | 'measurements'; data: Record<string, unknown> }[] {

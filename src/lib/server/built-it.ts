@@ -15,6 +15,7 @@ import { canView } from './builds/access';
 import { slugFromInput } from './builds/compare';
 import { validateSpec } from './specs';
 import { findPhotoViews, processAndStorePhoto, deletePhoto } from './photos';
+import { serializePhoto } from './builds/serialize';
 import { blocksOfForm, fieldOfIssue, figuresOf, referenceFigures, type BuiltItForm } from '$lib/schemas/built-it';
 
 export type StoredReportBlock = { kind: string; data: Record<string, unknown>; derived: Record<string, unknown>; checks: schema.StoredCheck[] };
@@ -37,7 +38,7 @@ export async function recordBuiltIt(
 	actor: Actor,
 	slug: string,
 	form: BuiltItForm
-): Promise<{ ok: true; id: string } | { ok: false; issues: { path: string; message: string }[] }> {
+): Promise<{ ok: true; id: string; created: boolean } | { ok: false; issues: { path: string; message: string }[] }> {
 	const b = await buildToRecord(actor, slug);
 	const issues: { path: string; message: string }[] = [];
 	let basedOnId: string | null = null;
@@ -62,8 +63,9 @@ export async function recordBuiltIt(
 			target: [schema.buildReport.buildId, schema.buildReport.userId],
 			set: { basedOnId, note: form.note, blocks, updatedAt: new Date() }
 		})
-		.returning({ id: schema.buildReport.id });
-	return { ok: true, id: row.id };
+		// xmax = 0 on the returned row: it was inserted, not updated (PostgreSQL's upsert idiom).
+		.returning({ id: schema.buildReport.id, created: sql<boolean>`(xmax = 0)` });
+	return { ok: true, id: row.id, created: row.created };
 }
 
 /** Remove the member's record of building it (and its photo). Harmless when there is none. */
@@ -157,4 +159,19 @@ export async function builtItPanel(
 	specBlocks: readonly { kind: string; data: Record<string, unknown>; derived: Record<string, unknown> }[]
 ) {
 	return { records: await listBuiltIt(build.id, viewer), reference: referenceFigures([...specBlocks]) };
+}
+
+/** A record as the JSON API shows it (`GET /api/v1/builds/{slug}/built-it`): numbers in SI, blocks as stored. */
+export function serializeBuiltIt(r: Awaited<ReturnType<typeof listBuiltIt>>[number]) {
+	return {
+		id: r.id,
+		member: r.member,
+		mine: r.mine,
+		note: r.note,
+		basedOn: r.basedOn,
+		photo: r.photo ? serializePhoto(r.photo) : null,
+		figures: r.figures,
+		blocks: r.blocks.map((b) => ({ kind: b.kind, data: b.data, derived: b.derived, checks: b.checks })),
+		recordedAt: r.recordedAt
+	};
 }

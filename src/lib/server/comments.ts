@@ -9,7 +9,7 @@ import { env } from '$env/dynamic/private';
 import * as schema from './db/schema';
 import { db } from './db';
 import { renderMarkdown } from './markdown';
-import { notifyReply } from './notifications';
+import { notifyComment } from './notifications';
 import { roleAtLeast } from '$lib/roles';
 import { commentEditSchema, commentSchema } from '$lib/schemas/review';
 import { EDIT_WINDOW_MS, type CommentItem } from '$lib/comments';
@@ -126,8 +126,9 @@ function assertOpen(b: BuildRef): void {
 }
 
 /**
- * Post a comment or a reply (to a top-level comment of the same build). Replies notify the parent's
- * author unless they turned reply mail off. → the new comment as the API shows it.
+ * Post a comment or a reply (to a top-level comment of the same build). Mail (notifyComment): the parent's
+ * author (reply mail), the build's maker and its watchers (comment mail), one each, never the commenter.
+ * → the new comment as the API shows it.
  */
 export async function postComment(
 	actor: Actor,
@@ -154,9 +155,15 @@ export async function postComment(
 		.values({ buildId: build.id, authorId: actor.id, parentId: parent?.id ?? null, bodyMd: data.body, bodyHtml })
 		.returning();
 	const [me] = await db.select({ name: schema.user.name, handle: schema.user.handle }).from(schema.user).where(eq(schema.user.id, actor.id));
-	if (parent && parent.authorId !== actor.id) {
-		await notifyReply({ parentAuthorId: parent.authorId, replierName: me?.name ?? 'A member', build, commentId: row.id, bodyMd: data.body });
-	}
+	await notifyComment({
+		actorId: actor.id,
+		ownerId: build.ownerId,
+		parentAuthorId: parent?.authorId ?? null,
+		commenterName: me?.name ?? 'A member',
+		build,
+		commentId: row.id,
+		bodyMd: data.body
+	});
 	return {
 		id: row.id,
 		author: { name: me?.name ?? '', handle: me?.handle ?? null },

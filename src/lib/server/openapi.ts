@@ -26,6 +26,7 @@ import { SPEC_KINDS, specSchemas } from '$lib/specs';
 import { listQuerySchema } from '$lib/schemas/list';
 import { BUILD_PROGRESS } from '$lib/schemas/build';
 import { partValueQuery } from '$lib/schemas/parts';
+import { builtItApiBody } from '$lib/schemas/built-it';
 
 type Method = 'get' | 'post' | 'put' | 'patch' | 'delete';
 type JsonSchema = Record<string, unknown>;
@@ -235,6 +236,25 @@ const commentItem: z.ZodType = z.looseObject({
 	replies: z.array(z.looseObject({ id: z.string() }))
 });
 const commentsOut = z.object({ items: z.array(commentItem), locked: z.boolean() });
+const builtItItem = z.object({
+	id: z.string(),
+	member: makerOut,
+	mine: z.boolean().describe('The record is yours'),
+	note: z.string(),
+	basedOn: z.object({ slug: z.string(), title: z.string() }).nullable().describe('Their own published build based on this one'),
+	photo: photoOut.nullable(),
+	figures: z.object({
+		railsMeasuredV: z.array(z.number()),
+		maxAbsOffsetMv: z.number().nullable(),
+		clipPowerW: z.number().nullable().describe('Power at 1 % THD, from their distortion points'),
+		loadOhm: z.number().nullable(),
+		danger: z.number().int(),
+		caution: z.number().int()
+	}),
+	blocks: z.array(z.object({ kind: z.enum(['bringup', 'measurements']), data: z.record(z.string(), z.unknown()), derived: z.record(z.string(), z.unknown()), checks: z.array(check) })),
+	recordedAt: z.string()
+});
+const builtItOut = z.object({ items: z.array(builtItItem), count: z.number().int() });
 const reportOut = z.object({ id: z.string(), duplicate: z.boolean() });
 const benchOut = z.object({ items: z.array(listItem) });
 const benchSetOut = z.object({ slug: z.string(), saved: z.boolean() });
@@ -321,6 +341,40 @@ export const OPERATIONS: Operation[] = [
 		path: '/api/v1/builds/{slug}/comments/{id}',
 		tag: 'Comments',
 		summary: 'Delete your own comment',
+		status: 204,
+		auth: true,
+		limited: true,
+		errors: WRITE
+	},
+	// I built this too
+	{
+		method: 'get',
+		path: '/api/v1/builds/{slug}/built-it',
+		tag: 'Builds',
+		summary: 'Who built this too, with their checked bring-up and measurement blocks and figures',
+		description: 'Oldest record first. Each record’s blocks are checked like any spec block (checks: note, caution, danger).',
+		response: builtItOut,
+		errors: READ
+	},
+	{
+		method: 'post',
+		path: '/api/v1/builds/{slug}/built-it',
+		tag: 'Builds',
+		summary: 'Record that you built it too (or replace your record)',
+		description:
+			'The figures become a bring-up block (rails, DC offset, current limiter) and, with distortion points or a load, a measurements block, checked like any spec block. 201 with the new record; 200 when it replaced yours. 422 with issue paths when a figure fails (`rails`, `dcOffsetMv`, `thd`, `loadOhm`, `basedOn`); 409 for your own or an unpublished build. A passing check is a calculation, not a safety approval.',
+		body: builtItApiBody,
+		response: builtItItem,
+		status: 201,
+		auth: true,
+		limited: true,
+		errors: [...WRITE, 409]
+	},
+	{
+		method: 'delete',
+		path: '/api/v1/builds/{slug}/built-it',
+		tag: 'Builds',
+		summary: 'Take your “I built this too” record (and its photo) off',
 		status: 204,
 		auth: true,
 		limited: true,

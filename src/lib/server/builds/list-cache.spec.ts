@@ -53,7 +53,7 @@ async function request(path: string, who: Who = null, headers: Record<string, st
 
 const slugsOf = (text: string) => ((JSON.parse(text) as { builds?: { slug: string }[]; items?: { slug: string }[] }).builds ?? JSON.parse(text).items).map((b: { slug: string }) => b.slug);
 
-describe('reader version (migration 0011)', () => {
+describe('reader version (migration 0012)', () => {
 	it('moves once per transaction that touches a non-draft build; drafts and rolled-back writes leave it', async () => {
 		const [p1, p2] = await insertBuilds(maker.id, [{ title: `V one ${word}` }, { title: `V two ${word}` }]);
 		const [draft] = await insertBuilds(maker.id, [{ title: `V draft ${word}`, status: 'draft' }]);

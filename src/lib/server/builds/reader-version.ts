@@ -1,6 +1,6 @@
 /**
  * The site-wide reader version (table `reader_version`, moved by triggers in the transaction that changes
- * a non-draft build; migration 0011). The list caches key on it, and the build-page cache uses it to skip
+ * a non-draft build; migration 0012). The list caches key on it, and the build-page cache uses it to skip
  * its per-build check while nothing readers see has changed.
  *
  * Every request needs a version read that STARTED AFTER the request arrived (else a write committed just

@@ -21,7 +21,10 @@ export const user = pgTable('user', {
 	suspendedReason: text('suspended_reason'),
 	notifyReview: boolean('notify_review').default(true).notNull(),
 	notifyFlag: boolean('notify_flag').default(true).notNull(),
-	notifyReply: boolean('notify_reply').default(true).notNull()
+	notifyReply: boolean('notify_reply').default(true).notNull(),
+	// Watching a build (server/watching): new comments on builds one owns or watches, new revisions of watched builds.
+	notifyComment: boolean('notify_comment').default(true).notNull(),
+	notifyRevision: boolean('notify_revision').default(true).notNull()
 });
 
 export const session = pgTable(

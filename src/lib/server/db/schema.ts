@@ -555,7 +555,7 @@ export const buildReport = pgTable(
 
 /**
  * What anonymous readers see of the lists (home, browse, search, the API list) as one number: database
- * triggers (migration 0011) move it once per transaction that inserts, changes or deletes a build that is
+ * triggers (migration 0012) move it once per transaction that inserts, changes or deletes a build that is
  * not a draft — and every change a list shows touches its build row (migration 0004's triggers). The list
  * caches (server/builds/list-cache.ts) key on it. One row.
  */
@@ -567,6 +567,24 @@ export const readerVersion = pgTable(
 		changedAt: timestamp('changed_at', { precision: 3 }).defaultNow().notNull()
 	},
 	(t) => [check('reader_version_one_row', sql`${t.id} = 1`)]
+);
+
+/**
+ * Watching a build (server/watching): the member gets mail about its new comments, revisions and review state
+ * changes, like its maker. Member-only state: no build page reader sees it, so the reader cache ignores it.
+ */
+export const buildWatch = pgTable(
+	'build_watch',
+	{
+		buildId: uuid('build_id')
+			.notNull()
+			.references(() => build.id, { onDelete: 'cascade' }),
+		userId: text('user_id')
+			.notNull()
+			.references(() => user.id, { onDelete: 'cascade' }),
+		createdAt: timestamp('created_at').defaultNow().notNull()
+	},
+	(t) => [primaryKey({ columns: [t.buildId, t.userId] }), index('build_watch_user_idx').on(t.userId)]
 );
 
 export type Build = typeof build.$inferSelect;

@@ -17,7 +17,7 @@ export async function getProfileSettings(userId: string) {
 	const [u] = await db.select().from(schema.user).where(eq(schema.user.id, userId));
 	if (!u) error(404, 'Not found');
 	return {
-		form: { name: u.name, bio: u.bio, notifyReview: u.notifyReview, notifyFlag: u.notifyFlag, notifyReply: u.notifyReply } satisfies ProfileSettings,
+		form: { name: u.name, bio: u.bio, notifyReview: u.notifyReview, notifyFlag: u.notifyFlag, notifyReply: u.notifyReply, notifyComment: u.notifyComment, notifyRevision: u.notifyRevision } satisfies ProfileSettings,
 		account: { email: u.email, handle: u.handle, role: u.role, createdAt: u.createdAt, name: u.name, initials: initials(u.name), avatarUrl: u.avatarKey ? `/media/${u.avatarKey}` : null }
 	};
 }
@@ -27,7 +27,7 @@ export async function saveProfileSettings(userId: string, input: ProfileSettings
 	const data = profileSchema.parse(input);
 	await db
 		.update(schema.user)
-		.set({ name: data.name, bio: data.bio, notifyReview: data.notifyReview, notifyFlag: data.notifyFlag, notifyReply: data.notifyReply })
+		.set({ name: data.name, bio: data.bio, notifyReview: data.notifyReview, notifyFlag: data.notifyFlag, notifyReply: data.notifyReply, notifyComment: data.notifyComment, notifyRevision: data.notifyRevision })
 		.where(eq(schema.user.id, userId));
 }
 

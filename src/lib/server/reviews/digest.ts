@@ -11,6 +11,7 @@ import { env } from '$env/dynamic/private';
 import * as schema from '../db/schema';
 import { db } from '../db';
 import { composeMail, enqueueMail, getBoss } from '../mail';
+import { unsubscribeUrl } from '../notifications';
 import { CATEGORIES, type Category } from '$lib/schemas/build';
 import { CATEGORY_LABELS } from '$lib/labels';
 import { roleAtLeast, type Role } from '$lib/roles';
@@ -150,9 +151,11 @@ export async function sendReviewDigest(userId: string): Promise<string | null> {
 				`Hello ${who.name},`,
 				`${n === 1 ? 'A maker has' : `${n} makers have`} asked for review in the categories you follow since your last digest:`,
 				...lines,
-				'Claim one on the review desk (“I’m reviewing this”) so other reviewers leave it to you. Change the categories you follow on the review desk.'
+				'Claim one on the review desk (“I’m reviewing this”) so other reviewers leave it to you. Change the categories you follow on the review desk, or stop the digest with the link below.'
 			],
-			action: { label: 'Open the review desk', url: `${origin()}/review-desk` }
+			action: { label: 'Open the review desk', url: `${origin()}/review-desk` },
+			// RFC 8058 one-click (List-Unsubscribe headers, mail.ts) and the footer link: a signed, expiring token.
+			unsubscribeUrl: unsubscribeUrl(userId, 'digest')
 		})
 	);
 }

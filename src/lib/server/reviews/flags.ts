@@ -100,6 +100,7 @@ export async function raiseFlag(actor: Actor, buildId: string, input: RaiseFlagI
 	if (opts.notify !== false) {
 		await notifyFlag({
 			ownerId: result.build.ownerId,
+			actorId: actor.id,
 			reviewerName: await nameOf(actor),
 			build: result.build,
 			flagId: result.id,
@@ -112,10 +113,13 @@ export async function raiseFlag(actor: Actor, buildId: string, input: RaiseFlagI
 	return result.id;
 }
 
-/** The maker marks a flag addressed, saying what they changed. Only from "open"; not on a locked build. */
+/**
+ * The maker marks a flag addressed, saying what they changed. Only from "open"; not on a locked build. The
+ * reviewer who hung it and the build's watchers are told (kind `flag`).
+ */
 export async function addressFlag(actor: Actor, flagId: string, note: string, opts: WriteOptions = {}): Promise<BuildForReview> {
 	const data = addressFlagSchema.parse({ note });
-	return inTx(opts.tx, async (tx) => {
+	const out = await inTx(opts.tx, async (tx) => {
 		const { flag, build } = await lockFlag(tx, flagId);
 		assertCanView(actor, build);
 		if (actor.id !== build.ownerId) error(403, 'Only the maker of this build can mark its hazard tags fixed.');
@@ -125,8 +129,21 @@ export async function addressFlag(actor: Actor, flagId: string, note: string, op
 			.update(schema.safetyFlag)
 			.set({ state: 'addressed', addressedNote: data.note, addressedAt: new Date(), updatedAt: new Date() })
 			.where(eq(schema.safetyFlag.id, flag.id));
-		return build;
+		return { build, flag };
 	});
+	if (opts.notify !== false) {
+		await notifyFlagUpdate({
+			toId: out.flag.raisedById,
+			actorId: actor.id,
+			actorName: await nameOf(actor),
+			build: out.build,
+			flagId: out.flag.id,
+			category: out.flag.category,
+			what: 'fixed',
+			text: data.note
+		});
+	}
+	return out.build;
 }
 
 const FROM: Record<'resolve' | 'reopen', FlagState[]> = {
@@ -175,6 +192,7 @@ export async function setFlagState(
 	if (opts.notify !== false) {
 		await notifyFlagUpdate({
 			toId: out.build.ownerId,
+			actorId: actor.id,
 			actorName: await nameOf(actor),
 			build: out.build,
 			flagId: out.flag.id,
@@ -211,6 +229,7 @@ export async function postFlagMessage(actor: Actor, flagId: string, body: string
 	if (opts.notify !== false && toId !== actor.id) {
 		await notifyFlagUpdate({
 			toId,
+			actorId: actor.id,
 			actorName: await nameOf(actor),
 			build: out.build,
 			flagId: out.flag.id,

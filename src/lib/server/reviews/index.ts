@@ -7,3 +7,4 @@ export * from './desk';
 export * from './targets';
 export * from './digest';
 export * from './since';
+export * from './pinned';

@@ -116,6 +116,7 @@ export async function submitReview(
 	if (opts.notify !== false) {
 		await notifyReview({
 			ownerId: result.build.ownerId,
+			actorId: actor.id,
 			reviewerName: await reviewerName(actor),
 			build: result.build,
 			verdict: data.verdict,

@@ -24,6 +24,7 @@ import { attempt } from '$lib/server/http';
 import { cachedReaderData, readerCacheable } from '$lib/server/builds/reader-cache';
 import type { Build } from '$lib/server/db/schema';
 import { attachmentsFor, toAttachmentView } from '$lib/server/attachments';
+import { isWatching } from '$lib/server/watching';
 
 export const load: PageServerLoad = async ({ params, locals, url }) => {
 	const extra = {
@@ -45,15 +46,18 @@ async function pageData(slug: string, locals: App.Locals, row?: Build) {
 	const user = locals.user;
 	const page = await getBuildPage(slug, viewer, row);
 	const b = page.build;
-	const [review, flagMarkers, comments, saved, builtIt, attachments] = await Promise.all([
+	const [review, flagMarkers, comments, saved, builtIt, attachments, watching] = await Promise.all([
 		getReviewPanel(b.id, viewer),
 		getFlagMarkers(b.id),
 		b.status === 'draft' ? Promise.resolve([]) : listComments(b.id, viewer),
 		viewer && b.status === 'published' ? isOnBench(viewer.id, b.id) : Promise.resolve(false),
 		b.status === 'published' ? builtItPanel(b, viewer, page.specBlocks) : Promise.resolve(null),
-		attachmentsFor(b, viewer)
+		attachmentsFor(b, viewer),
+		// Member-only state (server/watching); an anonymous reader's cached page always says false.
+		viewer && !isOwner(viewer, b) ? isWatching(viewer.id, b.id) : Promise.resolve(false)
 	]);
 	return {
+		watching,
 		builtIt,
 		review,
 		saved,

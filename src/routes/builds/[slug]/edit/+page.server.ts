@@ -1,3 +1,4 @@
+import { notifyRevision } from '$lib/server/notifications';
 import { fail, redirect } from '@sveltejs/kit';
 import { superValidate, message } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
@@ -178,6 +179,7 @@ export const actions: Actions = {
 		const note = String((await request.formData()).get('note') ?? '');
 		const r = await attempt(() => publishRevision(actor, b.id, note));
 		if (!r.ok) return fail(r.status, { error: r.error, note });
+		await notifyRevision({ actorId: actor.id, makerName: actor.name ?? 'The maker', build: b, revision: r.value.number, summary: r.value.summary, note });
 		return { ok: `Published as ${revisionLabel(r.value.number)}: ${r.value.summary}.`, published: r.value.number };
 	},
 

@@ -2,8 +2,9 @@ import { fail, redirect } from '@sveltejs/kit';
 import { superValidate, message } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { requireRole } from '$lib/server/auth';
-import { loadBuildContent, requireVisibleBuild } from '$lib/server/builds';
-import { assertCanReview, changesSinceVerdict, getDeskEntry, getReviewPanel, raiseFlag, submitReview } from '$lib/server/reviews';
+import { requireVisibleBuild } from '$lib/server/builds';
+import { toAttachmentView } from '$lib/server/attachments';
+import { assertCanReview, changesSinceVerdict, getDeskEntry, getReviewPanel, raiseFlag, reviewedContent, submitReview } from '$lib/server/reviews';
 import { raiseFlagSchema, reviewSchema } from '$lib/schemas/review';
 import { withOutcome } from '$lib/outcomes';
 import type { Actions, PageServerLoad } from './$types';
@@ -20,8 +21,8 @@ async function reviewable(slug: string) {
 
 export const load: PageServerLoad = async ({ params }) => {
 	const { user, b } = await reviewable(params.slug);
-	const [content, panel, form, desk, since] = await Promise.all([
-		loadBuildContent(b),
+	const [reviewed, panel, form, desk, since] = await Promise.all([
+		reviewedContent(b, user),
 		getReviewPanel(b.id, user),
 		// An id of its own per page load: tagging or clearing a hazard reloads the page data, and a form with the
 		// same id would replace what the reviewer has typed and ticked so far (superforms rebinds on reload).
@@ -29,8 +30,13 @@ export const load: PageServerLoad = async ({ params }) => {
 		getDeskEntry(b.id),
 		changesSinceVerdict(b.id, b.revision)
 	]);
+	const { content, build: shown, pending } = reviewed;
 	return {
-		build: { id: b.id, slug: b.slug, title: b.title, revision: b.revision, mainsPowered: b.mainsPowered, summary: b.summary },
+		// The published revision the verdict is pinned to (its snapshot); pending changes come separately.
+		build: { id: b.id, slug: b.slug, title: shown.title, revision: b.revision, mainsPowered: shown.mainsPowered, summary: shown.summary },
+		pinned: reviewed.pinned,
+		pending,
+		attachments: reviewed.attachments.map((a) => toAttachmentView(a, b.slug)),
 		steps: content.steps.map((s) => ({ id: s.id, title: s.title, bodyHtml: s.bodyHtml, photos: s.photos })),
 		specBlocks: content.specBlocks,
 		parts: content.parts,
