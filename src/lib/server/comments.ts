@@ -150,11 +150,13 @@ export async function postComment(
 	}
 	await assertRate(actor.id);
 	const bodyHtml = renderMarkdown(data.body);
+	// Read before the write: once the comment is committed nothing may fail the request (a 5xx would free its
+	// Idempotency-Key and a retry would post it twice); the mail below never throws (notifyOnce).
+	const [me] = await db.select({ name: schema.user.name, handle: schema.user.handle }).from(schema.user).where(eq(schema.user.id, actor.id));
 	const [row] = await db
 		.insert(schema.comment)
 		.values({ buildId: build.id, authorId: actor.id, parentId: parent?.id ?? null, bodyMd: data.body, bodyHtml })
 		.returning();
-	const [me] = await db.select({ name: schema.user.name, handle: schema.user.handle }).from(schema.user).where(eq(schema.user.id, actor.id));
 	await notifyComment({
 		actorId: actor.id,
 		ownerId: build.ownerId,

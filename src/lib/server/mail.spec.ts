@@ -45,6 +45,11 @@ describe('mail queue', () => {
 		expect(m.html).toContain('href="http://x/u"');
 	});
 
+	it('queues member text that PostgreSQL JSON refuses as written: a lone surrogate and NUL (22P02 without jsonSafe)', async () => {
+		const id = await enqueueMail(composeMail({ to: 'odd@example.test', subject: 'Lone \udc00 low and \u0000 NUL', paragraphs: ['a \ud800 high'] }));
+		expect(id).toBeTruthy();
+	});
+
 	it('loses nothing while the SMTP server is down and delivers once it is back', async () => {
 		const to = `queued-${Date.now()}@example.test`;
 		await enqueueMail(composeMail({ to, subject: 'Queued while down', paragraphs: ['kept in PostgreSQL'] }));

@@ -73,11 +73,18 @@ export function getBoss(): Promise<PgBoss> {
  */
 export async function enqueueMail(msg: MailMessage): Promise<string | null> {
 	const boss = await getBoss();
-	return boss.send(QUEUE, msg, {
+	// The job is stored as JSON in PostgreSQL, which refuses \u0000 and lone surrogates: member-written text
+	// (names, titles, comment excerpts) may hold either, so every string goes in well-formed and without NUL.
+	return boss.send(QUEUE, jsonSafe(msg), {
 		retryLimit: Number(env.MAIL_RETRY_LIMIT ?? 25),
 		retryDelay: Number(env.MAIL_RETRY_DELAY_S ?? 5),
 		retryBackoff: true
 	});
+}
+
+/** A copy of `value` whose strings PostgreSQL's JSON types accept: lone surrogates → U+FFFD, NUL removed. */
+export function jsonSafe<T>(value: T): T {
+	return JSON.parse(JSON.stringify(value, (_k, v) => (typeof v === 'string' ? v.toWellFormed().replaceAll('\u0000', '') : v)));
 }
 
 let workerStarted = false;
