@@ -58,9 +58,11 @@ export async function forgetPlacedPhoto(tx: Tx, buildId: string, photoId: string
 		.from(schema.photo)
 		.where(and(eq(schema.photo.buildId, buildId), sql`${schema.photo.id}::text like ${`${ref}%`}`))
 		.limit(1);
+	// A code on a line of its own goes with the line breaks before it (no blank lines left over); one inside a line goes alone.
+	const onItsLine = new RegExp(`(?:\\n[ \\t]*){0,4}\\[\\[photo:${ref}\\]\\][ \\t]*(?=\\n|$)`, 'gi');
 	const code = new RegExp(`\\[\\[photo:${ref}\\]\\]`, 'gi');
 	for (const step of steps) {
-		const bodyMd = another ? step.bodyMd : step.bodyMd.replace(code, '').replace(/\n{3,}/g, '\n\n').trim();
+		const bodyMd = another ? step.bodyMd : step.bodyMd.replace(onItsLine, '').replace(code, '').trim();
 		const bodyHtml = await renderStepMarkdown(tx, buildId, bodyMd);
 		await tx.update(schema.buildStep).set({ bodyMd, bodyHtml, updatedAt: new Date() }).where(eq(schema.buildStep.id, step.id));
 	}
