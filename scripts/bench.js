@@ -6,7 +6,7 @@
 // average is printed before and after.
 //
 //   node scripts/bench.js [--url http://127.0.0.1:3000] [--duration 5] [--rounds 2] [--connections 32]
-//                         [--slug some-build] [--q "toroid soft start"] [--only ping,build]
+//                         [--slug some-build] [--q "toroid soft start"] [--only ping,build,search-miss]
 //
 // Start the app as in production first (`npm start`, or vite build then node build with the env
 // vars), on the large data set (scripts/seed-large.js). Uses autocannon (a dev dependency).
@@ -76,16 +76,22 @@ const targets = [
 		body: JSON.stringify(specBlock),
 		headers: { 'content-type': 'application/json' },
 		goal: 0.9
-	}
+	},
+	// The same search with a query string no cache has seen (a counter in an unused parameter): what a
+	// search costs when the list cache cannot answer (for information; last, so its slow requests still
+	// in flight when its time is up do not weigh on another target).
+	{ key: 'search-miss', name: 'search page, never cached', path: `/search?q=${encodeURIComponent(q)}`, unique: true }
 ].filter((t) => !only || t.key === 'ping' || only.includes(t.key));
 
 /** One autocannon run; latencies collected per response (ms) for exact percentiles. */
+let uniqueCounter = 0;
 function runOnce(t) {
 	return new Promise((resolve, reject) => {
 		const latencies = [];
 		let bad = 0;
 		const instance = autocannon(
 			{
+				...(t.unique ? { requests: [{ setupRequest: (req) => ({ ...req, path: `${t.path}&bench=${++uniqueCounter}` }) }] } : {}),
 				url: base + t.path,
 				method: t.method ?? 'GET',
 				body: t.body,
@@ -115,6 +121,9 @@ for (const t of targets) await runOnce({ ...t }).catch(() => {});
 const totals = new Map(targets.map((t) => [t.key, { requests: 0, seconds: 0, latencies: [], bad: 0, errors: 0 }]));
 for (let r = 0; r < rounds; r++) {
 	for (const t of targets) {
+		// Let what the previous target left in flight finish first (the never-cached search leaves seconds' worth).
+		const pause = t === targets[0] ? 6000 : 1500;
+		await new Promise((done) => setTimeout(done, pause));
 		const { result, latencies, bad } = await runOnce(t);
 		const s = totals.get(t.key);
 		s.requests += latencies.length;

@@ -1,5 +1,7 @@
 // EXPLAIN (ANALYZE, BUFFERS) of every query the hot pages send (a report, not a test): home, browse,
-// a build page as an anonymous reader, the search page with a broad query and the API list. It runs
+// a build page as an anonymous reader (and what each anonymous request sends before any cache: the
+// reader version and the build's head), the search page with a broad query, the API list, and the find
+// queries (browse by rails and load, the API list by a part value). It runs
 // the app's own load functions (bundled by scripts/lib/app-module.js) against DATABASE_URL, records
 // each SQL statement they send (postgres.js debug hook), then explains each one with its parameters.
 // Prints per page: how many queries (a count that grows with the data would be an N+1), each query's
@@ -41,20 +43,22 @@ const event = (path) => {
 	return { url, params: { slug }, locals: { user: null, session: null }, setHeaders() {}, request: new Request(url), isDataRequest: false };
 };
 const pages = [
-	['home', () => app.homeLoad(event('/'))],
+	['every anonymous request: reader version + build head', () => Promise.all([app.currentReaderVersion(), app.getBuildHead(slug)])],
+	['home (lists, uncached)', () => app.homeLists()],
 	['browse', () => app.browseLoad(event('/builds'))],
 	['build page (anonymous, cache emptied)', () => (app.clearReaderCache(), app.buildLoad(event(`/builds/${slug}`)))],
 	['search page', () => app.searchLoad(event(`/search?q=${encodeURIComponent(q)}`))],
-	['API list', () => app.apiListGet(event('/api/v1/builds'))]
+	['API list', () => app.apiListGet(event('/api/v1/builds'))],
+	['find: browse by rails 25–30 V and an 8 Ω load', () => app.browseLoad(event('/builds?railMinV=25&railMaxV=30&loadOhm=8'))],
+	['find: API list by a part (4k7 resistor)', () => app.apiListGet(event('/api/v1/builds?partKind=resistor&partValue=4k7'))]
 ];
 
 console.log(`${builds} published builds; build page /builds/${slug}; search "${q}"`);
 console.log(`machine: ${os.cpus().length} cores, load average ${os.loadavg().map((x) => x.toFixed(2)).join(', ')}\n`);
 let seqScans = 0;
 for (const [name, run] of pages) {
-	await run(); // warm (and the home lists' own 5 s cache: run again below while it is cold)
+	await run(); // warm
 	captured = [];
-	if (name === 'home') await new Promise((r) => setTimeout(r, 5100));
 	await run();
 	const queries = captured;
 	captured = null;
@@ -95,7 +99,16 @@ if (ranked) {
 	}
 	times.sort((a, b) => a - b);
 	const [{ n: hits }] = await sql`select count(*)::int as n from build where status = 'published' and search @@ websearch_to_tsquery('english', ${q})`;
-	console.log(`\nranked search "${q}" (${hits} matches of ${builds}): p50 ${times[24].toFixed(2)} ms, p95 ${times[47].toFixed(2)} ms (plan + execution, 50 runs)`);
+	console.log(`\nranked search "${q}" (${hits} matches of ${builds}): p50 ${times[24].toFixed(2)} ms, p95 ${times[47].toFixed(2)} ms (the search page's ranking query, plan + execution, 50 runs)`);
+	// The whole first page of the relevance order as the app asks for it (every query, round trips included).
+	const wall = [];
+	for (let i = 0; i < 50; i++) {
+		const t = performance.now();
+		await app.listPublishedBuilds({ limit: 20, sort: 'relevance', filters: { q } });
+		wall.push(performance.now() - t);
+	}
+	wall.sort((a, b) => a - b);
+	console.log(`relevance page of 20 (listPublishedBuilds, wall clock from this script): p50 ${wall[24].toFixed(2)} ms, p95 ${wall[47].toFixed(2)} ms`);
 }
 console.log(seqScans ? `\n${seqScans} sequential scan(s) of large tables (see above).` : '\nNo sequential scan of a large table.');
 await sql.end({ timeout: 5 });

@@ -8,3 +8,7 @@ export { load as buildLoad } from '../../src/routes/builds/[slug]/+page.server';
 export { load as searchLoad } from '../../src/routes/search/+page.server';
 export { GET as apiListGet } from '../../src/routes/api/v1/builds/+server';
 export { clearReaderCache } from '$lib/server/builds/reader-cache';
+export { homeLists } from '$lib/server/discover';
+export { getBuildHead } from '$lib/server/builds/queries';
+export { currentReaderVersion } from '$lib/server/builds/reader-version';
+export { listPublishedBuilds } from '$lib/server/builds/list';
