@@ -316,3 +316,15 @@ export function bySeverity<T extends { level: string }>(checks: readonly T[]): T
 	};
 	return [...checks].sort((a, b) => rank(a.level) - rank(b.level));
 }
+
+/**
+ * Whether any of these blocks draws plots: a measurements block with response or THD points (the spec block
+ * view then needs the line-plot component). hasPlots([{ kind: 'measurements', data: { points: { thd: [p] } } }]) → true.
+ */
+export function hasPlots(blocks: readonly { kind: string; data: unknown }[]): boolean {
+	return blocks.some((b) => {
+		if (b.kind !== 'measurements') return false;
+		const points = (b.data as { points?: { response?: unknown; thd?: unknown } } | null)?.points;
+		return (Array.isArray(points?.response) && points.response.length > 0) || (Array.isArray(points?.thd) && points.thd.length > 0);
+	});
+}
