@@ -7,6 +7,7 @@ import { test, expect, request as playwrightRequest, type APIRequestContext, typ
 import sharp from 'sharp';
 import { origin, PART_ROW, SUPPLY_FORM } from './helpers/builds';
 import { postPage, throwawayMember } from './helpers/members';
+import { DEMO_PASSWORD } from './helpers/auth';
 import { HOSTILE_TEXT, percentEncode, rawBytes, storedForm, type HostileText } from './fixtures/hostile-text';
 
 test.describe.configure({ mode: 'serial' });
@@ -55,6 +56,8 @@ let renamed = ''; // the maker's draft whose title the sweep changes
 let published = ''; // the maker's own published build
 let demo = ''; // a published build of someone else
 let commentId = '';
+let pubStep = ''; // a step of the published build
+let reviewer: APIRequestContext;
 
 interface Case {
 	name: string;
@@ -98,6 +101,17 @@ const CASES: Case[] = [
 	{ name: 'sign in: e-mail and password', as: () => anon, send: (h) => sendForm(anon, '/sign-in', { email: h, password: h }) },
 	{ name: 'sign up: every field', as: () => anon, send: (h) => sendForm(anon, '/sign-up', { name: h, handle: h, email: h, password: h }) },
 	{ name: 'forgot password: e-mail', as: () => anon, send: (h) => sendForm(anon, '/forgot-password', { email: h }) },
+	{
+		name: 'step edit, then publish changes with a note',
+		as: () => maker,
+		send: async (h) => {
+			const edit = await sendForm(maker, `/builds/${published}/edit?/updateStep`, { stepId: pubStep, title: h, bodyMd: h });
+			const pub = await sendForm(maker, `/builds/${published}/edit?/publishChanges`, { note: h });
+			return edit.status() >= 500 ? edit : pub;
+		}
+	},
+	{ name: 'reviewer: hazard tag note', as: () => reviewer, send: (h) => sendForm(reviewer, `/builds/${published}/review?/raiseFlag`, { targetKind: 'step', targetId: pubStep, category: 'heat', severity: 'check', note: h }) },
+	{ name: 'reviewer: review summary', as: () => reviewer, send: (h) => sendForm(reviewer, `/builds/${published}/review?/submitReview`, { verdict: 'rework', summary: h }) },
 	// JSON API bodies.
 	{ name: 'API comment', as: () => maker, send: (h) => sendJson(maker, 'post', `/api/v1/builds/${demo}/comments`, { body: h.text }) },
 	{ name: 'API comment edit', as: () => maker, send: (h) => sendJson(maker, 'patch', `/api/v1/builds/${demo}/comments/${commentId}`, { body: h.text }) },
@@ -141,6 +155,10 @@ test.beforeAll(async () => {
 	published = await newBuild(`Unicode sweep published ${Date.now().toString(36)}`);
 	expect((await postPage(maker, `/builds/${published}/edit?/addStep`, { title: 'Boards', bodyMd: 'Populate the boards.' })).status()).toBe(200);
 	expect([200, 303]).toContain((await postPage(maker, `/builds/${published}/edit?/publish`, {})).status());
+	pubStep = /name="stepId" value="([0-9a-f-]{36})"/.exec(await (await maker.get(`/builds/${published}/edit`)).text())![1];
+	expect((await postPage(maker, `/builds/${published}/request-review`, { note: 'Please look at the mains wiring.' })).status()).toBe(303);
+	reviewer = await playwrightRequest.newContext({ baseURL: origin() });
+	expect((await postPage(reviewer, '/sign-in', { email: 'maren@starground.test', password: DEMO_PASSWORD })).status()).toBe(303);
 	const list = await (await anon.get('/api/v1/builds')).json();
 	demo = (list.items as { slug: string }[]).find((b) => b.slug !== published)!.slug;
 	expect((await maker.post(`/api/v1/bench/${demo}`, { headers: { origin: origin(), accept: 'application/json' } })).status()).toBe(200);
@@ -152,6 +170,7 @@ test.beforeAll(async () => {
 test.afterAll(async () => {
 	await maker?.dispose();
 	await anon?.dispose();
+	await reviewer?.dispose();
 });
 
 test(`${CASES.length} routes × ${HOSTILE_TEXT.length} hostile texts: a sentence or the stored text, never a 500`, async () => {
@@ -187,7 +206,7 @@ test(`${CASES.length} routes × ${HOSTILE_TEXT.length} hostile texts: a sentence
 	expect(failures).toEqual([]);
 });
 
-test('what is stored is the text with its controls removed (comments through the API, step text through the form)', async () => {
+test('what is stored is the text with its controls removed (comments through the API), and the pages that show it all render', async () => {
 	for (const h of HOSTILE_TEXT.filter((x) => x.text.length < 2000 && x.name !== 'only NUL')) {
 		const res = await sendJson(maker, 'post', `/api/v1/builds/${demo}/comments`, { body: h.text });
 		expect(res.status(), h.name).toBe(201);
