@@ -58,6 +58,8 @@ let demo = ''; // a published build of someone else
 let commentId = '';
 let pubStep = ''; // a step of the published build
 let reviewer: APIRequestContext;
+let moderator: APIRequestContext;
+let admin: APIRequestContext;
 
 interface Case {
 	name: string;
@@ -124,12 +126,19 @@ const CASES: Case[] = [
 	// Query parameters (the search box and the list filters).
 	{ name: 'search box', as: () => anon, send: (h) => sendQuery(anon, '/search', { q: h }) },
 	{ name: 'browse search and part filter', as: () => anon, send: (h) => sendQuery(anon, '/builds', { q: h, partValue: h, partKind: h }) },
-	{ name: 'API list: q, partValue, partPackage', as: () => anon, send: (h) => sendQuery(anon, '/api/v1/builds', { q: h, partValue: h, partPackage: h }) },
+	{ name: 'API list: q', as: () => anon, send: (h) => sendQuery(anon, '/api/v1/builds', { q: h }) },
+	{ name: 'API list: partValue, partPackage', as: () => anon, send: (h) => sendQuery(anon, '/api/v1/builds', { partValue: h, partPackage: h }) },
 	{ name: 'API list: sort and cursor', as: () => anon, send: (h) => sendQuery(anon, '/api/v1/builds', { sort: h, cursor: h }) },
 	{ name: 'API search suggestions', as: () => anon, send: (h) => sendQuery(anon, '/api/v1/search/suggest', { q: h }) },
 	{ name: 'API part value', as: () => anon, send: (h) => sendQuery(anon, '/api/v1/parts/value', { value: h, kind: h }) },
 	{ name: 'compare with', as: () => anon, send: (h) => sendQuery(anon, `/builds/${demo}/compare`, { with: h }) },
 	{ name: 'report page target', as: () => maker, send: (h) => sendQuery(maker, '/report', { kind: 'build', id: h }) },
+	{ name: 'members page search (moderator)', as: () => moderator, send: (h) => sendQuery(moderator, '/admin/members', { q: h }) },
+	{ name: 'audit log filters (admin)', as: () => admin, send: (h) => sendQuery(admin, '/admin/audit', { actor: h, action: h, kind: h }) },
+	{ name: 'moderation: hide comment reason', as: () => moderator, send: (h) => sendForm(moderator, '/moderation?/hideComment', { commentId, reason: h }) },
+	{ name: 'moderation: restore comment reason', as: () => moderator, send: (h) => sendForm(moderator, '/moderation?/restoreComment', { commentId, reason: h }) },
+	{ name: 'moderation: lock reason', as: () => moderator, send: (h) => sendForm(moderator, `/builds/${published}?/lock`, { locked: 'true', reason: h }) },
+	{ name: 'moderation: unlock reason', as: () => moderator, send: (h) => sendForm(moderator, `/builds/${published}?/lock`, { locked: 'false', reason: h }) },
 	{ name: 'sign-in next', as: () => anon, send: (h) => sendQuery(anon, '/sign-in', { next: h }) },
 	// Uploads: file names and the text fields beside them.
 	{ name: 'attachment: file name and kind', as: () => maker, send: (h) => sendMultipart(maker, `/builds/${draft}/attachments`, [{ name: 'kind', value: h }, { name: 'file', value: PDF, filename: h, type: 'application/pdf' }]) },
@@ -159,6 +168,10 @@ test.beforeAll(async () => {
 	expect((await postPage(maker, `/builds/${published}/request-review`, { note: 'Please look at the mains wiring.' })).status()).toBe(303);
 	reviewer = await playwrightRequest.newContext({ baseURL: origin() });
 	expect((await postPage(reviewer, '/sign-in', { email: 'maren@starground.test', password: DEMO_PASSWORD })).status()).toBe(303);
+	moderator = await playwrightRequest.newContext({ baseURL: origin() });
+	expect((await postPage(moderator, '/sign-in', { email: 'tomas@starground.test', password: DEMO_PASSWORD })).status()).toBe(303);
+	admin = await playwrightRequest.newContext({ baseURL: origin() });
+	expect((await postPage(admin, '/sign-in', { email: 'ilse@starground.test', password: DEMO_PASSWORD })).status()).toBe(303);
 	const list = await (await anon.get('/api/v1/builds')).json();
 	demo = (list.items as { slug: string }[]).find((b) => b.slug !== published)!.slug;
 	expect((await maker.post(`/api/v1/bench/${demo}`, { headers: { origin: origin(), accept: 'application/json' } })).status()).toBe(200);
@@ -171,6 +184,8 @@ test.afterAll(async () => {
 	await maker?.dispose();
 	await anon?.dispose();
 	await reviewer?.dispose();
+	await moderator?.dispose();
+	await admin?.dispose();
 });
 
 test(`${CASES.length} routes × ${HOSTILE_TEXT.length} hostile texts: a sentence or the stored text, never a 500`, async () => {
@@ -187,7 +202,7 @@ test(`${CASES.length} routes × ${HOSTILE_TEXT.length} hostile texts: a sentence
 			const body = await res.text();
 			tally[`${Math.floor(status / 100)}xx`] = (tally[`${Math.floor(status / 100)}xx`] ?? 0) + 1;
 			if (status >= 500) failures.push(`${c.name} × ${h.name}: ${status} ${body.slice(0, 160)}`);
-			else if (/PostgresError|invalid byte sequence|invalid input syntax|violates|drizzle|stack/i.test(body))
+			else if (/PostgresError|DrizzleQueryError|Failed query|invalid byte sequence for encoding|invalid input syntax for type|violates (?:foreign key|unique|not-null|check) constraint|\n\s+at (?:async )?[\w.]+ \(/.test(body))
 				failures.push(`${c.name} × ${h.name}: ${status} shows a database error: ${body.slice(0, 160)}`);
 			else if (status >= 400 && res.headers()['content-type']?.includes('json')) {
 				// A refusal by the API says what is wrong in a sentence.
