@@ -7,6 +7,7 @@ import { test, expect, request as playwrightRequest, type APIRequestContext, typ
 import sharp from 'sharp';
 import { origin, PART_ROW, SUPPLY_FORM } from './helpers/builds';
 import { postPage, throwawayMember } from './helpers/members';
+import { DEMO_PASSWORD } from './helpers/auth';
 import { HOSTILE_TEXT, percentEncode, rawBytes, storedForm, type HostileText } from './fixtures/hostile-text';
 
 test.describe.configure({ mode: 'serial' });
@@ -55,6 +56,10 @@ let renamed = ''; // the maker's draft whose title the sweep changes
 let published = ''; // the maker's own published build
 let demo = ''; // a published build of someone else
 let commentId = '';
+let pubStep = ''; // a step of the published build
+let reviewer: APIRequestContext;
+let moderator: APIRequestContext;
+let admin: APIRequestContext;
 
 interface Case {
 	name: string;
@@ -98,6 +103,17 @@ const CASES: Case[] = [
 	{ name: 'sign in: e-mail and password', as: () => anon, send: (h) => sendForm(anon, '/sign-in', { email: h, password: h }) },
 	{ name: 'sign up: every field', as: () => anon, send: (h) => sendForm(anon, '/sign-up', { name: h, handle: h, email: h, password: h }) },
 	{ name: 'forgot password: e-mail', as: () => anon, send: (h) => sendForm(anon, '/forgot-password', { email: h }) },
+	{
+		name: 'step edit, then publish changes with a note',
+		as: () => maker,
+		send: async (h) => {
+			const edit = await sendForm(maker, `/builds/${published}/edit?/updateStep`, { stepId: pubStep, title: h, bodyMd: h });
+			const pub = await sendForm(maker, `/builds/${published}/edit?/publishChanges`, { note: h });
+			return edit.status() >= 500 ? edit : pub;
+		}
+	},
+	{ name: 'reviewer: hazard tag note', as: () => reviewer, send: (h) => sendForm(reviewer, `/builds/${published}/review?/raiseFlag`, { targetKind: 'step', targetId: pubStep, category: 'heat', severity: 'check', note: h }) },
+	{ name: 'reviewer: review summary', as: () => reviewer, send: (h) => sendForm(reviewer, `/builds/${published}/review?/submitReview`, { verdict: 'rework', summary: h }) },
 	// JSON API bodies.
 	{ name: 'API comment', as: () => maker, send: (h) => sendJson(maker, 'post', `/api/v1/builds/${demo}/comments`, { body: h.text }) },
 	{ name: 'API comment edit', as: () => maker, send: (h) => sendJson(maker, 'patch', `/api/v1/builds/${demo}/comments/${commentId}`, { body: h.text }) },
@@ -110,12 +126,19 @@ const CASES: Case[] = [
 	// Query parameters (the search box and the list filters).
 	{ name: 'search box', as: () => anon, send: (h) => sendQuery(anon, '/search', { q: h }) },
 	{ name: 'browse search and part filter', as: () => anon, send: (h) => sendQuery(anon, '/builds', { q: h, partValue: h, partKind: h }) },
-	{ name: 'API list: q, partValue, partPackage', as: () => anon, send: (h) => sendQuery(anon, '/api/v1/builds', { q: h, partValue: h, partPackage: h }) },
+	{ name: 'API list: q', as: () => anon, send: (h) => sendQuery(anon, '/api/v1/builds', { q: h }) },
+	{ name: 'API list: partValue, partPackage', as: () => anon, send: (h) => sendQuery(anon, '/api/v1/builds', { partValue: h, partPackage: h }) },
 	{ name: 'API list: sort and cursor', as: () => anon, send: (h) => sendQuery(anon, '/api/v1/builds', { sort: h, cursor: h }) },
 	{ name: 'API search suggestions', as: () => anon, send: (h) => sendQuery(anon, '/api/v1/search/suggest', { q: h }) },
 	{ name: 'API part value', as: () => anon, send: (h) => sendQuery(anon, '/api/v1/parts/value', { value: h, kind: h }) },
 	{ name: 'compare with', as: () => anon, send: (h) => sendQuery(anon, `/builds/${demo}/compare`, { with: h }) },
 	{ name: 'report page target', as: () => maker, send: (h) => sendQuery(maker, '/report', { kind: 'build', id: h }) },
+	{ name: 'members page search (moderator)', as: () => moderator, send: (h) => sendQuery(moderator, '/admin/members', { q: h }) },
+	{ name: 'audit log filters (admin)', as: () => admin, send: (h) => sendQuery(admin, '/admin/audit', { actor: h, action: h, kind: h }) },
+	{ name: 'moderation: hide comment reason', as: () => moderator, send: (h) => sendForm(moderator, '/moderation?/hideComment', { commentId, reason: h }) },
+	{ name: 'moderation: restore comment reason', as: () => moderator, send: (h) => sendForm(moderator, '/moderation?/restoreComment', { commentId, reason: h }) },
+	{ name: 'moderation: lock reason', as: () => moderator, send: (h) => sendForm(moderator, `/builds/${published}?/lock`, { locked: 'true', reason: h }) },
+	{ name: 'moderation: unlock reason', as: () => moderator, send: (h) => sendForm(moderator, `/builds/${published}?/lock`, { locked: 'false', reason: h }) },
 	{ name: 'sign-in next', as: () => anon, send: (h) => sendQuery(anon, '/sign-in', { next: h }) },
 	// Uploads: file names and the text fields beside them.
 	{ name: 'attachment: file name and kind', as: () => maker, send: (h) => sendMultipart(maker, `/builds/${draft}/attachments`, [{ name: 'kind', value: h }, { name: 'file', value: PDF, filename: h, type: 'application/pdf' }]) },
@@ -141,6 +164,14 @@ test.beforeAll(async () => {
 	published = await newBuild(`Unicode sweep published ${Date.now().toString(36)}`);
 	expect((await postPage(maker, `/builds/${published}/edit?/addStep`, { title: 'Boards', bodyMd: 'Populate the boards.' })).status()).toBe(200);
 	expect([200, 303]).toContain((await postPage(maker, `/builds/${published}/edit?/publish`, {})).status());
+	pubStep = /name="stepId" value="([0-9a-f-]{36})"/.exec(await (await maker.get(`/builds/${published}/edit`)).text())![1];
+	expect((await postPage(maker, `/builds/${published}/request-review`, { note: 'Please look at the mains wiring.' })).status()).toBe(303);
+	reviewer = await playwrightRequest.newContext({ baseURL: origin() });
+	expect((await postPage(reviewer, '/sign-in', { email: 'maren@starground.test', password: DEMO_PASSWORD })).status()).toBe(303);
+	moderator = await playwrightRequest.newContext({ baseURL: origin() });
+	expect((await postPage(moderator, '/sign-in', { email: 'tomas@starground.test', password: DEMO_PASSWORD })).status()).toBe(303);
+	admin = await playwrightRequest.newContext({ baseURL: origin() });
+	expect((await postPage(admin, '/sign-in', { email: 'ilse@starground.test', password: DEMO_PASSWORD })).status()).toBe(303);
 	const list = await (await anon.get('/api/v1/builds')).json();
 	demo = (list.items as { slug: string }[]).find((b) => b.slug !== published)!.slug;
 	expect((await maker.post(`/api/v1/bench/${demo}`, { headers: { origin: origin(), accept: 'application/json' } })).status()).toBe(200);
@@ -152,6 +183,9 @@ test.beforeAll(async () => {
 test.afterAll(async () => {
 	await maker?.dispose();
 	await anon?.dispose();
+	await reviewer?.dispose();
+	await moderator?.dispose();
+	await admin?.dispose();
 });
 
 test(`${CASES.length} routes × ${HOSTILE_TEXT.length} hostile texts: a sentence or the stored text, never a 500`, async () => {
@@ -168,7 +202,7 @@ test(`${CASES.length} routes × ${HOSTILE_TEXT.length} hostile texts: a sentence
 			const body = await res.text();
 			tally[`${Math.floor(status / 100)}xx`] = (tally[`${Math.floor(status / 100)}xx`] ?? 0) + 1;
 			if (status >= 500) failures.push(`${c.name} × ${h.name}: ${status} ${body.slice(0, 160)}`);
-			else if (/PostgresError|invalid byte sequence|invalid input syntax|violates|drizzle|stack/i.test(body))
+			else if (/PostgresError|DrizzleQueryError|Failed query|invalid byte sequence for encoding|invalid input syntax for type|violates (?:foreign key|unique|not-null|check) constraint|\n\s+at (?:async )?[\w.]+ \(/.test(body))
 				failures.push(`${c.name} × ${h.name}: ${status} shows a database error: ${body.slice(0, 160)}`);
 			else if (status >= 400 && res.headers()['content-type']?.includes('json')) {
 				// A refusal by the API says what is wrong in a sentence.
@@ -187,7 +221,7 @@ test(`${CASES.length} routes × ${HOSTILE_TEXT.length} hostile texts: a sentence
 	expect(failures).toEqual([]);
 });
 
-test('what is stored is the text with its controls removed (comments through the API, step text through the form)', async () => {
+test('what is stored is the text with its controls removed (comments through the API), and the pages that show it all render', async () => {
 	for (const h of HOSTILE_TEXT.filter((x) => x.text.length < 2000 && x.name !== 'only NUL')) {
 		const res = await sendJson(maker, 'post', `/api/v1/builds/${demo}/comments`, { body: h.text });
 		expect(res.status(), h.name).toBe(201);

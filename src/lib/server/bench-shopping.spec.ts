@@ -1,21 +1,14 @@
 // Integration tests against the real PostgreSQL of DATABASE_URL: notes on saved builds and the combined
 // shopping list (parts as last published, only builds on the member's own bench).
-import { describe, it, expect, beforeAll, afterAll } from 'vitest';
-import { createTestUser, removeTestUsers } from './testing/builds';
+import { describe, it, expect } from 'vitest';
+import { useTestUsers } from './testing/builds';
 import { statusOf, testBuild } from './testing/parts';
 import { savePartsList } from './parts';
 import { publishRevision } from './builds';
 import { benchNotes, setBenchNote, setOnBench, shoppingList, BENCH_NOTE_MAX } from './bench';
 import { emptyDraft, type PartLineDraft } from '$lib/parts';
 
-type TestUser = Awaited<ReturnType<typeof createTestUser>>;
-let maker: TestUser, reader: TestUser, other: TestUser;
-beforeAll(async () => {
-	maker = await createTestUser('maker', 'Bench maker');
-	reader = await createTestUser('maker', 'Bench reader');
-	other = await createTestUser('maker', 'Bench other');
-});
-afterAll(() => removeTestUsers([maker.id, reader.id, other.id]));
+const { maker, reader, other } = useTestUsers({ maker: ['maker', 'Bench maker'], reader: ['maker', 'Bench reader'], other: ['maker', 'Bench other'] });
 
 const d = (over: Partial<PartLineDraft>): PartLineDraft => ({ ...emptyDraft(), ...over });
 

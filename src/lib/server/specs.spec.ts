@@ -1,25 +1,15 @@
 // Integration tests against the real PostgreSQL of DATABASE_URL: saving spec blocks, refusals that store
 // nothing, owner checks, cross checks between blocks, revisions.
-import { describe, it, expect, beforeAll, afterAll } from 'vitest';
+import { describe, it, expect } from 'vitest';
 import { asc, eq } from 'drizzle-orm';
 import { db } from './db';
 import * as schema from './db/schema';
-import { createTestUser, removeTestUsers } from './testing/builds';
+import { useTestUsers } from './testing/builds';
 import { AMP, SUPPLY, statusOf, testBuild } from './testing/parts';
 import { buildCrossChecks, deleteSpecBlock, moveSpecBlock, saveSpecBlock, validateSpec } from './specs';
 import { pendingChanges, publishRevision } from './builds';
 
-type TestUser = Awaited<ReturnType<typeof createTestUser>>;
-let maker: TestUser, other: TestUser, admin: TestUser;
-
-beforeAll(async () => {
-	maker = await createTestUser('maker', 'Spec owner');
-	other = await createTestUser('maker', 'Spec other');
-	admin = await createTestUser('admin', 'Spec admin');
-});
-afterAll(async () => {
-	await removeTestUsers([maker.id, other.id, admin.id]);
-});
+const { maker, other, admin } = useTestUsers({ maker: ['maker', 'Spec owner'], other: ['maker', 'Spec other'], admin: ['admin', 'Spec admin'] });
 
 async function blocks(buildId: string) {
 	return db.select().from(schema.specBlock).where(eq(schema.specBlock.buildId, buildId)).orderBy(asc(schema.specBlock.position));

@@ -1,6 +1,6 @@
 // Integration tests against the real PostgreSQL of DATABASE_URL: comparing any two builds a viewer may see.
-import { describe, it, expect, beforeAll, afterAll } from 'vitest';
-import { createTestUser, removeTestUsers } from '../testing/builds';
+import { describe, it, expect } from 'vitest';
+import { useTestUsers } from '../testing/builds';
 import { statusOf, testBuild, AMP } from '../testing/parts';
 import { saveSpecBlock } from '../specs';
 import { savePartsList } from '../parts';
@@ -8,14 +8,7 @@ import { derive } from './index';
 import { compareBuilds, slugFromInput } from './compare';
 import { emptyDraft } from '$lib/parts';
 
-type TestUser = Awaited<ReturnType<typeof createTestUser>>;
-let maker: TestUser, other: TestUser, admin: TestUser;
-beforeAll(async () => {
-	maker = await createTestUser('maker', 'Compare maker');
-	other = await createTestUser('maker', 'Compare other');
-	admin = await createTestUser('admin', 'Compare admin');
-});
-afterAll(() => removeTestUsers([maker.id, other.id, admin.id]));
+const { maker, other, admin } = useTestUsers({ maker: ['maker', 'Compare maker'], other: ['maker', 'Compare other'], admin: ['admin', 'Compare admin'] });
 
 describe('compareBuilds', () => {
 	it('puts any two visible builds side by side with their parts and spec blocks', async () => {
