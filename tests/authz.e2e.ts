@@ -389,6 +389,19 @@ const cases: Case[] = [
 		}
 	},
 	{
+		// The maker gets mail about their own build already: 409 with a sentence, counted as a refusal.
+		name: 'watch build (builds/[slug]/watch?/watch)',
+		allowed: ['other', 'reviewer', 'moderator', 'admin'],
+		alsoDenied: [409],
+		run: (a) => postForm(ctx[a], `/builds/${B.slug}/watch?/watch`, {})
+	},
+	{
+		name: 'record "I built this too" (POST /api/v1/builds/[slug]/built-it)',
+		allowed: ['other', 'reviewer', 'moderator', 'admin'],
+		alsoDenied: [409],
+		run: (a) => ctx[a].post(`/api/v1/builds/${B.slug}/built-it`, { data: { dcOffsetMv: [3, -2] }, headers: jsonHeaders() })
+	},
+	{
 		name: 'save to bench (bench?/toggle)',
 		allowed: SIGNED_IN,
 		run: (a) => postForm(ctx[a], '/bench?/toggle', { slug: B.slug, save: '1' })

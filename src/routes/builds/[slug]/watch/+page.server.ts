@@ -27,12 +27,12 @@ export const actions: Actions = {
 		const actor = actorOf(requireUser());
 		const r = await attempt(() => watchBuild(actor, params.slug));
 		if (!r.ok) return r.failure;
-		redirect(303, withOutcome(`/builds/${params.slug}#watch`, 'watching'));
+		redirect(303, withOutcome(`/builds/${params.slug}`, 'watching'));
 	},
 	unwatch: async ({ params }) => {
 		const actor = actorOf(requireUser());
 		const r = await attempt(() => unwatchBuild(actor, params.slug));
 		if (!r.ok) return r.failure;
-		redirect(303, withOutcome(`/builds/${params.slug}#watch`, 'unwatched'));
+		redirect(303, withOutcome(`/builds/${params.slug}`, 'unwatched'));
 	}
 };
