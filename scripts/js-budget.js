@@ -6,7 +6,7 @@
 // everything that page fetches on its own, as a first visit would; the maker's row is checked to really
 // be signed in as the maker (the page must offer "Edit build").
 //
-//   node scripts/js-budget.js [--url http://127.0.0.1:3000] [--slug two-channel-chip-amp-split-supply]
+//   node scripts/js-budget.js [--url http://127.0.0.1:3000] [--slug stereo-power-ic-amp-28v-rails]
 //                             [--maker joss@starground.test] [--list]
 //
 // Needs the demo seed (npm start seeds it): the maker's demo account signs in through the form.
@@ -20,7 +20,7 @@ const arg = (name, d) => {
 	return i > 0 ? process.argv[i + 1] : d;
 };
 const base = arg('url', process.env.BENCH_URL ?? 'http://127.0.0.1:3000').replace(/\/$/, '');
-const slug = arg('slug', 'two-channel-chip-amp-split-supply');
+const slug = arg('slug', 'stereo-power-ic-amp-28v-rails');
 const makerEmail = arg('maker', 'joss@starground.test');
 const list = process.argv.includes('--list');
 

@@ -30,7 +30,7 @@ test('a reader filters builds by rails and load, then finds builds using a part'
 
 	const expected = await slugsFromApi(page, 'railMinV=25&railMaxV=30&loadOhm=8');
 	// The demo's two-channel chip amplifier states ±28 V rails into 8 Ω; its ±15 V / 32 Ω headphone amp does not match.
-	expect(expected).toContain('two-channel-chip-amp-split-supply');
+	expect(expected).toContain('stereo-power-ic-amp-28v-rails');
 	expect(expected).not.toContain('quiet-class-a-headphone-amp');
 	const shown = await slugsOnPage(page);
 	expect(shown.sort()).toEqual(expected.slice(0, 24).sort());
@@ -56,12 +56,12 @@ test('a reader filters builds by rails and load, then finds builds using a part'
 });
 
 test('a reader compares two builds side by side from a build page', async ({ page }) => {
-	await page.goto('/builds/two-channel-chip-amp-split-supply');
+	await page.goto('/builds/stereo-power-ic-amp-28v-rails');
 	await page.locator('[data-compare-link]').click();
 	await expect(page.getByRole('heading', { name: 'Compare with another build' })).toBeVisible();
 	await page.getByLabel('The other build').fill('/builds/quiet-class-a-headphone-amp');
 	await page.getByRole('button', { name: 'Compare' }).click();
-	await expect(page).toHaveURL(/\/builds\/two-channel-chip-amp-split-supply\/compare\?with=quiet-class-a-headphone-amp$/);
+	await expect(page).toHaveURL(/\/builds\/stereo-power-ic-amp-28v-rails\/compare\?with=quiet-class-a-headphone-amp$/);
 	await expect(page.getByRole('heading', { name: 'Two builds side by side' })).toBeVisible();
 	// Both amplifier blocks in one table: the rails differ (±28 V against ±15 V in the demo).
 	const amp = page.locator('[data-spec-pair="amplifier"]');
@@ -74,13 +74,13 @@ test('a reader compares two builds side by side from a build page', async ({ pag
 	await expect(page.getByRole('heading', { name: 'Parts lists, matched by designators' })).toBeVisible();
 	await expect(page.locator('[data-compare]').first()).toBeVisible();
 	// A draft someone else owns is absent to a reader.
-	const res = await page.goto('/builds/two-channel-chip-amp-split-supply/compare?with=no-such-build-here');
+	const res = await page.goto('/builds/stereo-power-ic-amp-28v-rails/compare?with=no-such-build-here');
 	expect(res?.status()).toBe(404);
 });
 
 test('a member records "I built this too" with measurements and a photo; the build shows the figures', async ({ page }) => {
 	await signIn(page, 'oskar@starground.test');
-	await page.goto('/builds/two-channel-chip-amp-split-supply');
+	await page.goto('/builds/stereo-power-ic-amp-28v-rails');
 	await page.locator('[data-built-it-link]').click();
 	await expect(page.getByRole('heading', { name: 'I built this too' })).toBeVisible();
 	await page.getByLabel('Rails expected (V)').fill('28, -28');
@@ -95,7 +95,7 @@ test('a member records "I built this too" with measurements and a photo; the bui
 	await page.getByLabel('Distortion points').fill('1@0.02, 25@0.1, 36@1, 38@10');
 	await page.getByLabel('Into (Ω)').fill('8');
 	await page.getByRole('button', { name: /Record that I built it|Save my figures/ }).click();
-	await expect(page).toHaveURL(/\/builds\/two-channel-chip-amp-split-supply#built-it$/);
+	await expect(page).toHaveURL(/\/builds\/stereo-power-ic-amp-28v-rails#built-it$/);
 	const row = page.locator('[data-built-it-row]', { hasText: 'Oskar Lindqvist' });
 	await expect(row).toContainText('+27.6 / -27.9 V');
 	await expect(row).toContainText('14 mV');
@@ -105,7 +105,7 @@ test('a member records "I built this too" with measurements and a photo; the bui
 	await expect(page.locator('[data-built-it-plot="offset"] svg')).toBeVisible();
 
 	// A photo of the copy.
-	await page.goto('/builds/two-channel-chip-amp-split-supply/built-it');
+	await page.goto('/builds/stereo-power-ic-amp-28v-rails/built-it');
 	const png = await sharp({ create: { width: 320, height: 200, channels: 3, background: '#5b6b4e' } }).png().toBuffer();
 	await page.locator('#bi-file').setInputFiles({ name: 'copy.png', mimeType: 'image/png', buffer: png });
 	await page.getByLabel('What it shows').fill('My copy on the bench');
@@ -116,19 +116,19 @@ test('a member records "I built this too" with measurements and a photo; the bui
 
 test('a member keeps notes on the bench and gets one shopping list for two builds as CSV', async ({ page }) => {
 	await signIn(page, 'oskar@starground.test');
-	for (const slug of ['two-channel-chip-amp-split-supply', 'quiet-class-a-headphone-amp']) {
+	for (const slug of ['stereo-power-ic-amp-28v-rails', 'quiet-class-a-headphone-amp']) {
 		await page.request.post('/bench?/toggle', { form: { slug, save: '1' }, headers: { origin: new URL(page.url()).origin } });
 	}
 	await page.goto('/bench');
-	const card = page.locator('li', { has: page.locator('input[name="b"][value="two-channel-chip-amp-split-supply"]') });
+	const card = page.locator('li', { has: page.locator('input[name="b"][value="stereo-power-ic-amp-28v-rails"]') });
 	await card.getByLabel(/Your note on/).fill('Order 2 W bleeders; check the heatsink tapping.');
 	await card.getByRole('button', { name: 'Save note' }).click();
 	await expect(card.getByRole('status')).toHaveText('Saved.');
 	await page.reload();
-	await expect(page.locator('li', { has: page.locator('input[name="b"][value="two-channel-chip-amp-split-supply"]') }).getByLabel(/Your note on/)).toHaveValue(
+	await expect(page.locator('li', { has: page.locator('input[name="b"][value="stereo-power-ic-amp-28v-rails"]') }).getByLabel(/Your note on/)).toHaveValue(
 		'Order 2 W bleeders; check the heatsink tapping.'
 	);
-	await page.locator('input[name="b"][value="two-channel-chip-amp-split-supply"]').check();
+	await page.locator('input[name="b"][value="stereo-power-ic-amp-28v-rails"]').check();
 	await page.locator('input[name="b"][value="quiet-class-a-headphone-amp"]').check();
 	await page.getByRole('button', { name: 'Combined shopping list' }).click();
 	await expect(page.getByRole('heading', { name: 'Combined shopping list' })).toBeVisible();
@@ -139,11 +139,11 @@ test('a member keeps notes on the bench and gets one shopping list for two build
 	const text = await res.text();
 	expect(text.split('\r\n')[0]).toBe('kind,value,value_si,unit,rating_v,rating_w,quantity,packages,used_in');
 	// Every row names the builds it is for.
-	expect(text).toContain('Two-channel chip amp on a split supply: ');
+	expect(text).toContain('Stereo power-IC amp on ±28 V rails: ');
 });
 
 test('a reader opens the bench sheet of a build and downloads it as a PDF', async ({ page }) => {
-	await page.goto('/builds/two-channel-chip-amp-split-supply');
+	await page.goto('/builds/stereo-power-ic-amp-28v-rails');
 	await page.locator('[data-sheet-link]').click();
 	await expect(page.locator('[data-bench-sheet]')).toBeVisible();
 	await expect(page.getByRole('heading', { name: 'Bring-up: write in what you measure' })).toBeVisible();
@@ -157,7 +157,7 @@ test('a reader opens the bench sheet of a build and downloads it as a PDF', asyn
 	await expect(page.locator('[data-bench-sheet] h1')).toBeVisible();
 	await page.emulateMedia({ media: 'screen' });
 	const [download] = await Promise.all([page.waitForEvent('download'), page.locator('[data-sheet-pdf]').click()]);
-	expect(download.suggestedFilename()).toBe('two-channel-chip-amp-split-supply-bench-sheet.pdf');
+	expect(download.suggestedFilename()).toBe('stereo-power-ic-amp-28v-rails-bench-sheet.pdf');
 	const path = await download.path();
 	const { readFile } = await import('node:fs/promises');
 	const bytes = await readFile(path);

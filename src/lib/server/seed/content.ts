@@ -49,8 +49,8 @@ export const DEMO_BUILDS: DemoBuild[] = [
 	{
 		key: 'chipamp',
 		owner: 'maker',
-		slug: 'two-channel-chip-amp-split-supply',
-		title: 'Two-channel chip amp on a split supply',
+		slug: 'stereo-power-ic-amp-28v-rails',
+		title: 'Stereo power-IC amp on ±28 V rails',
 		summary:
 			'Two 5-pin monolithic power amplifier ICs on ±28 V rails, a 160 VA toroid, shielded input wiring and one star ground point.',
 		category: 'power-amp',
