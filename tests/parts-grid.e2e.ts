@@ -7,6 +7,7 @@ import { signIn } from './helpers/auth';
 import { createPublishedBuild, postForm } from './helpers/builds';
 import { COSTED_CSV_HEADER, importCsv } from './helpers/parts';
 import { SIZES } from './helpers/sizes';
+import { AMP_FORM as AMP_FIELDS } from '../src/lib/specs/fixtures';
 
 const JOSS = 'joss@starground.test';
 
@@ -15,18 +16,7 @@ const AMP_FORM = {
 	kind: 'amplifier',
 	id: '',
 	title: 'Output stage',
-	channels: '2',
-	topology: 'class-ab-chip',
-	supply: 'split',
-	railV: '28',
-	loadOhm: '8R',
-	device__maxSupplyV: '60',
-	device__dropoutV: '3',
-	device__junctionMaxC: '150',
-	device__rthJcKPerW: '1',
-	device__minLoadOhm: '4R',
-	gain__rfOhm: '22k',
-	gain__riOhm: '680R',
+	...AMP_FIELDS,
 	claimed__powerW: '30',
 	claimed__thdPct: '1'
 };

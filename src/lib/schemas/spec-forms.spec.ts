@@ -1,21 +1,10 @@
 import { describe, expect, it } from 'vitest';
 import { specSchemas } from '$lib/specs';
-import { SUPPLY_FORM, SUPPLY_FORM_CHANGES, supplyBlock } from '$lib/specs/fixtures';
+import { AMP_FORM, SUPPLY_FORM, SUPPLY_FORM_CHANGES, supplyBlock } from '$lib/specs/fixtures';
 import { eachSideValue, fieldName, formToSpecData, mapSpecIssues, pointsShape, readNumber, readRows, specDataToForm, valueToText } from './spec-forms';
 
 const amp = {
-	channels: '2',
-	topology: 'class-ab-chip',
-	supply: 'split',
-	railV: '28',
-	loadOhm: '8R',
-	device__maxSupplyV: '60',
-	device__dropoutV: '3',
-	device__junctionMaxC: '150',
-	device__rthJcKPerW: '1',
-	device__minLoadOhm: '4R',
-	gain__rfOhm: '22k',
-	gain__riOhm: '680R',
+	...AMP_FORM,
 	gain__ciF: '',
 	input__rOhm: '',
 	input__cF: '',

@@ -87,3 +87,19 @@ export const SUPPLY_FORM = Object.freeze({
 	protectiveEarth: 'on',
 	bleeder: 'none'
 });
+
+/** The amplifier spec form as a browser posts it (trade notation): ±28 V split rails into 8 Ω, 60 V / 3 V dropout device, gain 22k/680R. */
+export const AMP_FORM = Object.freeze({
+	channels: '2',
+	topology: 'class-ab-chip',
+	supply: 'split',
+	railV: '28',
+	loadOhm: '8R',
+	device__maxSupplyV: '60',
+	device__dropoutV: '3',
+	device__junctionMaxC: '150',
+	device__rthJcKPerW: '1',
+	device__minLoadOhm: '4R',
+	gain__rfOhm: '22k',
+	gain__riOhm: '680R'
+});
