@@ -302,9 +302,9 @@ export const safetyFlag = pgTable(
 
 // ── Review desk (issue 14, reviews/desk.ts) ─────────────────────────────────────────────────────────
 /**
- * One row per build waiting on the review desk, kept by database triggers (migration 0004): it appears
- * when build.review_requested_at is set and goes when it is cleared; mains/category follow the build and
- * the DANGER/CAUTION counts follow its spec blocks and part lines. Filters and sorts of the desk read only
+ * One row per build waiting on the review desk, kept by database triggers (migrations 0007, 0014): it appears
+ * when build.review_requested_at is set and goes when it is cleared; mains/category and the DANGER/CAUTION
+ * counts follow the PUBLISHED revision's snapshot (what a review is of; live rows for a build without one). Filters and sorts of the desk read only
  * this table, through the indexes below. The maker's note and a reviewer's claim live here too.
  */
 export const reviewRequest = pgTable(

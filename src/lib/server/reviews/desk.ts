@@ -3,7 +3,9 @@
  * claims, plus the recent verdicts.
  *
  * Waiting builds are read from `review_request` (one row per waiting build, kept by triggers from the
- * build, its spec blocks and part lines; migration 0004). Paging is keyset (no OFFSET): the cursor holds
+ * build, its published revision and — for a build without a revision row — its spec blocks and part lines;
+ * migrations 0007 and 0014). A review is of the published revision, so the desk shows that revision's title,
+ * mains flag, category and DANGER/CAUTION counts, as the review page does; pending edits are only marked. Paging is keyset (no OFFSET): the cursor holds
  * the last row's sort key, and the build id breaks ties, so a page never repeats or skips a row while
  * requests come and go. Each order/filter has an index (see DESK_QUERIES below and DEVELOPERS.md).
  */
@@ -34,6 +36,7 @@ export interface DeskBuild {
 	title: string;
 	category: string;
 	mainsPowered: boolean;
+	/** The published revision under review (the title, mains flag, category and check counts are its). */
 	revision: number;
 	requestedAt: Date;
 	maker: { id: string; name: string; handle: string | null };
@@ -42,6 +45,8 @@ export interface DeskBuild {
 	openFlags: number;
 	/** True when the build had a verdict before this request. */
 	rereview: boolean;
+	/** True when the maker has edits not yet published as a revision (not under review; not counted above). */
+	pendingChanges: boolean;
 	/** The maker's note for the reviewer ('' when none). */
 	note: string;
 	/** Who said "I'm reviewing this", while the claim holds; null otherwise. */
@@ -204,8 +209,10 @@ export async function listDesk(q: DeskQuery, cursor: string | null = null, limit
 			.select({
 				id: schema.build.id,
 				slug: schema.build.slug,
-				title: schema.build.title,
+				// The published revision's title, as the review page shows it (live title for a build without one).
+				title: sql<string>`coalesce(${schema.buildRevision.snapshot}->'build'->>'title', ${schema.build.title})`,
 				revision: schema.build.revision,
+				pendingChangesAt: schema.build.pendingChangesAt,
 				category: rr.category,
 				mainsPowered: rr.mainsPowered,
 				requestedAt: rr.requestedAt,
@@ -227,6 +234,7 @@ export async function listDesk(q: DeskQuery, cursor: string | null = null, limit
 			.innerJoin(schema.build, eq(schema.build.id, rr.buildId))
 			.innerJoin(maker, eq(maker.id, schema.build.ownerId))
 			.leftJoin(claimer, eq(claimer.id, rr.claimedById))
+			.leftJoin(schema.buildRevision, and(eq(schema.buildRevision.buildId, rr.buildId), eq(schema.buildRevision.number, schema.build.revision)))
 			.where(and(published, ...pageConds))
 			.orderBy(...orderOf(q))
 			.limit(limit + 1),
@@ -251,6 +259,7 @@ export async function listDesk(q: DeskQuery, cursor: string | null = null, limit
 			cautionChecks: r.cautionChecks,
 			openFlags: r.openFlags,
 			rereview: r.rereview,
+			pendingChanges: r.pendingChangesAt !== null,
 			note: r.note,
 			claim:
 				r.claimedById && r.claimedAt && r.claimedAt > cutoff

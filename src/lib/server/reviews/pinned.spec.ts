@@ -4,10 +4,12 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
 import { db } from '../db';
 import * as schema from '../db/schema';
-import { addStep, getBuildBySlug, publishRevision, updateStep } from '../builds';
+import { addStep, getBuildBySlug, loadBuildContent, publishRevision, updateStep } from '../builds';
+import type { BuildContent } from '../builds/queries';
+import { saveSpecBlock } from '../specs';
 import { createTestUser, removeTestUsers } from '../testing/builds';
-import { createPublishedBuild } from '../testing/reviews';
-import { reviewedContent } from './index';
+import { createPublishedBuild, SUPPLY_DATA } from '../testing/reviews';
+import { deskQuerySchema, listDesk, requestReview, reviewedContent } from './index';
 
 type U = Awaited<ReturnType<typeof createTestUser>>;
 let maker: U, reviewer: U;
@@ -48,5 +50,53 @@ describe('reviewedContent', () => {
 		expect(r.pinned).toBe(rev.number);
 		expect(r.pending).toBeNull();
 		expect(r.content.steps.map((s) => s.title)).toContain('Soft start');
+	});
+});
+
+describe('the review desk and the review page count the same revision', () => {
+	/** DANGER and CAUTION checks in content, counted as the review page counts them (spec blocks + parts lines). */
+	const counts = (c: BuildContent) => {
+		const all = [...c.specBlocks.flatMap((s) => s.checks), ...c.parts.flatMap((p) => p.checks)];
+		return { danger: all.filter((x) => x.level === 'danger').length, caution: all.filter((x) => x.level === 'caution').length };
+	};
+	const deskRow = async (id: string) => (await listDesk(deskQuerySchema.parse({}), null, 1000)).items.find((w) => w.id === id)!;
+
+	it('pending edits move neither; publishing them as a revision moves both', async () => {
+		const t = await createPublishedBuild(maker);
+		const row = async () => (await getBuildBySlug(t.slug))!;
+		await requestReview(maker, t.id);
+		const published = counts((await reviewedContent(await row(), reviewer)).content);
+		let desk = await deskRow(t.id);
+		expect({ danger: desk.dangerChecks, caution: desk.cautionChecks }).toEqual(published);
+		expect(desk.pendingChanges).toBe(false);
+
+		// The maker removes the fuse from the supply block (supply.no-fuse, DANGER: DEVELOPERS.md, supply.spec.ts),
+		// turns mains off and renames the build, without publishing.
+		const saved = await saveSpecBlock(maker, t.id, { id: t.supplyBlockId, kind: 'supply', title: 'Main supply', data: { ...SUPPLY_DATA, fuse: null } });
+		expect(saved.ok).toBe(true);
+		await db.update(schema.build).set({ mainsPowered: false, title: 'Renamed while waiting' }).where(eq(schema.build.id, t.id));
+		const live = counts(await loadBuildContent(await row()));
+		expect(live.danger).toBeGreaterThan(published.danger);
+
+		// The review page still shows the published revision; so does the desk (before the fix it counted the live rows).
+		const page = await reviewedContent(await row(), reviewer);
+		expect(counts(page.content)).toEqual(published);
+		desk = await deskRow(t.id);
+		expect({ danger: desk.dangerChecks, caution: desk.cautionChecks }).toEqual(published);
+		expect(desk.mainsPowered).toBe(page.build.mainsPowered);
+		expect(desk.mainsPowered).toBe(true);
+		expect(desk.title).toBe(page.build.title);
+		expect(desk.revision).toBe(page.pinned);
+		expect(desk.pendingChanges).toBe(true);
+		// The mains filter follows the published revision too.
+		expect((await listDesk(deskQuerySchema.parse({ mains: true }), null, 1000)).items.map((w) => w.id)).toContain(t.id);
+
+		// Published as a revision: the desk counts what the review page now shows.
+		await publishRevision(maker, t.id, 'Fuse left out for now; battery tests only.');
+		const after = await reviewedContent(await row(), reviewer);
+		expect(counts(after.content)).toEqual(live);
+		desk = await deskRow(t.id);
+		expect({ danger: desk.dangerChecks, caution: desk.cautionChecks }).toEqual(live);
+		expect(desk).toMatchObject({ mainsPowered: false, title: 'Renamed while waiting', revision: after.pinned, pendingChanges: false });
 	});
 });

@@ -206,6 +206,8 @@ describe('review desk', () => {
 		// No primary fuse on a mains supply: a danger check on the second build.
 		const saved = await saveSpecBlock(other, second.id, { id: second.supplyBlockId, kind: 'supply', title: 'Main supply', data: { ...SUPPLY_DATA, fuse: null } });
 		expect(saved.ok).toBe(true);
+		// Published as a revision: the desk counts the published revision (what a review is of), not pending edits.
+		await publishRevision(other, second.id, 'Fuse left out.');
 		await requestReview(other, first.id);
 		await requestReview(other, second.id);
 		const desk = await listWaiting();
