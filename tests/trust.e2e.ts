@@ -1,6 +1,7 @@
 // Account and session holes, probed over real HTTP against the running app as an attacker would.
 import { test, expect, request as playwrightRequest, type APIRequestContext } from '@playwright/test';
 import { spawn } from 'node:child_process';
+import { createHmac, randomUUID } from 'node:crypto';
 import { DEMO_PASSWORD } from './helpers/auth';
 import { waitForMail, linkIn } from './helpers/mail';
 import { origin, uniqueTitle } from './helpers/builds';
@@ -210,6 +211,41 @@ test.describe('unsubscribe (hole 10)', () => {
 		expect(again.status()).toBe(200);
 		expect(await replyOn()).toBe(true);
 		for (const c of [aiko, joss, anon]) await c.dispose();
+	});
+
+	test('a refused link gets a page of its own: 400 when cut short or changed, 410 when run out; both say what to do', async ({ page }) => {
+		// A token as the app signs it (notifications.ts): base64url("member\nkind\nexpiry seconds") "." HMAC-SHA256 over
+		// "unsubscribe:" + payload, keyed with BETTER_AUTH_SECRET (RFC 2104 HMAC, computed here by node:crypto).
+		const secret = process.env.BETTER_AUTH_SECRET;
+		expect(secret, 'npm test passes BETTER_AUTH_SECRET to Playwright').toBeTruthy();
+		const tokenOf = (member: string, kind: string, expiresS: number) => {
+			const payload = Buffer.from(`${member}\n${kind}\n${expiresS}`, 'utf8').toString('base64url');
+			return `${payload}.${createHmac('sha256', secret!).update(`unsubscribe:${payload}`).digest('base64url')}`;
+		};
+		const member = randomUUID();
+		const expired = tokenOf(member, 'reply', Math.floor(Date.now() / 1000) - 86_400);
+		const live = tokenOf(member, 'reply', Math.floor(Date.now() / 1000) + 86_400);
+		const cases = [
+			{ token: expired, status: 410, heading: 'This unsubscribe link has run out', sentence: /has expired/ },
+			{ token: `${live.slice(0, -4)}AAAA`, status: 400, heading: 'This unsubscribe link does not work', sentence: /not valid/ },
+			{ token: live.slice(0, 20), status: 400, heading: 'This unsubscribe link does not work', sentence: /cut short/ }
+		];
+		for (const c of cases) {
+			const res = await page.goto(`/unsubscribe?token=${encodeURIComponent(c.token)}`);
+			expect(res?.status(), c.heading).toBe(c.status);
+			await expect(page.getByRole('heading', { level: 1 })).toHaveText(c.heading);
+			await expect(page.getByRole('heading', { name: 'Something went wrong' })).toHaveCount(0);
+			await expect(page.locator(`[data-unsubscribe-refused="${c.status}"]`)).toContainText(c.sentence);
+			await expect(page.getByText('Nothing was changed')).toBeVisible();
+			await expect(page.getByRole('link', { name: 'Sign in and change your e-mail settings' })).toHaveAttribute('href', '/account');
+		}
+		// The one-click address opened in a browser lands on the same page, with the same status.
+		const viaOneClick = await page.goto(`/unsubscribe/one-click?token=${encodeURIComponent(expired)}`);
+		expect(viaOneClick?.status()).toBe(410);
+		await expect(page.getByRole('heading', { level: 1 })).toHaveText('This unsubscribe link has run out');
+		// Following the link while signed out asks for sign-in, then comes back to the account page.
+		await page.getByRole('link', { name: 'Sign in and change your e-mail settings' }).click();
+		await expect(page).toHaveURL(/\/sign-in\?next=%2Faccount$/);
 	});
 });
 
