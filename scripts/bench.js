@@ -8,7 +8,7 @@
 //   node scripts/bench.js [--url http://127.0.0.1:3000] [--duration 5] [--rounds 2] [--connections 32]
 //                         [--slug some-build] [--q "toroid soft start"] [--only ping,build,search-miss]
 //
-// Start the app as in production first (`npm start`, or vite build then node build with the env
+// Start the app as in production first (`npm start`, or vite build then node server.js with the env
 // vars), on the large data set (scripts/seed-large.js). Uses autocannon (a dev dependency).
 import os from 'node:os';
 import autocannon from 'autocannon';

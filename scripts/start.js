@@ -63,7 +63,8 @@ try {
 		if (b.status !== 0) throw new Error('build failed');
 	}
 	// The app exits on its own if this script is killed outright (SIGKILL): see scripts/lib/parent-watch.js.
-	app = spawn(process.execPath, ['--import', path.join(here, 'lib', 'parent-watch.js'), 'build'], {
+	// server.js: adapter-node's server from build/ plus a sentence for requests Node cannot read (scripts/lib/client-error.js).
+	app = spawn(process.execPath, ['--import', path.join(here, 'lib', 'parent-watch.js'), 'server.js'], {
 		cwd: root,
 		stdio: ['ignore', 'inherit', 'inherit'],
 		env: { ...process.env, ...stack.env, SEED_DEMO: 'true', NODE_ENV: 'production' }

@@ -204,7 +204,8 @@ try {
 		testEnv.STARGROUND_TEST_APP_ENV = JSON.stringify(appEnv);
 		if (stopping) throw new Error(`stopped by ${stopping}`);
 		// parent-watch: the app also stops if this script is killed outright (SIGKILL), as under `npm start`.
-		app = spawn(process.execPath, ['--import', path.join(here, 'lib', 'parent-watch.js'), 'build'], {
+		// server.js: adapter-node's server from build/ plus a sentence for requests Node cannot read (scripts/lib/client-error.js).
+		app = spawn(process.execPath, ['--import', path.join(here, 'lib', 'parent-watch.js'), 'server.js'], {
 			cwd: root,
 			stdio: ['ignore', fs.openSync(path.join(dataRoot, 'app.log'), 'a'), fs.openSync(path.join(dataRoot, 'app.log'), 'a')],
 			env: { ...process.env, ...testEnv, ...appEnv },

@@ -286,7 +286,7 @@ test('Two app instances on one PostgreSQL, S3 and SMTP: sessions, rate limits, t
 	const portB = Number(new URL(origin()).port) + 5;
 	const originB = `http://127.0.0.1:${portB}`;
 	const logB = path.resolve('.data/test/app-b.log');
-	const b = spawn(process.execPath, ['build'], {
+	const b = spawn(process.execPath, ['server.js'], {
 		env: { ...process.env, ...JSON.parse(process.env.STARGROUND_TEST_APP_ENV ?? '{}'), SEED_DEMO: 'false', PORT: String(portB) },
 		stdio: ['ignore', fs.openSync(logB, 'a'), fs.openSync(logB, 'a')]
 	});

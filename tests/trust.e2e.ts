@@ -298,7 +298,7 @@ test.describe('account forms (holes 2, 3, 11)', () => {
 
 test('the server refuses to start without a BETTER_AUTH_SECRET of 32 characters (hole 4)', async () => {
 	for (const secret of ['', 'short-secret']) {
-		const child = spawn(process.execPath, ['build'], {
+		const child = spawn(process.execPath, ['server.js'], {
 			env: { ...process.env, BETTER_AUTH_SECRET: secret, PORT: '0', SEED_DEMO: 'false', MAIL_WORKER: 'off', NODE_ENV: 'production' },
 			stdio: ['ignore', 'pipe', 'pipe']
 		});
