@@ -1,22 +1,19 @@
 // Integration tests against the real PostgreSQL of DATABASE_URL (and the fake S3 for the photo): recording
 // "I built this too", its checks, who may record, the member's own build based on it, and the list the build shows.
-import { describe, it, expect, beforeAll, afterAll } from 'vitest';
+import { describe, it, expect } from 'vitest';
 import sharp from 'sharp';
-import { createTestUser, removeTestUsers } from './testing/builds';
-import { statusOf, testBuild } from './testing/parts';
+import { statusOf, useTestUsers } from './testing/builds';
+import { testBuild } from './testing/parts';
 import { derive, publish, addStep } from './builds';
 import { builtItPanel, listBuiltIt, recordBuiltIt, removeBuiltIt, setBuiltItPhoto } from './built-it';
 import { mediaAccess } from './photos/media-access';
 import { builtItForm } from '$lib/schemas/built-it';
 
-type TestUser = Awaited<ReturnType<typeof createTestUser>>;
-let maker: TestUser, builder: TestUser, second: TestUser;
-beforeAll(async () => {
-	maker = await createTestUser('maker', 'Original maker');
-	builder = await createTestUser('maker', 'Builder one');
-	second = await createTestUser('maker', 'Builder two');
+const { maker, builder, second } = useTestUsers({
+	maker: ['maker', 'Original maker'],
+	builder: ['maker', 'Builder one'],
+	second: ['maker', 'Builder two']
 });
-afterAll(() => removeTestUsers([maker.id, builder.id, second.id]));
 
 const form = (f: Record<string, string>) => builtItForm.parse(f);
 

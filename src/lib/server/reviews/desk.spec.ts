@@ -6,7 +6,7 @@ import { eq, inArray, sql } from 'drizzle-orm';
 import { db } from '../db';
 import * as schema from '../db/schema';
 import { stopMail } from '../mail';
-import { createTestUser, removeTestUsers } from '../testing/builds';
+import { useTestUsers } from '../testing/builds';
 import { insertBuilds, insertReview } from '../testing/discover';
 import { createPublishedBuild, queuedMailTo } from '../testing/reviews';
 import {
@@ -26,23 +26,19 @@ import {
 	type DeskQuery
 } from './index';
 
-type U = Awaited<ReturnType<typeof createTestUser>>;
-let maker: U, maker2: U, reviewer: U, reviewer2: U, moderator: U;
-const users: string[] = [];
-
-beforeAll(async () => {
-	maker = await createTestUser('maker', 'Desk maker');
-	maker2 = await createTestUser('maker', 'Desk maker two');
-	reviewer = await createTestUser('reviewer', 'Desk reviewer');
-	reviewer2 = await createTestUser('reviewer', 'Desk reviewer two');
-	moderator = await createTestUser('moderator', 'Desk moderator');
-	users.push(maker.id, maker2.id, reviewer.id, reviewer2.id, moderator.id);
+const { maker, maker2, reviewer, reviewer2, moderator, explainOwner, follower, bystander, asker } = useTestUsers({
+	maker: ['maker', 'Desk maker'],
+	maker2: ['maker', 'Desk maker two'],
+	reviewer: ['reviewer', 'Desk reviewer'],
+	reviewer2: ['reviewer', 'Desk reviewer two'],
+	moderator: ['moderator', 'Desk moderator'],
+	explainOwner: ['maker', 'Explain owner'],
+	follower: ['reviewer', 'Digest follower'],
+	bystander: ['reviewer', 'Digest bystander'],
+	asker: ['maker', 'Digest asker']
 });
 
-afterAll(async () => {
-	await removeTestUsers(users);
-	await stopMail();
-});
+afterAll(() => stopMail());
 
 const q = (over: Partial<DeskQuery> = {}): DeskQuery => ({ ...deskQuerySchema.parse({}), ...over });
 
@@ -169,8 +165,7 @@ describe('desk pages, filters and orders', () => {
 describe('each desk query uses its index (EXPLAIN)', () => {
 	it('at 6000 waiting requests the planner reads the named index for every desk query', async () => {
 		// Requests dated 2100, after every other test's (test files run one at a time); removed at the end.
-		const owner = await createTestUser('maker', 'Explain owner');
-		users.push(owner.id);
+		const owner = explainOwner;
 		// A bulk load on a shared, loaded machine: no statement time limit for these two statements.
 		await db.transaction(async (tx) => {
 			await tx.execute(sql`set local statement_timeout = 0`);
@@ -258,10 +253,6 @@ describe('claims: "I\'m reviewing this"', () => {
 
 describe('reviewer digest', () => {
 	it('ten requests in a followed category make one scheduled job and one mail listing all ten', async () => {
-		const follower = await createTestUser('reviewer', 'Digest follower');
-		const bystander = await createTestUser('reviewer', 'Digest bystander');
-		const asker = await createTestUser('maker', 'Digest asker');
-		users.push(follower.id, bystander.id, asker.id);
 		await setFollowedCategories(follower, ['headphone-amp', 'nonsense']);
 		await setFollowedCategories(bystander, ['dac']);
 		const [{ email }] = await db.select({ email: schema.user.email }).from(schema.user).where(eq(schema.user.id, follower.id));

@@ -3,33 +3,22 @@
 // List-Unsubscribe=One-Click, RFC 8058 §3.1); opening the link changes nothing, posting it (the page's button or the
 // mail client's one-click POST) stops the digest without signing in; a tampered, cut-short or expired token gets a
 // clear 4xx sentence and changes nothing.
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { eq, sql } from 'drizzle-orm';
 import { isHttpError, isRedirect } from '@sveltejs/kit';
 import { db } from '../db';
 import * as schema from '../db/schema';
 import { listUnsubscribeHeaders, stopMail } from '../mail';
 import { readUnsubscribeToken, unsubscribeToken, unsubscribeLinkDays, verifyUnsubscribeToken } from '../notifications';
-import { createTestUser, removeTestUsers } from '../testing/builds';
+import { useTestUsers } from '../testing/builds';
 import { createPublishedBuild } from '../testing/reviews';
 import { followedCategories, requestReview, sendReviewDigest, setFollowedCategories } from './index';
 import { POST as oneClick } from '../../../routes/unsubscribe/one-click/+server';
 import { actions, load } from '../../../routes/unsubscribe/+page.server';
 
-type U = Awaited<ReturnType<typeof createTestUser>>;
-let follower: U, maker: U;
-const users: string[] = [];
+const { follower, maker } = useTestUsers({ follower: ['reviewer', 'Digest reader'], maker: ['maker', 'Asker'] });
 
-beforeAll(async () => {
-	follower = await createTestUser('reviewer', 'Digest reader');
-	maker = await createTestUser('maker', 'Asker');
-	users.push(follower.id, maker.id);
-});
-
-afterAll(async () => {
-	await removeTestUsers(users);
-	await stopMail();
-});
+afterAll(() => stopMail());
 
 const base64url = (s: string) => Buffer.from(s, 'utf8').toString('base64url');
 

@@ -1,23 +1,17 @@
 // Integration (real PostgreSQL): the review page shows the published revision the verdict is pinned to, and the
 // maker's unpublished edits only as a separate "pending changes" diff — never mixed into what is reviewed.
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
 import { db } from '../db';
 import * as schema from '../db/schema';
 import { addStep, getBuildBySlug, loadBuildContent, publishRevision, updateStep } from '../builds';
 import type { BuildContent } from '../builds/queries';
 import { saveSpecBlock } from '../specs';
-import { createTestUser, removeTestUsers } from '../testing/builds';
+import { useTestUsers } from '../testing/builds';
 import { createPublishedBuild, SUPPLY_DATA } from '../testing/reviews';
 import { deskQuerySchema, listDesk, requestReview, reviewedContent } from './index';
 
-type U = Awaited<ReturnType<typeof createTestUser>>;
-let maker: U, reviewer: U;
-beforeAll(async () => {
-	maker = await createTestUser('maker', 'Pinned maker');
-	reviewer = await createTestUser('reviewer', 'Pinned reviewer');
-});
-afterAll(() => removeTestUsers([maker.id, reviewer.id]));
+const { maker, reviewer } = useTestUsers({ maker: ['maker', 'Pinned maker'], reviewer: ['reviewer', 'Pinned reviewer'] });
 
 describe('reviewedContent', () => {
 	it('shows the published revision; pending edits come apart as a diff, and join the content only once published', async () => {

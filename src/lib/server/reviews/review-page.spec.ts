@@ -1,35 +1,27 @@
 // Integration (real PostgreSQL): what the review page and the build page show around a verdict — the mains
 // checklist stored with it (and the rule for signing off with items unticked), the changes since the last
 // sign-off on a re-review, and hazard tag threads with a note on clearing and mail to the other side.
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
 import { db } from '../db';
 import * as schema from '../db/schema';
 import { stopMail } from '../mail';
 import { addStep, publishRevision } from '../builds';
 import { saveSpecBlock } from '../specs';
-import { createTestUser, removeTestUsers } from '../testing/builds';
+import { useTestUsers } from '../testing/builds';
 import { createPublishedBuild, emailOf, queuedMailTo, SUPPLY_DATA } from '../testing/reviews';
 import { CHECKLIST_ITEMS } from '$lib/review-checklist';
 import { changesSinceVerdict, getReviewPanel, postFlagMessage, raiseFlag, requestReview, setFlagState, submitReview } from './index';
 
-type U = Awaited<ReturnType<typeof createTestUser>>;
-let maker: U, other: U, reviewer: U, reviewer2: U;
-const users: string[] = [];
+const { maker, other, reviewer, reviewer2 } = useTestUsers({
+	maker: ['maker', 'Page maker'],
+	other: ['maker', 'Page other'],
+	reviewer: ['reviewer', 'Page reviewer'],
+	reviewer2: ['reviewer', 'Page reviewer two']
+});
 const ALL = CHECKLIST_ITEMS.map((i) => i.key);
 
-beforeAll(async () => {
-	maker = await createTestUser('maker', 'Page maker');
-	other = await createTestUser('maker', 'Page other');
-	reviewer = await createTestUser('reviewer', 'Page reviewer');
-	reviewer2 = await createTestUser('reviewer', 'Page reviewer two');
-	users.push(maker.id, other.id, reviewer.id, reviewer2.id);
-});
-
-afterAll(async () => {
-	await removeTestUsers(users);
-	await stopMail();
-});
+afterAll(() => stopMail());
 
 describe('mains checklist with the verdict', () => {
 	it('six items, each with a source; a sign-off with unticked items needs the reviewer to say why', () => {

@@ -9,7 +9,7 @@ import * as schema from '../db/schema';
 import { addStep, publishRevision } from '../builds';
 import { saveSpecBlock } from '../specs';
 import { stopMail } from '../mail';
-import { createTestUser, removeTestUsers } from '../testing/builds';
+import { useTestUsers } from '../testing/builds';
 import { createPublishedBuild, emailOf, queuedMailTo, SUPPLY_DATA, type TestBuild } from '../testing/reviews';
 import {
 	addressFlag,
@@ -25,25 +25,21 @@ import {
 	submitReview
 } from './index';
 
-type U = Awaited<ReturnType<typeof createTestUser>>;
-let owner: U, other: U, reviewer: U, reviewer2: U, moderator: U;
+const { owner, other, reviewer, reviewer2, moderator, notified } = useTestUsers({
+	owner: ['maker', 'Owner'],
+	other: ['maker', 'Other'],
+	reviewer: ['reviewer', 'Reviewer'],
+	reviewer2: ['reviewer', 'Second reviewer'],
+	moderator: ['moderator', 'Moderator'],
+	notified: ['maker', 'Notified']
+});
 let build: TestBuild;
-const users: string[] = [];
 
 beforeAll(async () => {
-	owner = await createTestUser('maker', 'Owner');
-	other = await createTestUser('maker', 'Other');
-	reviewer = await createTestUser('reviewer', 'Reviewer');
-	reviewer2 = await createTestUser('reviewer', 'Second reviewer');
-	moderator = await createTestUser('moderator', 'Moderator');
-	users.push(owner.id, other.id, reviewer.id, reviewer2.id, moderator.id);
 	build = await createPublishedBuild(owner);
 });
 
-afterAll(async () => {
-	await removeTestUsers(users);
-	await stopMail();
-});
+afterAll(() => stopMail());
 
 const flagInput = (targetId: string, kind: 'step' | 'spec' | 'part' = 'step') => ({
 	targetKind: kind,
@@ -223,8 +219,7 @@ describe('review desk', () => {
 
 describe('notifications respect the opt-outs', () => {
 	it('queues review and flag mail for the maker only while those kinds are on', async () => {
-		const maker = await createTestUser('maker', 'Notified');
-		users.push(maker.id);
+		const maker = notified;
 		const b = await createPublishedBuild(maker);
 		const email = await emailOf(maker.id);
 		const t0 = new Date(Date.now() - 1000);

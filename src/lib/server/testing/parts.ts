@@ -4,18 +4,11 @@ import { eq } from 'drizzle-orm';
 import { db } from '../db';
 import * as schema from '../db/schema';
 import { addStep, createDraft, publish } from '../builds';
-import { uniqueTitle } from './builds';
+import { buildFields, uniqueTitle } from './builds';
 
 /** A draft build of `ownerId` (published with one step when asked). → its row. */
 export async function testBuild(ownerId: string, { published = false } = {}): Promise<schema.Build> {
-	const { id } = await createDraft(ownerId, {
-		title: uniqueTitle('Parts test amp'),
-		summary: 'Two monolithic power amplifier ICs on a split supply.',
-		category: 'power-amp',
-		topology: 'class-ab-chip',
-		mainsPowered: true,
-		licence: 'CC-BY-SA-4.0'
-	});
+	const { id } = await createDraft(ownerId, { ...buildFields(uniqueTitle('Parts test amp')), summary: 'Two monolithic power amplifier ICs on a split supply.' });
 	if (published) {
 		const actor = { id: ownerId, role: 'maker' as const };
 		await addStep(actor, id, { title: 'Boards', bodyMd: 'Populate the boards.' });

@@ -8,7 +8,7 @@ import { addStep, createDraft, publish } from '../builds';
 import { saveSpecBlock } from '../specs';
 import { savePartsList } from '../parts';
 import { emptyDraft } from '$lib/parts';
-import { uniqueTitle } from './builds';
+import { buildFields, uniqueTitle } from './builds';
 import { supplyBlock } from '$lib/specs/fixtures';
 
 /** Supply block data that passes its schema and fires no check (the shared fixture of $lib/specs/fixtures). */
@@ -29,14 +29,7 @@ export interface TestBuild {
  */
 export async function createPublishedBuild(owner: { id: string; role?: string }, title = uniqueTitle('Review test amp')): Promise<TestBuild> {
 	const actor = actorOf(owner);
-	const { id, slug } = await createDraft(owner.id, {
-		title,
-		summary: 'A stereo chip amp for review tests.',
-		category: 'power-amp',
-		topology: 'class-ab-chip',
-		mainsPowered: true,
-		licence: 'CC-BY-SA-4.0'
-	});
+	const { id, slug } = await createDraft(owner.id, { ...buildFields(title), summary: 'A stereo chip amp for review tests.' });
 	const wiring = await addStep(actor, id, { title: 'Mains inlet and fuse', bodyMd: 'Fused IEC inlet, earth to the chassis stud.' });
 	const heatsink = await addStep(actor, id, { title: 'Heatsink and mounting', bodyMd: 'The tab sits at V−; mica and grease under it.' });
 	const block = await saveSpecBlock(actor, id, { kind: 'supply', title: 'Main supply', data: SUPPLY_DATA });
