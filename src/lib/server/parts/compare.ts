@@ -8,14 +8,14 @@ import { canView, getMaker, requireVisibleBuild } from '../builds';
 import { listPartLines } from './index';
 
 /**
- * The build at `slug` (404 unless `viewer` may see it) and the build it was derived from, with both parts
+ * The build at `slug` (404 unless `viewer` may see it) and the build it is based on, with both parts
  * lists in list order. 404 when the build was not derived, or its origin is no longer visible to `viewer`.
  */
 export async function compareWithOrigin(slug: string, viewer: Viewer) {
 	const b = await requireVisibleBuild(slug, viewer);
-	if (!b.derivedFromId) error(404, 'This build was not derived from another, so there is nothing to compare.');
+	if (!b.derivedFromId) error(404, 'This build is not based on another build, so there is nothing to compare.');
 	const [origin] = await db.select().from(schema.build).where(eq(schema.build.id, b.derivedFromId));
-	if (!origin || !canView(viewer, origin)) error(404, 'The build this one was derived from is no longer available.');
+	if (!origin || !canView(viewer, origin)) error(404, 'The build this one is based on is no longer available.');
 	const [mine, theirs, originMaker] = await Promise.all([listPartLines(b.id), listPartLines(origin.id), getMaker(origin.ownerId)]);
 	return { build: b, origin, originMaker, mine, theirs };
 }

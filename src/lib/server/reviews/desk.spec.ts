@@ -142,7 +142,7 @@ describe('desk pages, filters and orders', () => {
 		expect(mine(await walk(q(), 25))).toHaveLength(9);
 	});
 
-	it('a request after a verdict is a re-review', async () => {
+	it('a request after a sign-off or send-back is a re-review', async () => {
 		const [b] = await insertBuilds(maker.id, [{}]);
 		await insertReview(b.id, reviewer.id, 'rework', 1);
 		await db.update(schema.build).set({ reviewRequestedAt: new Date(base) }).where(eq(schema.build.id, b.id));
@@ -211,7 +211,7 @@ describe('claims: "I\'m reviewing this"', () => {
 		}
 	});
 
-	it('who may claim and release; a claim lapses after REVIEW_CLAIM_HOURS; verdicts wait for the holder', async () => {
+	it('who may claim and release; a claim lapses after REVIEW_CLAIM_HOURS; a sign-off or send-back waits for the holder', async () => {
 		const b = await createPublishedBuild(maker2);
 		await requestReview(maker2, b.id, undefined, 'Please look at the earth bond\u0000 in step 1.');
 		expect((await getDeskEntry(b.id))?.note).toBe('Please look at the earth bond in step 1.');

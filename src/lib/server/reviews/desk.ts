@@ -363,7 +363,7 @@ export async function assertNotClaimedByOther(dbx: Pick<typeof db, 'select'>, ac
 	if (row?.by && row.by !== actor.id && row.at && row.at > claimCutoff(now)) {
 		error(
 			409,
-			`${row.name ?? 'Another reviewer'} has claimed this review (“I'm reviewing this”) until ${new Date(row.at.getTime() + claimHours() * 3_600_000).toISOString().slice(0, 16).replace('T', ' ')} UTC. Tag hazards if you like; the verdict is theirs until they release it or the claim lapses.`
+			`${row.name ?? 'Another reviewer'} has claimed this review (“I'm reviewing this”) until ${new Date(row.at.getTime() + claimHours() * 3_600_000).toISOString().slice(0, 16).replace('T', ' ')} UTC. Tag hazards if you like; the sign-off or send-back is theirs until they release it or the claim lapses.`
 		);
 	}
 }

@@ -23,7 +23,7 @@ const ALL = CHECKLIST_ITEMS.map((i) => i.key);
 
 afterAll(() => stopMail());
 
-describe('mains checklist with the verdict', () => {
+describe('mains checklist with the sign-off or send-back', () => {
 	it('six items, each with a source; a sign-off with unticked items needs the reviewer to say why', () => {
 		expect(ALL).toEqual(['pe-continuity', 'live-fuse', 'mains-insulation', 'creepage-clearance', 'reservoir-discharge', 'heatsink-isolation']);
 		for (const i of CHECKLIST_ITEMS) expect(i.source.length).toBeGreaterThan(10);

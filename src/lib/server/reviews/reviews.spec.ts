@@ -50,7 +50,7 @@ const flagInput = (targetId: string, kind: 'step' | 'spec' | 'part' = 'step') =>
 });
 
 describe('hazard tags (code: flags): who may tag and move them', () => {
-	it('only reviewers who are not the maker raise flags, on targets of the same build', async () => {
+	it('only reviewers who are not the maker tag hazards, on targets of the same build', async () => {
 		await expect(raiseFlag(other, build.id, flagInput(build.steps.heatsink))).rejects.toMatchObject({ status: 403 });
 		await expect(raiseFlag(owner, build.id, flagInput(build.steps.heatsink))).rejects.toMatchObject({ status: 403 });
 		// A reviewer's own build: never reviewable by them.
@@ -101,7 +101,7 @@ describe('hazard tags (code: flags): who may tag and move them', () => {
 		await setFlagState(reviewer, id, 'resolve');
 	});
 
-	it('the maker cannot address flags while a moderator has locked the build', async () => {
+	it('the maker cannot mark hazard tags fixed while a moderator has locked the build', async () => {
 		const id = await raiseFlag(reviewer, build.id, flagInput(build.supplyBlockId, 'spec'), { notify: false });
 		await db.update(schema.build).set({ locked: true, lockedReason: 'test' }).where(eq(schema.build.id, build.id));
 		try {
@@ -218,7 +218,7 @@ describe('review desk', () => {
 });
 
 describe('notifications respect the opt-outs', () => {
-	it('queues review and flag mail for the maker only while those kinds are on', async () => {
+	it('queues review and hazard tag mail for the maker only while those kinds are on', async () => {
 		const maker = notified;
 		const b = await createPublishedBuild(maker);
 		const email = await emailOf(maker.id);

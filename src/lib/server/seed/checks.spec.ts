@@ -3,7 +3,7 @@ import { DEMO_BUILDS } from './content';
 import { checkBuild } from '$lib/specs';
 
 // The invented demo scenario under the revision-2 checks: builds the scenario calls safe must raise nothing a
-// reviewer would have to act on (notes only), and the build sent back for rework must show the findings.
+// reviewer would have to act on (notes only), and the build sent back for changes must show the findings.
 const run = (key: string) => {
 	const b = DEMO_BUILDS.find((x) => x.key === key)!;
 	const r = checkBuild(
@@ -25,7 +25,7 @@ describe('demo builds under the revision-2 checks', () => {
 	it('the chip amp says its worst case comes from its supply block', () => {
 		expect(run('chipamp')).toContain('amp.rails-from-supply:note');
 	});
-	it('the class A build sent back for rework shows its claimed power beyond the bias limit', () => {
+	it('the class A build sent back for changes shows its claimed power beyond the bias limit', () => {
 		expect(run('headphone')).toContain('amp.power-beyond-bias:caution');
 	});
 	it('the unearthed supply waiting for review shows the missing earth', () => {
