@@ -192,6 +192,11 @@ export interface DeskPage {
 	total: number;
 }
 
+/** Joins a waiting build's published revision (build_revision at build.revision; its unique index) to review_request. */
+export const reviewedRevisionOn = and(eq(schema.buildRevision.buildId, schema.reviewRequest.buildId), eq(schema.buildRevision.number, schema.build.revision));
+/** The title of the revision under review, as the review page shows it (the live title for a build without a revision row). */
+export const reviewedTitle = sql<string>`coalesce(${schema.buildRevision.snapshot}->'build'->>'title', ${schema.build.title})`;
+
 /**
  * The page query of the desk (not run): waiting builds matching `q`, in its order, after `cursor`, `limit + 1` rows,
  * with the published revision's title (a left join on build_revision's unique index). listDesk runs it; deskPageSql
@@ -208,8 +213,7 @@ function deskPageQuery(q: DeskQuery, cursor: string | null, limit: number, now: 
 		.select({
 			id: schema.build.id,
 			slug: schema.build.slug,
-			// The published revision's title, as the review page shows it (live title for a build without one).
-			title: sql<string>`coalesce(${schema.buildRevision.snapshot}->'build'->>'title', ${schema.build.title})`,
+			title: reviewedTitle,
 			revision: schema.build.revision,
 			pendingChangesAt: schema.build.pendingChangesAt,
 			category: rr.category,
@@ -233,7 +237,7 @@ function deskPageQuery(q: DeskQuery, cursor: string | null, limit: number, now: 
 		.innerJoin(schema.build, eq(schema.build.id, rr.buildId))
 		.innerJoin(maker, eq(maker.id, schema.build.ownerId))
 		.leftJoin(claimer, eq(claimer.id, rr.claimedById))
-		.leftJoin(schema.buildRevision, and(eq(schema.buildRevision.buildId, rr.buildId), eq(schema.buildRevision.number, schema.build.revision)))
+		.leftJoin(schema.buildRevision, reviewedRevisionOn)
 		.where(and(eq(schema.build.status, 'published'), ...pageConds))
 		.orderBy(...orderOf(q))
 		.limit(limit + 1);

@@ -16,6 +16,7 @@ import { CATEGORIES, type Category } from '$lib/schemas/build';
 import { CATEGORY_LABELS } from '$lib/labels';
 import { roleAtLeast, type Role } from '$lib/roles';
 import { revisionLabel } from '$lib/revision-label';
+import { reviewedRevisionOn, reviewedTitle } from './desk';
 
 export const DIGEST_QUEUE = 'review-digest';
 /** Most requests named in one digest; the rest are counted. */
@@ -119,9 +120,11 @@ export async function sendReviewDigest(userId: string): Promise<string | null> {
 		if (!who || who.suspendedAt || !who.categories.length || !roleAtLeast(who.role as Role, 'reviewer')) return null;
 		const rr = schema.reviewRequest;
 		const rows = await tx
-			.select({ slug: schema.build.slug, title: schema.build.title, revision: schema.build.revision, category: rr.category, requestedAt: rr.requestedAt, mains: rr.mainsPowered, danger: rr.dangerChecks })
+			// What the desk shows: the published revision's title, mains flag, category and DANGER count.
+			.select({ slug: schema.build.slug, title: reviewedTitle, revision: schema.build.revision, category: rr.category, requestedAt: rr.requestedAt, mains: rr.mainsPowered, danger: rr.dangerChecks })
 			.from(rr)
 			.innerJoin(schema.build, eq(schema.build.id, rr.buildId))
+			.leftJoin(schema.buildRevision, reviewedRevisionOn)
 			.where(
 				and(
 					inArray(rr.category, who.categories),

@@ -1,7 +1,7 @@
 // Integration (real PostgreSQL): the review page shows the published revision the verdict is pinned to, and the
 // maker's unpublished edits only as a separate "pending changes" diff — never mixed into what is reviewed.
-import { describe, expect, it } from 'vitest';
-import { eq } from 'drizzle-orm';
+import { afterAll, describe, expect, it } from 'vitest';
+import { eq, sql } from 'drizzle-orm';
 import { db } from '../db';
 import * as schema from '../db/schema';
 import { addStep, getBuildBySlug, loadBuildContent, publishRevision, updateStep } from '../builds';
@@ -9,9 +9,11 @@ import type { BuildContent } from '../builds/queries';
 import { saveSpecBlock } from '../specs';
 import { useTestUsers } from '../testing/builds';
 import { createPublishedBuild, SUPPLY_DATA } from '../testing/reviews';
-import { deskQuerySchema, listDesk, requestReview, reviewedContent } from './index';
+import { stopMail } from '../mail';
+import { deskQuerySchema, listDesk, requestReview, reviewedContent, sendReviewDigest, setFollowedCategories } from './index';
 
 const { maker, reviewer } = useTestUsers({ maker: ['maker', 'Pinned maker'], reviewer: ['reviewer', 'Pinned reviewer'] });
+afterAll(() => stopMail());
 
 describe('reviewedContent', () => {
 	it('shows the published revision; pending edits come apart as a diff, and join the content only once published', async () => {
@@ -58,6 +60,8 @@ describe('the review desk and the review page count the same revision', () => {
 	it('pending edits move neither; publishing them as a revision moves both', async () => {
 		const t = await createPublishedBuild(maker);
 		const row = async () => (await getBuildBySlug(t.slug))!;
+		// The reviewer follows the category first (a digest lists the requests made since following).
+		await setFollowedCategories(reviewer, ['power-amp']);
 		await requestReview(maker, t.id);
 		const published = counts((await reviewedContent(await row(), reviewer)).content);
 		let desk = await deskRow(t.id);
@@ -84,6 +88,14 @@ describe('the review desk and the review page count the same revision', () => {
 		expect(desk.pendingChanges).toBe(true);
 		// The mains filter follows the published revision too.
 		expect((await listDesk(deskQuerySchema.parse({ mains: true }), null, 1000)).items.map((w) => w.id)).toContain(t.id);
+		// So does the desk digest: it names the published title, with its DANGER count.
+		const jobId = await sendReviewDigest(reviewer.id);
+		expect(jobId).not.toBeNull();
+		const [job] = [...(await db.execute<{ text: string }>(sql`select data->>'text' as text from pgboss.job where id = ${jobId}::uuid`))];
+		const line = job.text.split('\n').find((l) => l.includes(`/builds/${t.slug}/review`))!;
+		expect(line).toContain(`“${t.title}”`);
+		expect(line).not.toContain('Renamed while waiting');
+		expect(line.includes('DANGER')).toBe(published.danger > 0);
 
 		// Published as a revision: the desk counts what the review page now shows.
 		await publishRevision(maker, t.id, 'Fuse left out for now; battery tests only.');
