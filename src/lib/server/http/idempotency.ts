@@ -11,6 +11,7 @@ import { and, eq, lt, sql } from 'drizzle-orm';
 import { db } from '../db';
 import { idempotencyKey } from '../db/schema';
 import { apiError } from './envelope';
+import { checkedBodyOf } from './checked-body';
 
 const WRITE = new Set(['POST', 'PUT', 'PATCH', 'DELETE']);
 /**
@@ -30,7 +31,9 @@ export const handleIdempotency: Handle = async ({ event, resolve }) => {
 		return apiError(400, 'invalid', 'An Idempotency-Key is 1 to 200 visible ASCII characters.', [{ path: 'Idempotency-Key', message: 'malformed' }]);
 	}
 	const scope = event.locals.user ? `user:${event.locals.user.id}` : `address:${event.getClientAddress()}`;
-	const body = event.request.body ? await event.request.clone().text() : '';
+	// The request guards read the body once and kept its text; only a body they did not read is read here.
+	const checked = checkedBodyOf(event.request)?.text;
+	const body = checked ?? (event.request.body ? await event.request.clone().text() : '');
 	const fingerprint = createHash('sha256')
 		.update(`${event.request.method} ${event.url.pathname}${event.url.search}\n${body}`)
 		.digest('base64url');
