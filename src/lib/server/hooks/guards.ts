@@ -55,7 +55,7 @@ function tooLarge(api: boolean, cap: number): Response {
  * Read `request`'s body once, stopping after `cap` + 1 bytes: the bytes, or null when it ran past `cap`
  * (the rest is left in the stream for discardBody). Throws when the client broke off mid-body.
  */
-async function readCapped(reader: ReadableStreamDefaultReader<Uint8Array>, cap: number): Promise<Uint8Array | null> {
+async function readCapped(reader: ReadableStreamDefaultReader<Uint8Array>, cap: number): Promise<Uint8Array<ArrayBuffer> | null> {
 	const chunks: Uint8Array[] = [];
 	let total = 0;
 	for (;;) {
@@ -65,7 +65,7 @@ async function readCapped(reader: ReadableStreamDefaultReader<Uint8Array>, cap: 
 		if (total > cap) return null;
 		chunks.push(value);
 	}
-	if (chunks.length === 1) return chunks[0];
+	if (chunks.length === 1 && chunks[0].buffer instanceof ArrayBuffer) return chunks[0] as Uint8Array<ArrayBuffer>;
 	const out = new Uint8Array(total);
 	let at = 0;
 	for (const c of chunks) {
@@ -135,7 +135,7 @@ export const handleRequestGuards: Handle = async ({ event, resolve }) => {
 
 	// The one read of the body (also without a Content-Length): capped, then checked for control characters.
 	const reader = request.body.getReader();
-	let bytes: Uint8Array | null;
+	let bytes: Uint8Array<ArrayBuffer> | null;
 	try {
 		bytes = await readCapped(reader, cap);
 	} catch {
@@ -184,7 +184,7 @@ const utf8 = new TextDecoder();
  * removed from every text it carries (tab, LF and CR stay in values; keys lose them too); 'unreadable' for
  * a multipart body that cannot be parsed. A JSON body's parsed value is kept beside it for `readJson`.
  */
-export async function checkedRequest(req: Request, bytes: Uint8Array): Promise<Request | 'unreadable'> {
+export async function checkedRequest(req: Request, bytes: Uint8Array<ArrayBuffer>): Promise<Request | 'unreadable'> {
 	const type = (req.headers.get('content-type') ?? '').split(';')[0].trim().toLowerCase();
 	if (type === 'application/json') {
 		let text = utf8.decode(bytes);
