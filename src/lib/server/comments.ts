@@ -8,6 +8,7 @@ import { and, asc, eq, gt, sql } from 'drizzle-orm';
 import { env } from '$env/dynamic/private';
 import * as schema from './db/schema';
 import { db } from './db';
+import { inTx } from './db/tx';
 import { renderMarkdown } from './markdown';
 import { notifyComment } from './notifications';
 import { roleAtLeast } from '$lib/roles';
@@ -153,10 +154,14 @@ export async function postComment(
 	// Read before the write: once the comment is committed nothing may fail the request (a 5xx would free its
 	// Idempotency-Key and a retry would post it twice); the mail below never throws (notifyOnce).
 	const [me] = await db.select({ name: schema.user.name, handle: schema.user.handle }).from(schema.user).where(eq(schema.user.id, actor.id));
-	const [row] = await db
-		.insert(schema.comment)
-		.values({ buildId: build.id, authorId: actor.id, parentId: parent?.id ?? null, bodyMd: data.body, bodyHtml })
-		.returning();
+	// In a transaction of its own: an API request's Idempotency-Key is marked "written" in it (db/tx.ts inTx),
+	// so a retry can never post the comment twice, even when the answer could not be kept.
+	const [row] = await inTx(undefined, (tx) =>
+		tx
+			.insert(schema.comment)
+			.values({ buildId: build.id, authorId: actor.id, parentId: parent?.id ?? null, bodyMd: data.body, bodyHtml })
+			.returning()
+	);
 	await notifyComment({
 		actorId: actor.id,
 		ownerId: build.ownerId,

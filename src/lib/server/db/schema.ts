@@ -471,7 +471,9 @@ export const idempotencyKey = pgTable(
 		status: integer('status'),
 		contentType: text('content_type'),
 		body: text('body'),
-		createdAt: timestamp('created_at', { withTimezone: true }).defaultNow().notNull()
+		createdAt: timestamp('created_at', { withTimezone: true }).defaultNow().notNull(),
+		/** Set inside the transaction of the request's write (db/tx.ts inTx): from then on the request is never repeated. */
+		writtenAt: timestamp('written_at', { withTimezone: true })
 	},
 	(t) => [primaryKey({ columns: [t.scope, t.key] }), index('idempotency_key_created_idx').on(t.createdAt)]
 );

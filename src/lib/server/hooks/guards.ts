@@ -1,12 +1,16 @@
 /**
  * What every request must pass before a route sees it: the cross-site check for form submissions
  * (SvelteKit's own, moved here so the RFC 8058 one-click unsubscribe can be let through), JSON-only
- * API writes (415 otherwise) and request body caps (413).
+ * API writes (415 otherwise), request body caps (413, with or without a Content-Length) and control
+ * characters. A write's body is read ONCE here: capped, cleaned, and handed to the route as a new Request
+ * built from that text (a JSON body's parsed value kept beside it for `readJson`), so no route or hook
+ * reads it through `request.clone()` again.
  */
 import type { Handle } from '@sveltejs/kit';
 import { env } from '$env/dynamic/private';
 import { apiError } from '../http';
 import { cleanJson, cleanedSearch, hasControls, pathHasControls, stripControls, stripLineControls } from '../http/control-chars';
+import { keepCheckedBody, type CheckedBody } from '../http/checked-body';
 
 /** Body cap for JSON API writes (bytes; `API_BODY_MAX_BYTES`, 64 KB). */
 export const apiBodyMax = () => positive(env.API_BODY_MAX_BYTES, 64 * 1024);
@@ -47,23 +51,28 @@ function tooLarge(api: boolean, cap: number): Response {
 	return api ? apiError(413, 'too_large', message) : new Response(message, { status: 413, headers: { 'content-type': 'text/plain; charset=utf-8', connection: 'close' } });
 }
 
-/** Byte length of a body without a Content-Length, read from a copy up to `cap` + 1. */
-async function measured(request: Request, cap: number): Promise<number> {
-	const reader = request.clone().body?.getReader();
-	if (!reader) return 0;
+/**
+ * Read `request`'s body once, stopping after `cap` + 1 bytes: the bytes, or null when it ran past `cap`
+ * (the rest is left in the stream for discardBody). Throws when the client broke off mid-body.
+ */
+async function readCapped(reader: ReadableStreamDefaultReader<Uint8Array>, cap: number): Promise<Uint8Array<ArrayBuffer> | null> {
+	const chunks: Uint8Array[] = [];
 	let total = 0;
-	try {
-		for (;;) {
-			const { done, value } = await reader.read();
-			if (done) break;
-			total += value.byteLength;
-			if (total > cap) break;
-		}
-	} finally {
-		// Cancelling one branch of a tee settles only when the other is cancelled too: don't wait for it.
-		void reader.cancel().catch(() => undefined);
+	for (;;) {
+		const { done, value } = await reader.read();
+		if (done) break;
+		total += value.byteLength;
+		if (total > cap) return null;
+		chunks.push(value);
 	}
-	return total;
+	if (chunks.length === 1 && chunks[0].buffer instanceof ArrayBuffer) return chunks[0] as Uint8Array<ArrayBuffer>;
+	const out = new Uint8Array(total);
+	let at = 0;
+	for (const c of chunks) {
+		out.set(c, at);
+		at += c.byteLength;
+	}
+	return out;
 }
 
 /**
@@ -72,9 +81,8 @@ async function measured(request: Request, cap: number): Promise<number> {
  */
 const DISCARD_MAX = 16 * 1024 * 1024;
 
-/** Read and discard the rest of `request`'s body; false when it ran past `limit` (then the connection closes). */
-async function discardBody(request: Request, limit: number): Promise<boolean> {
-	const reader = request.body?.getReader();
+/** Read and discard the rest of a body; false when it ran past `limit` (then the connection closes). */
+async function discardBody(reader: ReadableStreamDefaultReader<Uint8Array> | undefined, limit: number): Promise<boolean> {
 	if (!reader) return true;
 	let total = 0;
 	try {
@@ -114,48 +122,98 @@ export const handleRequestGuards: Handle = async ({ event, resolve }) => {
 	}
 
 	const cap = bodyCapFor(url.pathname);
-	if (cap !== null && hasBody) {
-		const size = declared !== null ? Number(declared) : await measured(request, cap);
-		if (!Number.isFinite(size) || size > cap) {
-			const response = tooLarge(api, cap);
-			if (size <= DISCARD_MAX && (await discardBody(request, DISCARD_MAX))) response.headers.delete('connection');
-			else response.headers.set('connection', 'close');
-			return response;
-		}
+	// Uploads keep their bytes and their own limit (adapter-node's BODY_SIZE_LIMIT, the photo pipeline).
+	if (cap === null || !request.body) return resolve(event);
+	const refuse = async (reader: ReadableStreamDefaultReader<Uint8Array> | undefined, size: number) => {
+		const response = tooLarge(api, cap);
+		if (size <= DISCARD_MAX && (await discardBody(reader, DISCARD_MAX))) response.headers.delete('connection');
+		else response.headers.set('connection', 'close');
+		return response;
+	};
+	const size = declared !== null ? Number(declared) : 0;
+	if (!Number.isFinite(size) || size > cap) return refuse(request.body.getReader(), size);
+
+	// The one read of the body (also without a Content-Length): capped, then checked for control characters.
+	const reader = request.body.getReader();
+	let bytes: Uint8Array<ArrayBuffer> | null;
+	try {
+		bytes = await readCapped(reader, cap);
+	} catch {
+		return unreadable(url.pathname, 'The request arrived incomplete. Try again.');
 	}
+	if (bytes === null) return refuse(reader, cap);
+	const checked = await checkedRequest(request, bytes);
+	// A form action would fail reading it (a 500): say so here, as upload routes do for theirs.
+	if (checked === 'unreadable') return unreadable(url.pathname, 'The form arrived incomplete or malformed. Try again.');
+	event.request = checked;
 	return resolve(event);
 };
+
+/** A body that could not be read or parsed (cut off, malformed multipart): 400 with a sentence, never a 500. */
+function unreadable(pathname: string, message: string): Response {
+	return pathname.startsWith('/api/')
+		? apiError(400, 'invalid', message)
+		: new Response(message, { status: 400, headers: { 'content-type': 'text/plain; charset=utf-8' } });
+}
 
 // eslint-disable-next-line no-control-regex
 const ESCAPED_CONTROL = /\\u00[01][0-9a-fA-F]|\\u007[fF]/;
 
-function withBody(req: Request, body: BodyInit, keepType: boolean): Request {
-	const headers = new Headers(req.headers);
-	headers.delete('content-length');
-	if (!keepType) headers.delete('content-type');
-	return new Request(req.url, { method: req.method, headers, body, signal: req.signal });
+/**
+ * A Request for the route carrying `body` instead of the stream already read. The headers go on as sent
+ * unless the body changed (then without its Content-Length / Transfer-Encoding, and without the
+ * Content-Type when `keepType` is false: a rebuilt FormData brings its own boundary). The client's abort
+ * signal is not passed on: following it costs a signal per request and no route watches it (the body is
+ * already read in full).
+ */
+function withBody(req: Request, body: BodyInit, changed: boolean, keepType = true): Request {
+	let headers: Headers = req.headers;
+	if (changed || headers.has('transfer-encoding')) {
+		headers = new Headers(headers);
+		headers.delete('content-length');
+		headers.delete('transfer-encoding');
+		if (!keepType) headers.delete('content-type');
+	}
+	return new Request(req.url, { method: req.method, headers, body });
 }
 
+const utf8 = new TextDecoder();
+
 /**
- * The request with control characters removed from every text it carries, or null when it had none;
- * 'unreadable' for a multipart body that cannot be parsed (the handler answers 400 for it).
+ * The request the route receives, built from the body already read (`bytes`), with control characters
+ * removed from every text it carries (tab, LF and CR stay in values; keys lose them too); 'unreadable' for
+ * a multipart body that cannot be parsed. A JSON body's parsed value is kept beside it for `readJson`.
  */
-export async function cleanedRequest(req: Request): Promise<Request | null | 'unreadable'> {
-	if (!req.body) return null;
+export async function checkedRequest(req: Request, bytes: Uint8Array<ArrayBuffer>): Promise<Request | 'unreadable'> {
 	const type = (req.headers.get('content-type') ?? '').split(';')[0].trim().toLowerCase();
 	if (type === 'application/json') {
-		const text = await req.clone().text();
-		if (!hasControls(text) && !ESCAPED_CONTROL.test(text)) return null;
-		let parsed: unknown;
-		try {
-			parsed = JSON.parse(stripControls(text));
-		} catch {
-			return null; // the route answers "not valid JSON"
+		let text = utf8.decode(bytes);
+		let json: CheckedBody['json'];
+		let changed = false;
+		if (!hasControls(text) && !ESCAPED_CONTROL.test(text)) {
+			try {
+				json = { value: JSON.parse(text) };
+			} catch {
+				/* the route answers "not valid JSON" */
+			}
+		} else {
+			try {
+				const value = cleanJson(JSON.parse(stripControls(text)));
+				text = JSON.stringify(value);
+				json = { value };
+				changed = true;
+			} catch {
+				/* the route answers "not valid JSON" */
+			}
 		}
-		return withBody(req, JSON.stringify(cleanJson(parsed)), true);
+		// Unchanged, the bytes go on as sent (their Content-Length still holds).
+		const out = changed ? withBody(req, text, true) : withBody(req, bytes, false);
+		keepCheckedBody(out, { text, json });
+		return out;
 	}
 	if (type === 'application/x-www-form-urlencoded') {
-		const params = new URLSearchParams(await req.clone().text());
+		const text = utf8.decode(bytes);
+		const params = new URLSearchParams(text);
 		let dirty = false;
 		const out = new URLSearchParams();
 		for (const [k, v] of params) {
@@ -164,12 +222,15 @@ export async function cleanedRequest(req: Request): Promise<Request | null | 'un
 			if (ck !== k || cv !== v) dirty = true;
 			out.append(ck, cv);
 		}
-		return dirty ? withBody(req, out.toString(), true) : null;
+		const cleaned = dirty ? out.toString() : text;
+		const request = dirty ? withBody(req, cleaned, true) : withBody(req, bytes, false);
+		keepCheckedBody(request, { text: cleaned });
+		return request;
 	}
 	if (type === 'multipart/form-data') {
 		let form: FormData;
 		try {
-			form = await req.clone().formData();
+			form = await new Response(bytes, { headers: { 'content-type': req.headers.get('content-type') ?? '' } }).formData();
 		} catch {
 			return 'unreadable'; // cut off or malformed (e.g. a raw line break inside a file name)
 		}
@@ -186,15 +247,21 @@ export async function cleanedRequest(req: Request): Promise<Request | null | 'un
 				out.append(ck, v, v.name);
 			}
 		}
-		return dirty ? withBody(req, out, false) : null;
+		// A clean form goes on byte for byte (its boundary and parts as sent).
+		const request = dirty ? withBody(req, out, true, false) : withBody(req, bytes, false);
+		keepCheckedBody(request, { text: null });
+		return request;
 	}
-	return null;
+	// Other types (text/plain to a page, say) go on unchanged.
+	const request = withBody(req, bytes, false);
+	keepCheckedBody(request, { text: null });
+	return request;
 }
 
 /**
- * Control characters never reach a route: a path holding one names no page (404), query strings and
- * form or JSON bodies lose them (tab, LF and CR stay in bodies). Uploads keep their bytes; their text
- * fields are checked where they are read.
+ * Control characters never reach a route: a path holding one names no page (404) and query strings lose
+ * them. Bodies are read and cleaned once, by handleRequestGuards (tab, LF and CR stay in body values);
+ * uploads keep their bytes and their text fields are checked where they are read.
  */
 export const handleControlCharacters: Handle = async ({ event, resolve }) => {
 	const { url } = event;
@@ -205,16 +272,5 @@ export const handleControlCharacters: Handle = async ({ event, resolve }) => {
 	}
 	const search = cleanedSearch(url);
 	if (search !== null) url.search = search;
-	if (WRITE.has(event.request.method) && !isUploadRoute(url.pathname)) {
-		const cleaned = await cleanedRequest(event.request);
-		// A form action would fail reading it (a 500): say so here, as upload routes do for theirs.
-		if (cleaned === 'unreadable') {
-			const message = 'The form arrived incomplete or malformed. Try again.';
-			return url.pathname.startsWith('/api/')
-				? apiError(400, 'invalid', message)
-				: new Response(message, { status: 400, headers: { 'content-type': 'text/plain; charset=utf-8' } });
-		}
-		if (cleaned) event.request = cleaned;
-	}
 	return resolve(event);
 };

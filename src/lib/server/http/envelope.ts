@@ -1,5 +1,6 @@
 import { json } from '@sveltejs/kit';
 import type { ZodError } from 'zod';
+import { checkedBodyOf } from './checked-body';
 
 /** Stable error codes of the JSON envelope (API.md). */
 export type ApiErrorCode =
@@ -76,8 +77,13 @@ export function zodErrorResponse(err: ZodError, prefix: readonly PropertyKey[] =
 	return apiError(status, 'invalid', message, issues);
 }
 
-/** Read a JSON body; undefined when the body is not JSON (caller answers 400). */
+/**
+ * Read a JSON body (400 `invalid` when it is not JSON). Takes the value the request guards already parsed
+ * and cleaned (http/checked-body.ts) instead of reading the body again.
+ */
 export async function readJson(request: Request): Promise<{ ok: true; body: unknown } | { ok: false; response: Response }> {
+	const checked = checkedBodyOf(request)?.json;
+	if (checked) return { ok: true, body: checked.value };
 	try {
 		return { ok: true, body: await request.json() };
 	} catch {

@@ -1,0 +1,1 @@
+ALTER TABLE "idempotency_key" ADD COLUMN "written_at" timestamp with time zone;
