@@ -139,7 +139,10 @@ export async function startPostgres({ root, port, database, password = 'stargrou
 				`Port ${port} on 127.0.0.1 is taken by another program. Set a free port (see README) — refusing to talk to a server we did not start.`
 			);
 		}
-		const opts = `-c listen_addresses=127.0.0.1 -p ${port} -k ${sockDir}` + (fast ? ' -c fsync=off -c synchronous_commit=off -c full_page_writes=off' : '');
+		// jit=off: a search plan whose estimated cost crosses jit_above_cost was compiled by LLVM on every
+		// run (hundreds of milliseconds for a query that takes a few); no query of the app gains from JIT.
+		const opts =
+			`-c listen_addresses=127.0.0.1 -p ${port} -k ${sockDir} -c jit=off` + (fast ? ' -c fsync=off -c synchronous_commit=off -c full_page_writes=off' : '');
 		const r = asPostgres(path.join(bin, 'pg_ctl'), ['-D', dataDir, '-l', logFile, '-w', '-t', '30', 'start', '-o', opts]);
 		// A server that came up although pg_ctl gave up waiting is ours to stop as well.
 		startedHere = fs.existsSync(pidFile);

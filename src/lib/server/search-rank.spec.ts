@@ -1,6 +1,7 @@
-// Ranked search inside the RUM index (migration 0009): results come most relevant first — title (weight
-// A) before summary (B) before steps and parts (C), as PostgreSQL's own ts_rank orders them — page by page
-// with the keyset cursor, highlighted, and the order is served by the index (no sort of every match).
+// Ranked search (migration 0016: the title-and-summary vector ranked through its RUM index): results come
+// most relevant first — title (weight A) before summary (B) before steps and parts (C), as PostgreSQL's
+// own ts_rank orders them — page by page with the keyset cursor, highlighted, and the order can be served
+// by the index on the small vector (no sort of every match).
 import { afterAll, describe, expect, it } from 'vitest';
 import { sql } from 'drizzle-orm';
 import { db } from './db';
@@ -40,17 +41,17 @@ describe('ranked search', () => {
 		expect(pages).toEqual(oracle.map((r) => r.slug));
 	});
 
-	it('the relevance order comes from the RUM index, with no sort step over the matches', async () => {
+	it('the title-and-summary order can come from its RUM index, with no sort step over the matches', async () => {
 		const plan = await db.transaction(async (tx) => {
 			await tx.execute(sql`set local enable_sort = off`);
 			await tx.execute(sql`set local enable_seqscan = off`);
 			return tx.execute<{ 'QUERY PLAN': string }>(
-				sql`explain select id from build where status = 'published' and search @@ websearch_to_tsquery('english', 'toroid')
-				    order by search <=> websearch_to_tsquery('english', 'toroid') limit 20`
+				sql`explain select id from build where status = 'published' and search_head @@ websearch_to_tsquery('english', 'toroid')
+				    order by search_head <=> websearch_to_tsquery('english', 'toroid') limit 20`
 			);
 		});
 		const text = plan.map((r) => r['QUERY PLAN']).join('\n');
-		expect(text).toContain('build_search_rum_idx');
+		expect(text).toContain('build_search_head_rum_idx');
 		expect(text).not.toMatch(/\bSort\b/);
 	});
 });

@@ -1,9 +1,10 @@
 /**
- * Full-text search over builds (PRODUCT.md §4.8), all of it: `build.search` is a generated tsvector (title A,
- * summary B, the search text C) with a GIN index; this module keeps the search text current
- * (refreshSearchText, after every content change), builds the tsquery and rank the list query
- * (builds/list.ts, sort `relevance`) filters and orders by, and adds the highlighted snippets and the
- * search-as-you-type title suggestions.
+ * Full-text search over builds (PRODUCT.md §4.8), all of it: `build.search` is the tsvector matched
+ * (title A, summary B, the search text C; kept by a trigger, migration 0016) with a GIN index, and
+ * `build.search_head` the small one ranked (title A, summary B; generated) with a RUM index. This module
+ * keeps the search text current (refreshSearchText, after every content change), builds the tsquery and
+ * the distance the list query (builds/list.ts relevancePage) filters and orders by, and adds the
+ * highlighted snippets and the search-as-you-type title suggestions.
  */
 import { and, asc, desc, eq, inArray, sql, type SQL } from 'drizzle-orm';
 import { db, type Tx } from './db';
@@ -16,7 +17,7 @@ const SEARCH_TEXT_MAX = 200_000;
 
 /**
  * Rebuild `build.search_text` (step titles and text, spec-block titles, parts-list values and notes) in
- * the caller's transaction. The generated `search` tsvector follows it. Call after every save that
+ * the caller's transaction. The `search` tsvector follows it (its trigger, migration 0016). Call after every save that
  * touches steps or parts; the parts editor calls it too.
  */
 export async function refreshSearchText(tx: Tx, buildId: string): Promise<void> {
@@ -70,13 +71,14 @@ export function searchRank(tsquery: SQL): SQL<number> {
 }
 
 /**
- * Relevance as the RUM index orders it (migration 0009, `build_search_rum_idx`): `search <=> tsquery` is
- * rum's distance, the inverse of its rank (weights A title > B summary > C steps and parts), smaller is
- * more relevant. `ORDER BY` this, ascending, with a LIMIT reads only the best matches from the index
- * instead of ranking every match.
+ * Relevance as the RUM index on the title-and-summary vector orders it (migration 0016,
+ * `build_search_head_rum_idx`): `search_head <=> tsquery` is rum's distance, the inverse of its rank
+ * (weight A title > B summary), smaller is more relevant. Only the small vector is ranked, so the cost
+ * does not grow with the length of step text; builds that match only in their steps and parts come
+ * after, newest first (builds/list.ts relevancePage).
  */
 export function searchDistance(tsquery: SQL): SQL<number> {
-	return sql<number>`(${schema.build.search} <=> ${tsquery})`;
+	return sql<number>`(${schema.build.searchHead} <=> ${tsquery})`;
 }
 
 /** Private-use characters that mark a hit inside ts_headline output; they never reach a page. */
@@ -162,7 +164,7 @@ export async function suggestTitles(q: string, limit = 8): Promise<Suggestion[]>
 	return db
 		.select({ slug: schema.build.slug, title: schema.build.title })
 		.from(schema.build)
-		.where(and(eq(schema.build.status, 'published'), sql`${schema.build.search} @@ ${query}`))
-		.orderBy(sql`ts_rank_cd(${schema.build.search}, ${query}) desc`, desc(schema.build.publishedAt))
+		.where(and(eq(schema.build.status, 'published'), sql`${schema.build.searchHead} @@ ${query}`))
+		.orderBy(sql`ts_rank_cd(${schema.build.searchHead}, ${query}) desc`, desc(schema.build.publishedAt))
 		.limit(Math.min(Math.max(limit, 1), 20));
 }

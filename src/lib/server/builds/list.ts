@@ -37,7 +37,8 @@ const KEY_SHAPES: Record<ListSort, ((v: string) => boolean)[]> = {
 	recent: [isTs],
 	'most-derived': [(v) => /^\d{1,9}$/.test(v), isTs],
 	'recently-reviewed': [(v) => v === '-infinity' || isTs(v), isTs],
-	relevance: [(v) => /^-?\d+(\.\d+)?(e[-+]?\d+)?$/i.test(v) && v.length <= 32, isTs]
+	// Tier (0: title or summary matched, 1: only the steps and parts), the negated title-and-summary distance, published.
+	relevance: [(v) => v === '0' || v === '1', (v) => /^-?(\d+(\.\d+)?(e[-+]?\d+)?|Infinity)$/i.test(v) && v.length <= 32, isTs]
 };
 
 /** Opaque cursor text: base64url of a small JSON object. */
@@ -144,35 +145,35 @@ export function selectBuildList(dbx: DbLike = db) {
 
 export type BuildListRow = Awaited<ReturnType<ReturnType<typeof selectBuildList>['execute']>>[number];
 
-/** Sort keys of one order, descending, before the id tie-breaker; `casts` turn cursor text back into values. */
-function sortSpec(sort: ListSort, search?: SQL): { keys: SQL[]; text: SQL[]; casts: string[]; order?: SQL[] } {
+/**
+ * Sort keys of one order, descending, before the id tie-breaker; `casts` turn cursor text back into values;
+ * `order` is the ORDER BY, written to match its index column for column, NULLS placement included
+ * (PostgreSQL uses an index for an order only when that matches too): "recent" reads
+ * build_status_published_idx backwards (DESC NULLS FIRST), the other two their own DESC NULLS LAST
+ * indexes (schema.ts). No key is ever NULL for a published build, so the placement changes no result.
+ */
+function sortSpec(sort: Exclude<ListSort, 'relevance'>): { keys: SQL[]; text: SQL[]; casts: string[]; order: SQL[] } {
 	const b = schema.build;
 	const published = sql`${b.publishedAt}`;
 	switch (sort) {
 		case 'most-derived':
-			return { keys: [sql`${b.derivedCount}`, published], text: [sql`${b.derivedCount}::text`, microTs(published)], casts: ['int', 'timestamp'] };
+			return {
+				keys: [sql`${b.derivedCount}`, published],
+				text: [sql`${b.derivedCount}::text`, microTs(published)],
+				casts: ['int', 'timestamp'],
+				order: [sql`${b.derivedCount} desc nulls last`, sql`${published} desc nulls last`, sql`${b.id} desc nulls last`]
+			};
 		case 'recently-reviewed': {
 			const reviewed = sql`coalesce(${b.lastReviewedAt}, '-infinity'::timestamp)`;
 			return {
 				keys: [reviewed, published],
 				text: [sql`case when ${b.lastReviewedAt} is null then '-infinity' else ${microTs(sql`${b.lastReviewedAt}`)} end`, microTs(published)],
-				casts: ['timestamp', 'timestamp']
-			};
-		}
-		case 'relevance': {
-			if (!search) throw new RangeError('The relevance order needs a search text.');
-			// Ranked inside the RUM index (../search searchDistance): ordered by distance ascending, which is
-			// its negation descending, so the keyset comparison stays all-descending like the other orders.
-			const distance = searchDistance(search);
-			return {
-				keys: [sql`(-${distance})`, published],
-				text: [sql`(-${distance})::text`, microTs(published)],
-				casts: ['real', 'timestamp'],
-				order: [sql`${distance}`, sql`${published} desc`]
+				casts: ['timestamp', 'timestamp'],
+				order: [sql`${reviewed} desc`, sql`${published} desc nulls last`, sql`${b.id} desc nulls last`]
 			};
 		}
 		default:
-			return { keys: [published], text: [microTs(published)], casts: ['timestamp'] };
+			return { keys: [published], text: [microTs(published)], casts: ['timestamp'], order: [sql`${published} desc`, sql`${b.id} desc`] };
 	}
 }
 
@@ -186,11 +187,11 @@ export async function listPublishedBuilds(opts: ListOptions = {}, dbx: DbLike = 
 	const limit = Math.min(Math.max(opts.limit ?? LIST_LIMIT_DEFAULT, 1), LIST_LIMIT_MAX);
 	const sort = opts.sort ?? 'recent';
 	const filters = opts.filters ?? {};
-	if (sort === 'relevance' && filters.q && onlySearch(filters)) {
-		const page = await relevanceFromCandidates(filters.q, limit, opts.cursor ?? null, dbx);
-		if (page) return page;
+	if (sort === 'relevance') {
+		if (!filters.q) throw new RangeError('The relevance order needs a search text.');
+		return relevancePage(filters.q, filters, limit, opts.cursor ?? null, dbx);
 	}
-	const spec = sortSpec(sort, filters.q ? searchQuery(filters.q) : undefined);
+	const spec = sortSpec(sort);
 	const conds: SQL[] = [eq(schema.build.status, 'published'), ...filterConditions(filters)];
 	if (opts.cursor) {
 		if (opts.cursor.sort !== sort || opts.cursor.keys.length !== spec.keys.length) {
@@ -206,7 +207,7 @@ export async function listPublishedBuilds(opts: ListOptions = {}, dbx: DbLike = 
 		.leftJoin(cover, eq(cover.id, schema.build.coverPhotoId))
 		.leftJoin(origin, eq(origin.id, schema.build.derivedFromId))
 		.where(and(...conds))
-		.orderBy(...(spec.order ?? spec.keys.map((k) => sql`${k} desc`)), desc(schema.build.id))
+		.orderBy(...spec.order)
 		.limit(limit + 1);
 	const more = rows.length > limit;
 	const page = more ? rows.slice(0, limit) : rows;
@@ -215,55 +216,118 @@ export async function listPublishedBuilds(opts: ListOptions = {}, dbx: DbLike = 
 	return { rows: page, next };
 }
 
-/** True when a list is narrowed by the search text alone (the bounded relevance path's case). */
-function onlySearch(f: ListFilters): boolean {
-	const figures = f.figures && Object.values(f.figures).some((v) => v !== undefined);
-	const part = f.part && Object.values(f.part).some((v) => v !== undefined && v !== '');
-	return !f.category && !f.topology && !f.review && f.mains === undefined && !f.maker && !f.ownerId && !f.derivedOnly && !f.progress && !figures && !part;
+/**
+ * Title-and-summary matches read from RUM's ordered scan before the exact order is taken among them:
+ * enough that the page is usually decided inside them; when equal distances run past them, the run is
+ * read by recency (relevancePage).
+ */
+export const RELEVANCE_CANDIDATES = 1000;
+
+/** The total order of tier 0: nearer first, then newer, then the larger id (uuid order is its hex text's). */
+function byRelevance(x: { d: number; k1: string; id: string }, y: { d: number; k1: string; id: string }): number {
+	return x.d - y.d || (x.k1 < y.k1 ? 1 : x.k1 > y.k1 ? -1 : 0) || (x.id < y.id ? 1 : x.id > y.id ? -1 : 0);
 }
 
 /**
- * Matches the relevance order reads from the RUM index's own ordered scan (`ORDER BY search <=> q
- * LIMIT n`) before ordering them completely: the index hands them over best first, so the page is
- * decided among these few instead of sorting every match with its distance computed from the table.
+ * One page of the relevance order (sort `relevance`, with a search text), in two tiers:
+ *
+ * 1. builds whose title and summary match the query by themselves, ranked by their title-and-summary
+ *    vector (search.ts searchDistance: title A before summary B; RUM index build_search_head_rum_idx),
+ *    then newest, then id;
+ * 2. builds that match only through their steps, spec blocks and parts list, newest first, then id
+ *    (read backwards along build_status_published_idx, stopping at the page's end).
+ *
+ * Neither tier ranks the long step text, so the work per page does not grow with the number of
+ * matches (RUM scored every match's whole vector before). The trade-off: among builds that mention the
+ * words only in their steps, how often and how close they appear no longer orders them — the newest
+ * comes first. Every match is in exactly one tier; the keyset cursor (tier, distance, published, id)
+ * keeps pages exact and stable while builds are published (a new build sorts where it belongs, before
+ * or after the cursor, and never shifts the rows after it).
  */
-export const RELEVANCE_CANDIDATES = 200;
-
-/**
- * One page of the relevance order (distance ascending, then newest, then id — the same total order as
- * the general query) from a bounded candidate set: the first `RELEVANCE_CANDIDATES` published matches
- * after the cursor in RUM's ordered scan. Every match nearer than the last candidate is among them, so
- * the page is exact when its last row is strictly nearer than that candidate (or all matches were
- * read); otherwise (a run of equal distances crosses the edge) → null, and the general query answers.
- */
-export async function relevanceFromCandidates(q: string, limit: number, cursor: ListCursor | null, dbx: DbLike) {
+export async function relevancePage(
+	q: string,
+	filters: ListFilters,
+	limit: number,
+	cursor: ListCursor | null,
+	dbx: DbLike = db,
+	/** How many title-and-summary matches to read from the index at most (tests use a small number). */
+	candidateCount = RELEVANCE_CANDIDATES
+) {
 	const b = schema.build;
 	const tsq = searchQuery(q);
 	const distance = searchDistance(tsq);
-	const take = Math.max(RELEVANCE_CANDIDATES, 4 * (limit + 1));
-	const after = cursor
-		? sql`and ((-${distance}), ${b.publishedAt}, ${b.id}) < (${cursor.keys[0]}::real, ${cursor.keys[1]}::timestamp, ${cursor.id}::uuid)`
-		: sql``;
-	const found = await dbx.execute<{ id: string; d: number; k0: string; k1: string }>(sql`
-		select ${b.id} as id, (${distance})::float8 as d, (-${distance})::text as k0, ${microTs(b.publishedAt)} as k1
-		from ${b}
-		where ${b.status} = 'published' and ${b.search} @@ ${tsq} ${after}
-		order by ${distance}
-		limit ${take}`);
-	const rows = [...found];
-	const edge = rows.length === take ? rows[rows.length - 1].d : Infinity;
-	// The total order among the candidates: nearer first, then newer, then the larger id (uuid order is its hex text's).
-	rows.sort((x, y) => x.d - y.d || (x.k1 < y.k1 ? 1 : x.k1 > y.k1 ? -1 : 0) || (x.id < y.id ? 1 : x.id > y.id ? -1 : 0));
-	const chosen = rows.slice(0, limit + 1);
-	if (chosen.length && chosen[chosen.length - 1].d >= edge) return null;
-	const full = chosen.length ? await selectBuildList(dbx).where(inArray(b.id, chosen.map((r) => r.id))) : [];
-	const byId = new Map(full.map((r) => [r.id, r]));
-	const ordered = chosen.flatMap((c) => {
-		const r = byId.get(c.id);
-		return r ? [{ ...r, sortKeys: [c.k0, c.k1] }] : [];
-	});
-	const more = ordered.length > limit;
-	const page = more ? ordered.slice(0, limit) : ordered;
+	const headHit = sql`${b.searchHead} @@ ${tsq}`;
+	// A title-and-summary hit is a hit of the full vector too, unless the query excludes words (`-word`,
+	// printed as `!`): only then is the full vector (TOASTed, long) read for tier-0 rows.
+	const fullHitGivenHead = sql`(strpos((${tsq})::text, '!') = 0 or ${b.search} @@ ${tsq})`;
+	const others = filterConditions({ ...filters, q: undefined });
+	if (cursor && (cursor.sort !== 'relevance' || cursor.keys.length !== 3)) {
+		throw new RangeError('This cursor belongs to another order; start again from the first page.');
+	}
+	const inTail = cursor?.keys[0] === '1';
+	const select = (tier: 0 | 1) =>
+		dbx
+			.select({
+				...listColumns,
+				sortKeys: tier === 0 ? sql<string[]>`array['0', (-${distance})::text, ${microTs(b.publishedAt)}]::text[]` : sql<string[]>`array['1', '0', ${microTs(b.publishedAt)}]::text[]`
+			})
+			.from(b)
+			.innerJoin(maker, eq(maker.id, b.ownerId))
+			.leftJoin(cover, eq(cover.id, b.coverPhotoId))
+			.leftJoin(origin, eq(origin.id, b.derivedFromId));
+	let rows: Awaited<ReturnType<ReturnType<typeof select>['execute']>> = [];
+	if (!inTail) {
+		const after = cursor
+			? [sql`((-${distance}), ${b.publishedAt}, ${b.id}) < (${cursor.keys[1]}::real, ${cursor.keys[2]}::timestamp, ${cursor.id}::uuid)`]
+			: [];
+		// The page's ids are chosen on the build table alone, then joined. Candidates come from RUM's
+		// ordered scan (`ORDER BY search_head <=> q LIMIT k`: distances computed inside the index, no
+		// heap read for the matches past the k-th), then the exact order is taken among them.
+		const keyed = () => {
+			const q0 = dbx
+				.select({ id: b.id, d: sql<number>`(${distance})::float8`, k0: sql<string>`(-${distance})::text`, k1: sql<string>`${microTs(b.publishedAt)}` })
+				.from(b)
+				.$dynamic();
+			return filters.maker ? q0.innerJoin(maker, eq(maker.id, b.ownerId)) : q0;
+		};
+		const base = [eq(b.status, 'published'), fullHitGivenHead, ...others, ...after];
+		const take = Math.max(candidateCount, limit + 1);
+		const candidates = await keyed()
+			.where(and(headHit, ...base))
+			.orderBy(distance)
+			.limit(take);
+		candidates.sort(byRelevance);
+		let chosen = candidates.slice(0, limit + 1);
+		const edge = candidates.length === take ? candidates[take - 1].d : Infinity;
+		if (chosen.length && chosen[chosen.length - 1].d >= edge) {
+			// A run of equal distances goes on past the candidates (a word once in thousands of titles ranks
+			// them all alike): the rest of the page is that run's newest, read backwards along the recency
+			// index. ts_match_vq is `@@` written as a function, so the planner cannot swap in a bitmap scan
+			// of every title hit.
+			const nearer = chosen.filter((c) => c.d < edge);
+			const run = await keyed()
+				.where(and(sql`ts_match_vq(${b.searchHead}, ${tsq})`, sql`${distance} = ${edge}::float8`, ...base))
+				.orderBy(desc(b.publishedAt), desc(b.id))
+				.limit(limit + 1 - nearer.length);
+			chosen = [...nearer, ...run];
+		}
+		const full = chosen.length ? await select(0).where(inArray(b.id, chosen.map((c) => c.id))) : [];
+		const byId = new Map(full.map((r) => [r.id, r]));
+		rows = chosen.flatMap((c) => {
+			const r = byId.get(c.id);
+			return r ? [{ ...r, sortKeys: ['0', c.k0, c.k1] }] : [];
+		});
+	}
+	if (rows.length <= limit) {
+		const after = inTail && cursor ? [sql`(${b.publishedAt}, ${b.id}) < (${cursor.keys[2]}::timestamp, ${cursor.id}::uuid)`] : [];
+		const tail = await select(1)
+			.where(and(eq(b.status, 'published'), sql`not (${headHit})`, sql`${b.search} @@ ${tsq}`, ...others, ...after))
+			.orderBy(desc(b.publishedAt), desc(b.id))
+			.limit(limit + 1 - rows.length);
+		rows = [...rows, ...tail];
+	}
+	const more = rows.length > limit;
+	const page = more ? rows.slice(0, limit) : rows;
 	const last = page[page.length - 1];
 	const next: ListCursor | null = more && last ? { sort: 'relevance', keys: last.sortKeys, id: last.id } : null;
 	return { rows: page, next };

@@ -54,10 +54,24 @@ export const build = pgTable(
 		derivedCount: integer('derived_count').default(0).notNull(),
 		/** Step text and parts values, kept up to date by the app for full-text search. */
 		searchText: text('search_text').default('').notNull(),
-		search: tsvector('search').generatedAlwaysAs(
-			(): SQL =>
-				sql`setweight(to_tsvector('english', coalesce(${build.title}, '')), 'A') || setweight(to_tsvector('english', coalesce(${build.summary}, '')), 'B') || setweight(to_tsvector('english', coalesce(${build.searchText}, '')), 'C')`
-		),
+		/**
+		 * What full-text search matches: title (weight A), summary (B) and the search text (C). Kept by a
+		 * database trigger (migration 0016, starground_build_search_vector) that recomputes it only when
+		 * title, summary or search text change — a write that touches the row for other reasons (the reader
+		 * version, review times, counts) does not re-parse up to 200,000 characters.
+		 */
+		search: tsvector('search'),
+		/**
+		 * What the relevance order ranks by: title (A) and summary (B) only — small, so ranking it is cheap
+		 * (search.ts searchDistance, builds/list.ts relevancePage). Recomputed on every write, which costs
+		 * little at this size.
+		 */
+		searchHead: tsvector('search_head')
+			.notNull()
+			.generatedAlwaysAs(
+				(): SQL =>
+					sql`setweight(to_tsvector('english', coalesce(${build.title}, '')), 'A') || setweight(to_tsvector('english', coalesce(${build.summary}, '')), 'B')`
+			),
 		publishedAt: timestamp('published_at'),
 		createdAt: timestamp('created_at').defaultNow().notNull(),
 		updatedAt: timestamp('updated_at').defaultNow().notNull(),
@@ -75,8 +89,9 @@ export const build = pgTable(
 		index('build_status_published_idx').on(t.status, t.publishedAt, t.id),
 		index('build_derived_from_idx').on(t.derivedFromId),
 		index('build_search_idx').using('gin', t.search),
-		// Relevance order inside the index (RUM extension, Debian postgresql-15-rum): see search.ts searchDistance.
-		index('build_search_rum_idx').using('rum', t.search.op('rum_tsvector_ops')),
+		// Relevance order inside the index (RUM extension, Debian postgresql-15-rum), over the small title and
+		// summary vector: see search.ts searchDistance.
+		index('build_search_head_rum_idx').using('rum', t.searchHead.op('rum_tsvector_ops')),
 		// Keyset pagination of the "most derived" and "recently reviewed" orders (builds/list.ts sortSpec).
 		index('build_published_derived_idx')
 			.on(t.derivedCount.desc(), t.publishedAt.desc(), t.id.desc())
