@@ -254,3 +254,43 @@ test.describe('without JavaScript', () => {
 		await expect(page.getByLabel('Joined in', { exact: true })).toHaveValue('series');
 	});
 });
+
+test('reached from a page with the framework, a tool loads from the server and stays live', async ({ page }) => {
+	await page.goto('/builds');
+	await markPage(page);
+	await page.getByRole('banner').getByRole('link', { name: 'Bench tools' }).first().click();
+	await expect(page).toHaveURL(/\/tools$/);
+	// A full load (the mark is gone): the tools page carries no framework to navigate with.
+	await expect(async () => {
+		expect(await page.evaluate(() => (window as unknown as { __toolMark?: number }).__toolMark)).toBeUndefined();
+	}).toPass({ timeout: 15_000 });
+	await page.getByRole('link', { name: /Amplifier power and dissipation/ }).click();
+	await expect(page).toHaveURL(/\/tools\/amplifier$/);
+	await markPage(page);
+	await typeLive(page, 'Load', '4', async () => {
+		await expectShown(page.getByTestId('maxPowerW'), (35 - 3) ** 2 / (2 * 4));
+	});
+	await expectSamePage(page);
+	await page.goBack();
+	await expect(page).toHaveURL(/\/tools$/);
+	await page.goBack();
+	await expect(page).toHaveURL(/\/builds$/);
+});
+
+test('when the server cannot be reached, the results stay and say they are for earlier inputs', async ({ page }) => {
+	await page.goto('/tools/gain');
+	await markPage(page);
+	const offline = page.getByText(/Could not reach Starground/);
+	await expect(offline).toBeHidden();
+	// Cut the tool's own requests (the live updates), as a dropped connection would.
+	await page.route((url) => url.pathname === '/tools/gain', (route) => route.abort('internetdisconnected'));
+	await page.getByLabel('Rf (output to inverting input)', { exact: true }).fill('47k');
+	await expect(offline).toBeVisible();
+	// 1 + 22k / 1k: still the earlier inputs' gain.
+	await expectShown(page.getByTestId('gain'), 1 + 22_000 / 1_000, 4);
+	await page.unrouteAll();
+	await page.getByLabel('Ri (inverting input to ground)', { exact: true }).fill('2k2');
+	await expectShown(page.getByTestId('gain'), 1 + 47_000 / 2_200, 4);
+	await expect(offline).toBeHidden();
+	await expectSamePage(page);
+});

@@ -45,9 +45,15 @@
 			res = await fetch(location.pathname + (qs ? '?' + qs : ''), { headers: { accept: 'text/html' }, credentials: 'same-origin' });
 			html = await res.text();
 		} catch {
-			return; // offline or the server away: what is shown stays
+			res = null; // offline or the server away
 		}
-		if (id <= shown || !res.ok) return; // an answer overtaken by a later one, or an error page
+		if (id <= shown) return; // an answer overtaken by a later one
+		if (!res || !res.ok || html === undefined) {
+			// What is shown stays, marked as being for earlier inputs (the next good answer replaces the mark).
+			const note = root.querySelector('[data-live-offline]');
+			if (note instanceof HTMLElement) note.hidden = false;
+			return;
+		}
 		const next = new DOMParser().parseFromString(html, 'text/html').querySelector('[data-live-root]');
 		if (!next) return;
 		shown = id;

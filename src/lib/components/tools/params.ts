@@ -28,9 +28,4 @@ export class ToolParams {
 		const v = this.#params.getAll(name);
 		return v.length ? v : [...fallback];
 	}
-
-	/** True when the address carries any field at all (the maker has submitted the form once). */
-	get submitted(): boolean {
-		return this.#params.size > 0;
-	}
 }
