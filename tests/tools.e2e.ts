@@ -294,3 +294,18 @@ test('when the server cannot be reached, the results stay and say they are for e
 	await expect(offline).toBeHidden();
 	await expectSamePage(page);
 });
+
+test('a tool page loads one script, versioned by its address and kept a year', async ({ request }) => {
+	const html = await (await request.get('/tools/supply')).text();
+	const srcs = [...html.matchAll(/<script[^>]*\ssrc="([^"]+)"/g)].map((m) => m[1]);
+	expect(srcs).toHaveLength(1);
+	expect(srcs[0]).toMatch(/^\/tools\/live\.js\?v=[0-9a-f]{16}$/);
+	expect(html).not.toMatch(/_app\/immutable\/[^"]*\.js/); // no framework: no modulepreload either
+	const script = await request.get(srcs[0]);
+	expect(script.status()).toBe(200);
+	expect(script.headers()['content-type']).toContain('text/javascript');
+	expect(script.headers()['cache-control']).toContain('immutable');
+	expect(await script.text()).toContain('data-live-root');
+	// Any other version's address answers the current text, revalidated each time.
+	expect((await request.get('/tools/live.js?v=0000000000000000')).headers()['cache-control']).toBe('public, no-cache');
+});
