@@ -15,7 +15,9 @@ function leadingNumber(text: string): number {
 async function expectShown(result: Locator, expected: number, digits = 3) {
 	await expect
 		.poll(async () => {
-			const shown = leadingNumber((await result.textContent()) ?? '');
+			const text = (await result.textContent()) ?? '';
+			if (!/\d/.test(text)) return false; // "—" while a field is empty or the result is on its way
+			const shown = leadingNumber(text);
 			return Math.abs(shown - expected) <= Math.abs(expected) * 0.5 * 10 ** (1 - digits);
 		}, { message: `expected about ${expected}` })
 		.toBe(true);
@@ -157,4 +159,153 @@ test('supply tool shows the mains caution and ripple follows the reservoir', asy
 	// Under load: the winding carries 1.8 × the DC load current (transformer makers' capacitor-input table).
 	await expectShown(page.getByTestId('secondaryRmsA'), 1.8 * amps);
 	await expect(page.getByRole('img', { name: /Rail against output power/ })).toBeVisible();
+});
+
+test('the address follows the inputs, and parts come and go without a reload', async ({ page }) => {
+	await page.goto('/tools/amplifier');
+	await markPage(page);
+	await typeLive(page, 'Rail voltage (each side, ±)', '28', async () => {
+		await expectShown(page.getByTestId('maxPowerW'), (28 - 3) ** 2 / (2 * 8));
+	});
+	// The address now holds the inputs: opened elsewhere it shows the same result.
+	await expect(page).toHaveURL(/[?&]railV=28(&|$)/);
+	await expectSamePage(page);
+
+	// A select that brings a field: the heatsink's own case-to-sink figure.
+	await page.goto('/tools/heatsink');
+	await markPage(page);
+	await expect(page.getByLabel('Rth case–sink', { exact: true })).toHaveCount(0);
+	await expect(async () => {
+		await page.getByLabel('Mounting and insulator (Rth case–sink)').selectOption('custom');
+		await expect(page.getByLabel('Rth case–sink', { exact: true })).toBeVisible({ timeout: 2000 });
+	}).toPass({ timeout: 15_000 });
+	await expectSamePage(page);
+
+	// Series/parallel: add a part, type into it, remove the first one.
+	await page.goto('/tools/network');
+	await markPage(page);
+	await expect(async () => {
+		await page.getByRole('button', { name: 'Add a part' }).click();
+		await expect(page.getByLabel('Part 3', { exact: true })).toBeVisible({ timeout: 2000 });
+	}).toPass({ timeout: 15_000 });
+	await expect(page.getByLabel('Part 3', { exact: true })).toBeFocused();
+	await page.getByLabel('Part 3', { exact: true }).fill('10k');
+	// 4k7 ∥ 4k7 ∥ 10k.
+	await expectShown(page.getByTestId('networkValue'), 1 / (2 / 4_700 + 1 / 10_000) / 1000);
+	await page.getByRole('button', { name: 'Remove part 1' }).click();
+	await expect(page.getByLabel('Part 3', { exact: true })).toHaveCount(0);
+	await expect(page.getByLabel('Part 2', { exact: true })).toHaveValue('10k');
+	await expectShown(page.getByTestId('networkValue'), 1 / (1 / 4_700 + 1 / 10_000) / 1000);
+	await expect(page).not.toHaveURL(/remove=|add=/);
+	await expectSamePage(page);
+});
+
+test.describe('without JavaScript', () => {
+	test.use({ javaScriptEnabled: false });
+
+	test('amplifier: Calculate answers the results, and the address shares them', async ({ page }) => {
+		await page.goto('/tools/amplifier');
+		await expectShown(page.getByTestId('maxPowerW'), (35 - 3) ** 2 / (2 * 8));
+		await page.getByLabel('Rail voltage (each side, ±)', { exact: true }).fill('28');
+		await page.getByLabel('Load', { exact: true }).fill('4');
+		await page.getByRole('button', { name: 'Calculate' }).click();
+		await expect(page).toHaveURL(/railV=28/);
+		// (28 − 3)² / (2 · 4) and the worst-case class B dissipation 2 · 28² / (π² · 4).
+		await expectShown(page.getByTestId('maxPowerW'), (28 - 3) ** 2 / (2 * 4));
+		await expectShown(page.getByTestId('worstDissipationW'), (2 * 28 ** 2) / (Math.PI ** 2 * 4));
+		await expect(page.getByLabel('Load', { exact: true })).toHaveValue('4');
+		const plot = page.getByRole('img', { name: /Maximum sine power against rail voltage/ });
+		await expect(plot.locator('[data-series="Your rails into 4 Ω"]')).toHaveCount(1);
+
+		// The same address in a fresh page: the same results.
+		const shared = page.url();
+		await page.goto('/tools/amplifier');
+		await page.goto(shared);
+		await expectShown(page.getByTestId('maxPowerW'), (28 - 3) ** 2 / (2 * 4));
+
+		// Nonsense in the address: the field says so, an unknown choice falls back, never an error page.
+		const res = await page.goto('/tools/amplifier?supply=bogus&loadOhm=4x7&railV=%00');
+		expect(res?.status()).toBe(200);
+		await expect(page.getByRole('alert').filter({ hasText: '4x7' })).toBeVisible();
+		await expect(page.getByLabel('Load', { exact: true })).toHaveAttribute('aria-invalid', 'true');
+		await expect(page.getByLabel('Supply', { exact: true })).toHaveValue('split');
+	});
+
+	test('supply, codes and series/parallel work from the address and the buttons', async ({ page }) => {
+		// Full wave at 50 Hz: ripple = I / (2 · 50 · C).
+		await page.goto('/tools/supply?loadCurrentA=3&capacitanceF=4700u');
+		await expectShown(page.getByTestId('rippleVpp'), 3 / (2 * 50 * 4_700e-6));
+		await expect(page.getByRole('img', { name: /Ripple against reservoir capacitance/ })).toBeVisible();
+
+		// 103: 10 × 10³ pF.
+		await page.goto('/tools/codes?code=103');
+		await expect(page.getByTestId('decoded')).toHaveText('10 nF');
+
+		await page.goto('/tools/network');
+		await page.getByRole('button', { name: 'Add a part' }).click();
+		await expect(page).not.toHaveURL(/add=/);
+		await page.getByLabel('Part 3', { exact: true }).fill('10k');
+		await page.getByLabel('Joined in', { exact: true }).selectOption('series');
+		await page.getByRole('button', { name: 'Calculate' }).click();
+		await expectShown(page.getByTestId('networkValue'), (4_700 + 4_700 + 10_000) / 1000);
+		await page.getByRole('button', { name: 'Remove part 1' }).click();
+		await expect(page.getByLabel('Part 3', { exact: true })).toHaveCount(0);
+		await expectShown(page.getByTestId('networkValue'), (4_700 + 10_000) / 1000);
+		await expect(page.getByLabel('Joined in', { exact: true })).toHaveValue('series');
+	});
+});
+
+test('reached from a page with the framework, a tool loads from the server and stays live', async ({ page }) => {
+	await page.goto('/builds');
+	await markPage(page);
+	await page.getByRole('banner').getByRole('link', { name: 'Bench tools' }).first().click();
+	await expect(page).toHaveURL(/\/tools$/);
+	// A full load (the mark is gone): the tools page carries no framework to navigate with.
+	await expect(async () => {
+		expect(await page.evaluate(() => (window as unknown as { __toolMark?: number }).__toolMark)).toBeUndefined();
+	}).toPass({ timeout: 15_000 });
+	await page.getByRole('link', { name: /Amplifier power and dissipation/ }).click();
+	await expect(page).toHaveURL(/\/tools\/amplifier$/);
+	await markPage(page);
+	await typeLive(page, 'Load', '4', async () => {
+		await expectShown(page.getByTestId('maxPowerW'), (35 - 3) ** 2 / (2 * 4));
+	});
+	await expectSamePage(page);
+	await page.goBack();
+	await expect(page).toHaveURL(/\/tools$/);
+	await page.goBack();
+	await expect(page).toHaveURL(/\/builds$/);
+});
+
+test('when the server cannot be reached, the results stay and say they are for earlier inputs', async ({ page }) => {
+	await page.goto('/tools/gain');
+	await markPage(page);
+	const offline = page.getByText(/Could not reach Starground/);
+	await expect(offline).toBeHidden();
+	// Cut the tool's own requests (the live updates), as a dropped connection would.
+	await page.route((url) => url.pathname === '/tools/gain', (route) => route.abort('internetdisconnected'));
+	await page.getByLabel('Rf (output to inverting input)', { exact: true }).fill('47k');
+	await expect(offline).toBeVisible();
+	// 1 + 22k / 1k: still the earlier inputs' gain.
+	await expectShown(page.getByTestId('gain'), 1 + 22_000 / 1_000, 4);
+	await page.unrouteAll();
+	await page.getByLabel('Ri (inverting input to ground)', { exact: true }).fill('2k2');
+	await expectShown(page.getByTestId('gain'), 1 + 47_000 / 2_200, 4);
+	await expect(offline).toBeHidden();
+	await expectSamePage(page);
+});
+
+test('a tool page loads one script, versioned by its address and kept a year', async ({ request }) => {
+	const html = await (await request.get('/tools/supply')).text();
+	const srcs = [...html.matchAll(/<script[^>]*\ssrc="([^"]+)"/g)].map((m) => m[1]);
+	expect(srcs).toHaveLength(1);
+	expect(srcs[0]).toMatch(/^\/tools\/live\.js\?v=[0-9a-f]{16}$/);
+	expect(html).not.toMatch(/_app\/immutable\/[^"]*\.js/); // no framework: no modulepreload either
+	const script = await request.get(srcs[0]);
+	expect(script.status()).toBe(200);
+	expect(script.headers()['content-type']).toContain('text/javascript');
+	expect(script.headers()['cache-control']).toContain('immutable');
+	expect(await script.text()).toContain('data-live-root');
+	// Any other version's address answers the current text, revalidated each time.
+	expect((await request.get('/tools/live.js?v=0000000000000000')).headers()['cache-control']).toBe('public, no-cache');
 });

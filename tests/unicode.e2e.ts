@@ -140,6 +140,10 @@ const CASES: Case[] = [
 	{ name: 'moderation: lock reason', as: () => moderator, send: (h) => sendForm(moderator, `/builds/${published}?/lock`, { locked: 'true', reason: h }) },
 	{ name: 'moderation: unlock reason', as: () => moderator, send: (h) => sendForm(moderator, `/builds/${published}?/lock`, { locked: 'false', reason: h }) },
 	{ name: 'sign-in next', as: () => anon, send: (h) => sendQuery(anon, '/sign-in', { next: h }) },
+	// The bench tools are GET forms: every field arrives in the query string (a sentence on the page, never a 500).
+	{ name: 'bench tool: amplifier fields', as: () => anon, send: (h) => sendQuery(anon, '/tools/amplifier', { supply: h, railV: h, loadOhm: h, dropoutV: h, outputW: h }) },
+	{ name: 'bench tool: markings and bands', as: () => anon, send: (h) => sendQuery(anon, '/tools/codes', { code: h, as: h, bandCount: h, band0: h, valueOhm: h, outCount: h, tolerance: h }) },
+	{ name: 'bench tool: series/parallel parts and buttons', as: () => anon, send: (h) => sendQuery(anon, '/tools/network', { part: h, arrangement: h, value: h, remove: h }) },
 	// Uploads: file names and the text fields beside them.
 	{ name: 'attachment: file name and kind', as: () => maker, send: (h) => sendMultipart(maker, `/builds/${draft}/attachments`, [{ name: 'kind', value: h }, { name: 'file', value: PDF, filename: h, type: 'application/pdf' }]) },
 	{ name: 'attachment: file name', as: () => maker, send: (h) => sendMultipart(maker, `/builds/${draft}/attachments`, [{ name: 'kind', value: 'schematic' }, { name: 'file', value: PDF, filename: h, type: 'application/pdf' }]) },
