@@ -95,4 +95,15 @@ test('home and the build page load no framework, only the header menus script; t
 	scripts.length = 0;
 	await page.goto('/builds', { waitUntil: 'networkidle' });
 	expect(scripts.filter((s) => s.startsWith('/_app/immutable/entry/')).length).toBeGreaterThan(0);
+
+	// A link from that hydrated page to a build page loads it as a new document: none of its components is fetched.
+	scripts.length = 0;
+	const card = page.locator('[data-build-card] a[href^="/builds/"]').first();
+	const href = await card.getAttribute('href');
+	const loaded = page.waitForRequest((r) => r.resourceType() === 'document' && new URL(r.url()).pathname === href);
+	await card.click();
+	await loaded;
+	await page.waitForLoadState('networkidle');
+	await expect(page.locator('[data-comments]')).toBeVisible();
+	expect(scripts.filter((s) => s.startsWith('/_app/'))).toEqual([expect.stringMatching(/header-menus[^/]*\.js$/)]);
 });
