@@ -107,3 +107,16 @@ test('home and the build page load no framework, only the header menus script; t
 	await expect(page.locator('[data-comments]')).toBeVisible();
 	expect(scripts.filter((s) => s.startsWith('/_app/'))).toEqual([expect.stringMatching(/header-menus[^/]*\.js$/)]);
 });
+
+test('the current place: "Builds" on browse and on a build page, "New build" (not "Builds") on /builds/new', async ({ page }) => {
+	const main = page.getByRole('navigation', { name: 'Main', exact: true });
+	await page.goto('/builds');
+	await expect(main.getByRole('link', { name: 'Builds', exact: true })).toHaveAttribute('aria-current', 'page');
+	await page.goto('/builds/stereo-power-ic-amp-28v-rails');
+	await expect(main.getByRole('link', { name: 'Builds', exact: true })).toHaveAttribute('aria-current', 'page');
+	await signIn(page, 'aiko@starground.test');
+	await page.goto('/builds/new');
+	await expect(main.getByRole('link', { name: 'Builds', exact: true })).not.toHaveAttribute('aria-current', 'page');
+	const items = await openMemberMenu(page);
+	await expect(items.getByRole('link', { name: 'New build' })).toHaveAttribute('aria-current', 'page');
+});
