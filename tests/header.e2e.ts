@@ -73,3 +73,50 @@ test.describe('without JavaScript, on a phone', () => {
 		await expect(page.locator('[data-nav-menu]').getByRole('link', { name: 'Bench tools' })).toBeVisible();
 	});
 });
+
+// Home and the build page are rendered on the server and never hydrated (issue 15, README "Speed"): the only
+// script they load is the header's few lines for its menus; on a hydrated page (browse) the framework loads.
+test('home and the build page load no framework, only the header menus script; the menus still answer Escape', async ({ page }) => {
+	const scripts: string[] = [];
+	page.on('request', (r) => {
+		if (r.resourceType() === 'script') scripts.push(new URL(r.url()).pathname);
+	});
+	await signIn(page, 'joss@starground.test');
+	for (const path of ['/', '/builds/stereo-power-ic-amp-28v-rails']) {
+		scripts.length = 0;
+		await page.goto(path, { waitUntil: 'networkidle' });
+		expect(scripts, path).toHaveLength(1);
+		expect(scripts[0], path).toMatch(/header-menus[^/]*\.js$/);
+		const items = await openMemberMenu(page);
+		await page.keyboard.press('Escape');
+		await expect(items, path).toBeHidden();
+		await expect(memberMenu(page).locator('summary'), path).toBeFocused();
+	}
+	scripts.length = 0;
+	await page.goto('/builds', { waitUntil: 'networkidle' });
+	expect(scripts.filter((s) => s.startsWith('/_app/immutable/entry/')).length).toBeGreaterThan(0);
+
+	// A link from that hydrated page to a build page loads it as a new document: none of its components is fetched.
+	scripts.length = 0;
+	const card = page.locator('[data-build-card] a[href^="/builds/"]').first();
+	const href = await card.getAttribute('href');
+	const loaded = page.waitForRequest((r) => r.resourceType() === 'document' && new URL(r.url()).pathname === href);
+	await card.click();
+	await loaded;
+	await page.waitForLoadState('networkidle');
+	await expect(page.locator('[data-comments]')).toBeVisible();
+	expect(scripts.filter((s) => s.startsWith('/_app/'))).toEqual([expect.stringMatching(/header-menus[^/]*\.js$/)]);
+});
+
+test('the current place: "Builds" on browse and on a build page, "New build" (not "Builds") on /builds/new', async ({ page }) => {
+	const main = page.getByRole('navigation', { name: 'Main', exact: true });
+	await page.goto('/builds');
+	await expect(main.getByRole('link', { name: 'Builds', exact: true })).toHaveAttribute('aria-current', 'page');
+	await page.goto('/builds/stereo-power-ic-amp-28v-rails');
+	await expect(main.getByRole('link', { name: 'Builds', exact: true })).toHaveAttribute('aria-current', 'page');
+	await signIn(page, 'aiko@starground.test');
+	await page.goto('/builds/new');
+	await expect(main.getByRole('link', { name: 'Builds', exact: true })).not.toHaveAttribute('aria-current', 'page');
+	const items = await openMemberMenu(page);
+	await expect(items.getByRole('link', { name: 'New build' })).toHaveAttribute('aria-current', 'page');
+});

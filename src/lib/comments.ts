@@ -24,3 +24,14 @@ export interface CommentItem {
 
 /** How long an author may edit a comment after posting it (ms). */
 export const EDIT_WINDOW_MS = 15 * 60 * 1000;
+
+/**
+ * A comment form the server refused (the build page's form actions): which form (`post` a comment, `reply` to
+ * comment `id`, `edit` / `delete` / `report` comment `id`), the text the member sent, and the sentence.
+ */
+export interface CommentFailure {
+	kind: 'post' | 'reply' | 'edit' | 'delete' | 'report';
+	id: string | null;
+	text: string;
+	error: string;
+}

@@ -1,5 +1,7 @@
 import { error, fail, redirect } from '@sveltejs/kit';
 import { lockSchema } from '$lib/schemas/build';
+import { commentEditSchema, commentSchema, reportSchema } from '$lib/schemas/review';
+import type { CommentFailure } from '$lib/comments';
 import { requireUser } from '$lib/server/auth';
 import {
 	archive,
@@ -13,11 +15,11 @@ import {
 	getBuildBySlug
 } from '$lib/server/builds';
 import { getFlagMarkers, getReviewPanel } from '$lib/server/reviews';
-import { listComments } from '$lib/server/comments';
+import { deleteComment, editComment, listComments, postComment, requireCommentableBuild } from '$lib/server/comments';
 import { isOnBench } from '$lib/server/bench';
 import { builtItPanel } from '$lib/server/built-it';
 import { revisionLabel } from '$lib/revision-label';
-import { setBuildLocked } from '$lib/server/moderation';
+import { fileReport, setBuildLocked } from '$lib/server/moderation';
 import type { Actions, PageServerLoad } from './$types';
 import { actorOf } from '$lib/server/actor';
 import { attempt } from '$lib/server/http';
@@ -100,6 +102,17 @@ async function pageData(slug: string, locals: App.Locals, row?: Build) {
 	};
 }
 
+/** A comment form's refusal: its status and what the page needs to show the sentence beside that form, text kept. */
+function commentFailed(status: number, failure: CommentFailure) {
+	return fail(status, { comment: failure });
+}
+
+/** The text of a form field ('' when missing or a file). */
+function text(form: FormData, name: string): string {
+	const v = form.get(name);
+	return typeof v === 'string' ? v : '';
+}
+
 /** The build for an action; the domain call then decides (403 for someone who may not change it). */
 async function found(slug: string) {
 	const b = await getBuildBySlug(slug);
@@ -129,6 +142,53 @@ export const actions: Actions = {
 		const r = await attempt(() => derive(actor, b.id));
 		if (!r.ok) return r.failure;
 		redirect(303, `/builds/${r.value.slug}/edit?started=1`);
+	},
+	// Comments are plain forms (the page ships no JavaScript): each success goes back to the comment it changed
+	// (post/redirect/get), each refusal comes back to the same form with the sentence and the member's text.
+	comment: async ({ params, request }) => {
+		const actor = actorOf(requireUser());
+		const form = await request.formData();
+		const body = text(form, 'body');
+		const parentId = text(form, 'parentId') || null;
+		const kind = parentId ? 'reply' : 'post';
+		const b = await requireCommentableBuild(params.slug, actor);
+		const parsed = commentSchema.safeParse({ body, parentId });
+		if (!parsed.success) return commentFailed(400, { kind, id: parentId, text: body, error: parsed.error.issues[0].message });
+		const r = await attempt(() => postComment(actor, b, parsed.data));
+		if (!r.ok) return commentFailed(r.status, { kind, id: parentId, text: body, error: r.error });
+		redirect(303, `/builds/${b.slug}#comment-${r.value.id}`);
+	},
+	editComment: async ({ params, request }) => {
+		const actor = actorOf(requireUser());
+		const form = await request.formData();
+		const id = text(form, 'commentId');
+		const body = text(form, 'body');
+		const b = await requireCommentableBuild(params.slug, actor);
+		const parsed = commentEditSchema.safeParse({ body });
+		if (!parsed.success) return commentFailed(400, { kind: 'edit', id, text: body, error: parsed.error.issues[0].message });
+		const r = await attempt(() => editComment(actor, b, id, parsed.data.body));
+		if (!r.ok) return commentFailed(r.status, { kind: 'edit', id, text: body, error: r.error });
+		redirect(303, `/builds/${b.slug}#comment-${r.value.id}`);
+	},
+	deleteComment: async ({ params, request }) => {
+		const actor = actorOf(requireUser());
+		const id = text(await request.formData(), 'commentId');
+		const b = await requireCommentableBuild(params.slug, actor);
+		const r = await attempt(() => deleteComment(actor, b, id));
+		if (!r.ok) return commentFailed(r.status, { kind: 'delete', id, text: '', error: r.error });
+		redirect(303, `/builds/${b.slug}?comment=deleted#comments`);
+	},
+	reportComment: async ({ params, request }) => {
+		const actor = actorOf(requireUser());
+		const form = await request.formData();
+		const id = text(form, 'commentId');
+		const reason = text(form, 'reason');
+		const b = await requireCommentableBuild(params.slug, actor);
+		const parsed = reportSchema.safeParse({ targetKind: 'comment', targetId: id, reason });
+		if (!parsed.success) return commentFailed(400, { kind: 'report', id, text: reason, error: parsed.error.issues[0].message });
+		const r = await attempt(() => fileReport(actor, parsed.data));
+		if (!r.ok) return commentFailed(r.status, { kind: 'report', id, text: reason, error: r.error });
+		redirect(303, `/builds/${b.slug}?comment=reported&id=${encodeURIComponent(id)}#comment-${encodeURIComponent(id)}`);
 	},
 	lock: async ({ params, request }) => {
 		const actor = actorOf(requireUser());
