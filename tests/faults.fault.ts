@@ -30,6 +30,8 @@ async function signedIn(email: string): Promise<APIRequestContext> {
 // ---- PostgreSQL control (the test cluster that scripts/test.js started) -------------------------------
 
 const pgData = () => process.env.TEST_PG_DATA ?? path.resolve('.data/test/postgres/pgdata');
+/** A path in the data folder of this `npm test` run (STARGROUND_TEST_DATA, else .data/test). */
+const testData = (...parts: string[]) => path.resolve(process.env.STARGROUND_TEST_DATA ?? '.data/test', ...parts);
 const pgBin = () => process.env.TEST_PG_BIN ?? '/usr/lib/postgresql/15/bin';
 
 function pgCtl(args: string[]) {
@@ -258,7 +260,7 @@ test('S3 fake stopped: an upload answers 503 with a sentence and leaves nothing;
 
 	// Deleting while the store is down: the row goes (and the change is recorded), the image is no
 	// longer served, and the objects are deleted by the durable queue once the store is back.
-	const stored = path.resolve('.data/test/s3/starground/photos', photo.id);
+	const stored = testData('s3', 'starground', 'photos', photo.id);
 	const objects = () => (fs.existsSync(stored) ? fs.readdirSync(stored).filter((f) => f.endsWith('._S3rver_object')) : []);
 	expect(objects().length).toBeGreaterThan(0);
 	await control('s3/stop');
@@ -285,7 +287,7 @@ test('Two app instances on one PostgreSQL, S3 and SMTP: sessions, rate limits, t
 	// the test block; the same ORIGIN, as two instances behind one proxy would have.
 	const portB = Number(new URL(origin()).port) + 5;
 	const originB = `http://127.0.0.1:${portB}`;
-	const logB = path.resolve('.data/test/app-b.log');
+	const logB = testData('app-b.log');
 	const b = spawn(process.execPath, ['server.js'], {
 		env: { ...process.env, ...JSON.parse(process.env.STARGROUND_TEST_APP_ENV ?? '{}'), SEED_DEMO: 'false', PORT: String(portB) },
 		stdio: ['ignore', fs.openSync(logB, 'a'), fs.openSync(logB, 'a')]
@@ -387,7 +389,7 @@ test('npm start stops everything it started when its PID gets SIGTERM (as under 
 			sock.once('error', () => resolve(false));
 		});
 	for (const p of ports) expect(await open(p), `port ${p} free before`).toBe(false);
-	const dataDir = path.resolve('.data/test/npm-start');
+	const dataDir = testData('npm-start');
 	fs.rmSync(dataDir, { recursive: true, force: true });
 	// As `nohup npm start &` then `kill <its PID>`: the signal goes to npm, whose script shell dies
 	// without passing it on to scripts/start.js.
