@@ -3,6 +3,7 @@ import postgres from 'postgres';
 import { env } from '$env/dynamic/private';
 import { building } from '$app/environment';
 import * as schema from './schema';
+import { installProcessGuards } from './process-guards';
 
 if (!env.DATABASE_URL && !building) throw new Error('DATABASE_URL is not set');
 
@@ -30,25 +31,10 @@ export const db = drizzle(client, { schema });
 export type Db = typeof db;
 export type Tx = Parameters<Parameters<Db['transaction']>[0]>[0];
 
-/**
- * postgres.js 3.4.9 (the newest) can throw from a timer when a connection closes between buffering a
- * query and writing it (`socket.write` on a socket it has just set to null) — seen when PostgreSQL
- * restarts under load. The queries of that connection have already failed with CONNECTION_CLOSED (the
- * requests answer 503), so this one error is logged instead of ending the process; any other uncaught
- * error still ends it, as Node would.
- */
-function isDriverWriteRace(err: unknown): boolean {
-	return err instanceof TypeError && /reading 'write'/.test(err.message) && /postgres[\\/]src[\\/]connection\.js/.test(err.stack ?? '');
-}
-if (!building && !process.listenerCount('uncaughtException')) {
-	process.on('uncaughtException', (err) => {
-		if (isDriverWriteRace(err)) {
-			console.error('[db] a connection closed while a query was being written; its requests failed with 503');
-			return;
-		}
-		console.error(err);
-		process.exit(1);
-	});
+// Errors nobody caught: logged, and the process ends, except two known ones from a PostgreSQL restart
+// (process-guards.ts). Vitest and other hosts install their own handlers.
+if (!building && !process.listenerCount('uncaughtException') && !process.listenerCount('unhandledRejection')) {
+	installProcessGuards();
 }
 
 process.on('sveltekit:shutdown', async () => {
