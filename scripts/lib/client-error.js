@@ -20,6 +20,11 @@ export function clientErrorReply(code, maxHeaderBytes = http.maxHeaderSize) {
 	return { status: 400, message: 'The server could not read this request: it is not well-formed HTTP.' };
 }
 
+/** The envelope code for a status this listener answers with: the same as `codeForStatus` in src/lib/server/http/envelope.ts. */
+export function apiCodeFor(status) {
+	return status === 431 ? 'too_large' : 'invalid';
+}
+
 /** True when the raw bytes received so far start a request for an /api/ address (it then gets the JSON envelope). */
 function isApiRequest(raw) {
 	if (!raw || !raw.length) return false;
@@ -31,8 +36,8 @@ function isApiRequest(raw) {
 export function clientErrorResponse(err) {
 	const { status, message } = clientErrorReply(err?.code);
 	const api = isApiRequest(err?.rawPacket);
-	// The API's error envelope; every status not in its table that is 4xx has the code `invalid` (http/envelope.ts).
-	const body = api ? JSON.stringify({ error: { code: 'invalid', message, issues: [] } }) : `${message}\n`;
+	// The API's error envelope, with the code http/envelope.ts's status table gives (431 → too_large, else invalid).
+	const body = api ? JSON.stringify({ error: { code: apiCodeFor(status), message, issues: [] } }) : `${message}\n`;
 	const type = api ? 'application/json' : 'text/plain; charset=utf-8';
 	return (
 		`HTTP/1.1 ${status} ${REASONS[status]}\r\n` +

@@ -7,7 +7,8 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import http from 'node:http';
 import net from 'node:net';
 import { HOSTILE_TEXT, percentEncode } from '../fixtures/hostile-text';
-import { clientErrorReply, onClientError } from '../../scripts/lib/client-error.js';
+import { apiCodeFor, clientErrorReply, onClientError } from '../../scripts/lib/client-error.js';
+import { codeForStatus } from '../../src/lib/server/http/envelope';
 
 const servers: http.Server[] = [];
 
@@ -116,7 +117,7 @@ describe('a request Node cannot read gets a sentence', () => {
 	it('an /api/ address gets the JSON error envelope; every other text of hostile-text.ts is refused the same way or reaches the app', async () => {
 		const api = await raw(ours, get(`/api/v1/builds?q=${percentEncode(tenThousand.text)}`));
 		expect(api.status).toBe(431);
-		expect(JSON.parse(api.body)).toEqual({ error: { code: 'invalid', message: clientErrorReply('HPE_HEADER_OVERFLOW').message, issues: [] } });
+		expect(JSON.parse(api.body)).toEqual({ error: { code: 'too_large', message: clientErrorReply('HPE_HEADER_OVERFLOW').message, issues: [] } });
 		for (const h of HOSTILE_TEXT) {
 			const r = await raw(ours, get(`/search?q=${h.form ?? percentEncode(h.text)}`));
 			if (r.status === 431) expect(r.body.length, h.name).toBeGreaterThan(20);
@@ -130,5 +131,15 @@ describe('a request Node cannot read gets a sentence', () => {
 		expect(bad.body.trim()).toBe('The server could not read this request: it is not well-formed HTTP.');
 		const ok = await raw(ours, get('/search?q=rail'));
 		expect([ok.status, ok.body]).toEqual([200, 'reached the app']);
+	});
+});
+
+describe('the envelope code of a status server.js answers with', () => {
+	// API.md: `too_large` for what was sent being too large (413; 431 is RFC 6585's "Request Header Fields Too
+	// Large"), `invalid` for a request that cannot be read (400, and 408 as every other unlisted 4xx).
+	it('is the same in client-error.js and in the app\'s status table (envelope.ts)', () => {
+		expect(codeForStatus(431)).toBe('too_large');
+		expect(codeForStatus(413)).toBe('too_large');
+		for (const status of [400, 408, 431]) expect(apiCodeFor(status), String(status)).toBe(codeForStatus(status));
 	});
 });

@@ -27,6 +27,9 @@ const CODE_FOR_STATUS: Readonly<Record<number, ApiErrorCode>> = {
 	405: 'method_not_allowed',
 	409: 'conflict',
 	413: 'too_large',
+	// Request Header Fields Too Large (RFC 6585): the address or headers, rather than the body, are too large;
+	// API.md's `too_large` is the code for "what you sent is too large" (server.js answers it, client-error.js).
+	431: 'too_large',
 	415: 'invalid',
 	422: 'invalid',
 	429: 'rate_limited',
