@@ -11,6 +11,7 @@ import { env } from '$env/dynamic/private';
 import { apiError } from '../http';
 import { cleanJson, cleanedSearch, hasControls, pathHasControls, stripControls, stripLineControls } from '../http/control-chars';
 import { keepCheckedBody, type CheckedBody } from '../http/checked-body';
+import { discardBody } from '../http/discard';
 
 /** Body cap for JSON API writes (bytes; `API_BODY_MAX_BYTES`, 64 KB). */
 export const apiBodyMax = () => positive(env.API_BODY_MAX_BYTES, 64 * 1024);
@@ -80,25 +81,6 @@ async function readCapped(reader: ReadableStreamDefaultReader<Uint8Array>, cap: 
  * that closes a connection with request bytes still unread resets it, and the client loses the 413.
  */
 const DISCARD_MAX = 16 * 1024 * 1024;
-
-/** Read and discard the rest of a body; false when it ran past `limit` (then the connection closes). */
-async function discardBody(reader: ReadableStreamDefaultReader<Uint8Array> | undefined, limit: number): Promise<boolean> {
-	if (!reader) return true;
-	let total = 0;
-	try {
-		for (;;) {
-			const { done, value } = await reader.read();
-			if (done) return true;
-			total += value.byteLength;
-			if (total > limit) {
-				void reader.cancel().catch(() => undefined);
-				return false;
-			}
-		}
-	} catch {
-		return false;
-	}
-}
 
 export const handleRequestGuards: Handle = async ({ event, resolve }) => {
 	const { request, url } = event;

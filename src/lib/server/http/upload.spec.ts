@@ -4,7 +4,7 @@ import { error } from '@sveltejs/kit';
 // The upload plumbing reads no request itself, but auth.ts (imported by the builds guard) needs $app/server.
 vi.mock('$app/server', () => ({ getRequestEvent: () => ({ locals: { user: null }, url: new URL('http://x/'), request: new Request('http://x/') }) }));
 
-const { uploadRoute } = await import('./upload');
+const { uploadRoute, REFUSED_DRAIN_MAX } = await import('./upload');
 const { requireEditableBuild } = await import('../builds');
 const { PhotoError } = await import('../photos');
 const { createMakerWithBuild, removeMaker } = await import('../testing/photos');
@@ -64,19 +64,60 @@ describe('uploadRoute', () => {
 		expect(req.bodyUsed).toBe(true);
 	});
 
-	it('answers a refusal of an oversized body at once and closes the connection', async () => {
-		const req = upload(200_000);
-		const res = await uploadRoute(
-			req,
-			async () => {
-				throw new PhotoError(413, 'too_large', 'The photo is larger than the 15 MB limit.');
-			},
-			{ drainLimit: 100_000 }
-		);
+	const tooLarge = async (): Promise<Response> => {
+		throw new PhotoError(413, 'too_large', 'The photo is larger than the 15 MB limit.');
+	};
+
+	/** A body of `size` bytes sent in 64 KB chunks, counting what was read; no Content-Length when `declared` is false. */
+	function streamed(size: number, declared = true) {
+		const seen = { bytes: 0 };
+		let left = size;
+		const body = new ReadableStream<Uint8Array>({
+			pull(c) {
+				if (left <= 0) return c.close();
+				const n = Math.min(left, 65_536);
+				left -= n;
+				seen.bytes += n;
+				c.enqueue(new Uint8Array(n));
+			}
+		});
+		const headers: Record<string, string> = { 'content-type': 'multipart/form-data; boundary=x' };
+		if (declared) headers['content-length'] = String(size);
+		const req = new Request('http://x/builds/b/photos', { method: 'POST', body, headers, duplex: 'half' } as RequestInit);
+		return { req, seen };
+	}
+
+	it('reads a refused oversized body to its end before answering 413, so the client gets the answer (no reset)', async () => {
+		// 15.5 MB: over the photo limit and the route's drainLimit, under REFUSED_DRAIN_MAX (tests/uploads.e2e.ts sends it).
+		const size = Math.round(15.5 * 1024 * 1024);
+		const { req, seen } = streamed(size);
+		const res = await uploadRoute(req, tooLarge, { drainLimit: 100_000 });
+		expect(res.status).toBe(413);
+		expect(seen.bytes).toBe(size);
+		expect(res.headers.get('connection')).toBeNull();
+		expect((await res.json()).error).toMatchObject({ code: 'too_large', issues: [{ path: 'file' }] });
+	});
+
+	it('a body without Content-Length is drained the same way, up to REFUSED_DRAIN_MAX', async () => {
+		const small = streamed(3 * 1024 * 1024, false);
+		const ok = await uploadRoute(small.req, tooLarge, { drainLimit: 100_000 });
+		expect([ok.status, small.seen.bytes, ok.headers.get('connection')]).toEqual([413, 3 * 1024 * 1024, null]);
+		// Longer than the bound: reading stops just past it (memory stays at one chunk) and the connection closes.
+		const endless = streamed(REFUSED_DRAIN_MAX * 4, false);
+		const closed = await uploadRoute(endless.req, tooLarge, { drainLimit: 100_000 });
+		expect(closed.status).toBe(413);
+		expect(closed.headers.get('connection')).toBe('close');
+		expect(endless.seen.bytes).toBeGreaterThan(REFUSED_DRAIN_MAX);
+		expect(endless.seen.bytes).toBeLessThan(REFUSED_DRAIN_MAX + 1024 * 1024);
+	});
+
+	it('answers a body declared longer than REFUSED_DRAIN_MAX at once, unread, and closes the connection', async () => {
+		const { req, seen } = streamed(REFUSED_DRAIN_MAX + 1);
+		const res = await uploadRoute(req, tooLarge, { drainLimit: 100_000 });
 		expect(res.status).toBe(413);
 		expect(res.headers.get('connection')).toBe('close');
 		expect(req.bodyUsed).toBe(false);
-		expect((await res.json()).error).toMatchObject({ code: 'too_large', issues: [{ path: 'file' }] });
+		expect(seen.bytes).toBeLessThan(1024 * 1024);
 	});
 
 	it('answers a no-script form with a small page and a way back', async () => {

@@ -1,6 +1,7 @@
 import { isHttpError, isRedirect, redirect } from '@sveltejs/kit';
 import { apiError, codeForStatus, type ApiErrorCode } from './envelope';
 import { escapeUTF8 as escapeHtml } from 'entities';
+import { discardBody } from './discard';
 
 /** A refusal about one field of an upload, answered as the envelope with one issue at `path`. */
 export class FieldError extends Error {
@@ -50,17 +51,24 @@ export async function uploadRoute(
 }
 
 /**
- * A refusal sent before the upload was read (signed out, not the maker, too large): read and
- * discard a body of acceptable size first, else the client may see a reset connection instead
- * of our answer; for a larger one, tell the client the connection closes.
+ * The most of a refused upload's body read and thrown away (above the photo and attachment limits and
+ * adapter-node's BODY_SIZE_LIMIT, which refuses a longer declared body before anything reads it).
+ */
+export const REFUSED_DRAIN_MAX = 32 * 1024 * 1024;
+
+/**
+ * A refusal sent before the upload was read (signed out, not the maker, too large): the rest of the body is
+ * read and discarded first (`discardBody`: chunk by chunk, nothing kept), else a client still sending may see
+ * a reset connection (EPIPE) instead of our answer. Up to `drainLimit` bytes for any refusal, up to
+ * REFUSED_DRAIN_MAX for "too large" (a body declared, or found, longer than that gets the answer with
+ * `connection: close`, as before).
  */
 async function finishEarly(request: Request, response: Response, status: number, drainLimit: number): Promise<Response> {
 	if (request.bodyUsed || !request.body) return response;
 	const declared = Number(request.headers.get('content-length') ?? NaN);
-	if (status !== 413 && Number.isFinite(declared) && declared <= drainLimit) {
-		await request.arrayBuffer().catch(() => undefined);
-		return response;
-	}
+	const limit = status === 413 ? Math.max(drainLimit, REFUSED_DRAIN_MAX) : drainLimit;
+	const drain = Number.isFinite(declared) ? declared <= limit : status === 413;
+	if (drain && (await discardBody(request.body.getReader(), limit))) return response;
 	response.headers.set('connection', 'close');
 	return response;
 }
