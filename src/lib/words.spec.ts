@@ -12,7 +12,8 @@ const OLD_WORDS: { word: RegExp; say: string }[] = [
 	{ word: /\bflag(s|ged|ging)?\b/i, say: 'hazard tag' },
 	{ word: /\bverdicts?\b/i, say: 'sign-off / send-back' },
 	{ word: /\brework\b/i, say: 'send-back / sent back for changes' },
-	{ word: /\bderived? from\b|\bderiv(e|es|ing)\b|\bforks?\b|\bforked\b/i, say: 'based on / start from' }
+	{ word: /\bderived? from\b|\bderiv(e|es|ing)\b|\bforks?\b|\bforked\b/i, say: 'based on / start from' },
+	{ word: /\bbuilt upon\b|\bmost derived\b/i, say: 'started from / based on' }
 ];
 
 function files(dir: string, ext: RegExp): string[] {
@@ -38,6 +39,14 @@ export function visibleSvelteText(src: string): string[] {
 	for (let i = 0; i < 10 && /\{[^{}]*\}/.test(text); i++) text = text.replace(/\{[^{}]*\}/g, ' ');
 	text = text.replace(/<[^>]*>/g, '\n');
 	out.push(...text.split('\n').map((s) => s.trim()).filter(Boolean));
+	return out;
+}
+
+/** Sentence-like string arguments (with a space) of `{@render snippet(…)}` calls: headings and notes passed to a snippet. */
+export function renderArguments(src: string): string[] {
+	const out: string[] = [];
+	for (const call of src.matchAll(/\{@render\s+\w+\(([\s\S]*?)\)\}/g))
+		for (const m of call[1].matchAll(/(['"])((?:\\.|(?!\1).)*)\1/g)) if (m[2].includes(' ')) out.push(m[2]);
 	return out;
 }
 
@@ -67,14 +76,25 @@ describe('our words on screen', () => {
 		expect(visibleSvelteText(sample)).toEqual(['Flag it', 'Your verdict']);
 		expect(serverSentences(`error(409, 'This build was not derived from another.'); const x = flag;`)).toEqual(['This build was not derived from another.']);
 		expect(mailSentences("kind: 'flag', paragraphs: [`Hello ${to.name}, the flag is fixed.`]")).toEqual(['Hello …, the flag is fixed.']);
+		expect(renderArguments(`{@render section('derived', 'Most built upon', "Builds others forked.", '/builds?sort=x', data.d)}`)).toEqual(['Most built upon', 'Builds others forked.']);
 	});
 
 	it('pages and components say hazard tag, sign-off / send-back, based on', () => {
 		const found: string[] = [];
 		for (const f of [...files('src/routes', /\.svelte$/), ...files('src/lib/components', /\.svelte$/)]) {
-			for (const t of visibleSvelteText(fs.readFileSync(path.join(root, f), 'utf8')))
+			const src = fs.readFileSync(path.join(root, f), 'utf8');
+			for (const t of [...visibleSvelteText(src), ...renderArguments(src)])
 				for (const o of OLD_WORDS) if (o.word.test(t)) found.push(`${f}: “${t}” (say ${o.say})`);
 		}
+		expect(found).toEqual([]);
+	});
+
+	it('the build list\'s order and filter labels (browse, search, the home page) say them too', async () => {
+		const { SORT_LABELS, REVIEW_FILTER_LABELS } = await import('./schemas/list-values');
+		const found: string[] = [];
+		for (const t of [...Object.values(SORT_LABELS), ...Object.values(REVIEW_FILTER_LABELS)])
+			for (const o of OLD_WORDS) if (o.word.test(t)) found.push(`list-values.ts: “${t}” (say ${o.say})`);
+		expect(Object.values(SORT_LABELS).length).toBeGreaterThan(3);
 		expect(found).toEqual([]);
 	});
 

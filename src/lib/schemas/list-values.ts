@@ -10,7 +10,7 @@ export type ListSort = (typeof LIST_SORTS)[number];
 
 export const SORT_LABELS: Record<ListSort, string> = {
 	recent: 'Newest',
-	'most-derived': 'Most built upon',
+	'most-derived': 'Most started from',
 	'recently-reviewed': 'Recently reviewed',
 	relevance: 'Best match'
 };

@@ -193,7 +193,7 @@ describe('full-text search', () => {
 });
 
 describe('home lists', () => {
-	it('recent, recently reviewed safe and most derived each hold what their heading says', async () => {
+	it('recent, recently reviewed safe and most started from each hold what their heading says', async () => {
 		const maker = await createMember('maker', 'Homer');
 		const reviewer = await createMember('reviewer', 'Homeview');
 		members.push(maker.id, reviewer.id);

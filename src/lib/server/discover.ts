@@ -52,7 +52,7 @@ export const HOME_LIST_SIZE = 6;
 
 /**
  * The home page's three lists: newest published, most recently reviewed with a current "safe" verdict,
- * and most derived (only builds derived at least once). Review states load in one batch for all three.
+ * and most started from (only builds at least one other build is based on). Review states load in one batch for all three.
  */
 export async function homeLists() {
 	const [recent, reviewed, derived] = await Promise.all([

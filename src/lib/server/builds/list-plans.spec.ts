@@ -35,7 +35,7 @@ async function plan(c: Captured): Promise<string> {
 
 describe('list orders read their indexes in order', () => {
 	for (const [name, opts, index] of [
-		['most derived (home)', { limit: 6, sort: 'most-derived', filters: { derivedOnly: true } }, 'build_published_derived_idx'],
+		['most started from (home)', { limit: 6, sort: 'most-derived', filters: { derivedOnly: true } }, 'build_published_derived_idx'],
 		['recently reviewed, safe (home)', { limit: 6, sort: 'recently-reviewed', filters: { review: 'safe' } }, 'build_published_reviewed_idx'],
 		['recent', { limit: 6 }, 'build_status_published_idx']
 	] as const) {

@@ -1,7 +1,7 @@
 /**
  * The one list query over published builds: the builds API list, the browse and search pages, the home
  * page's lists, maker profiles and the bench. Typed filters (category, topology, review state, mains
- * powered, maker, full-text `q`, …); sorts: recent, most derived, recently reviewed, relevance (with `q`);
+ * powered, maker, full-text `q`, …); sorts: recent, most started from (`most-derived`), recently reviewed, relevance (with `q`);
  * keyset cursor pagination on (sort key…, id) so pages never repeat or skip while builds are published.
  * The query string's schema is $lib/schemas/list; the JSON shapes are ./serialize.
  */

@@ -92,7 +92,7 @@ export const build = pgTable(
 		// Relevance order inside the index (RUM extension, Debian postgresql-15-rum), over the small title and
 		// summary vector: see search.ts searchDistance.
 		index('build_search_head_rum_idx').using('rum', t.searchHead.op('rum_tsvector_ops')),
-		// Keyset pagination of the "most derived" and "recently reviewed" orders (builds/list.ts sortSpec).
+		// Keyset pagination of the "most started from" (`most-derived`) and "recently reviewed" orders (builds/list.ts sortSpec).
 		index('build_published_derived_idx')
 			.on(t.derivedCount.desc(), t.publishedAt.desc(), t.id.desc())
 			.where(sql`${t.status} = 'published'`),

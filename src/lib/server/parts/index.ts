@@ -17,7 +17,6 @@ import { previewPartsCsv, type ImportPreview } from './preview';
 export { partsToCsv, readPartsCsv, CSV_COLUMNS, CSV_MAX_BYTES, type CsvRead, type CsvRow } from './csv';
 export { previewPartsCsv, type ImportPreview, type PreviewRow } from './preview';
 export { refreshBuildChecks, railFromBlocks, placeCrossChecks } from './checks';
-export { compareWithOrigin } from './compare';
 
 /** A build's part lines in list order. */
 export async function listPartLines(buildId: string, dbx: DbLike = db): Promise<schema.PartLine[]> {
