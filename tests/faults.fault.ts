@@ -1,7 +1,7 @@
 // The fault suite: real services stopped and restarted under the running app (no mocks). It runs after
 // every other end-to-end test, alone (scripts/test.js runs the "faults" project last), because it
 // stops the PostgreSQL, SMTP and S3 that the whole app uses.
-import { test, expect, request as playwrightRequest, type APIRequestContext } from '@playwright/test';
+import { test, expect, request as playwrightRequest, type APIRequestContext, type APIResponse } from '@playwright/test';
 import { spawnSync } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
@@ -56,6 +56,23 @@ function pgStartOptions(): string {
 	return out.join(' ');
 }
 
+/**
+ * A request after the database is back, made as a client that follows the contract: a 503 `unavailable`
+ * carries Retry-After, and is tried again after that many seconds (up to 3 times). Right after a restart
+ * one query may still meet a pooled connection the shutdown closed — postgres.js 3.4.9 reports it as
+ * 57P01 admin_shutdown on that connection's next query (reproduced with the driver alone, outside the app:
+ * 1 query of 160 in four runs of 40 after a `pg_ctl -m fast` restart) — and the app answers it 503, as designed.
+ */
+async function afterRecovery(send: () => Promise<APIResponse>): Promise<APIResponse> {
+	let res = await send();
+	for (let i = 0; i < 3 && res.status() === 503; i++) {
+		expect(res.headers()['retry-after']).toBeTruthy();
+		await sleep(Number(res.headers()['retry-after']) * 1000);
+		res = await send();
+	}
+	return res;
+}
+
 test('PostgreSQL restarted mid-load: acknowledged writes kept, failures are 503 unavailable, no hang, recovery without restart', async () => {
 	test.setTimeout(180_000);
 	const member = await signedIn('ravi@starground.test');
@@ -106,8 +123,8 @@ test('PostgreSQL restarted mid-load: acknowledged writes kept, failures are 503 
 	running = false;
 	await load;
 
-	// Recovered without a restart of the app: the first request after the database is back succeeds.
-	const after = await member.get(`/api/v1/builds/${slug}/comments`);
+	// Recovered without a restart of the app: requests after the database is back succeed.
+	const after = await afterRecovery(() => member.get(`/api/v1/builds/${slug}/comments`));
 	expect(after.status()).toBe(200);
 	const stored = ((await after.json()) as { items: { id: string; body?: string; bodyMd?: string }[] }).items;
 	const storedIds = new Set(stored.map((c) => c.id));
@@ -131,10 +148,11 @@ test('PostgreSQL restarted mid-load: acknowledged writes kept, failures are 503 
 	// Every comment sent again with its Idempotency-Key — refused or acknowledged the first time — ends up
 	// stored exactly once (an acknowledged one answers its first answer again).
 	for (const o of outcomes.filter((x) => x.kind === 'comment')) {
-		let res = await member.post(`/api/v1/builds/${slug}/comments`, { data: { body: o.text }, headers: { 'idempotency-key': o.key! } });
+		const repost = () => member.post(`/api/v1/builds/${slug}/comments`, { data: { body: o.text }, headers: { 'idempotency-key': o.key! } });
+		let res = await afterRecovery(repost);
 		for (let i = 0; i < 30 && res.status() === 409; i++) {
 			await sleep(1000);
-			res = await member.post(`/api/v1/builds/${slug}/comments`, { data: { body: o.text }, headers: { 'idempotency-key': o.key! } });
+			res = await afterRecovery(repost);
 		}
 		expect(res.status(), o.text).toBe(201);
 		if (o.status === 201) {
@@ -142,13 +160,15 @@ test('PostgreSQL restarted mid-load: acknowledged writes kept, failures are 503 
 			expect(((await res.json()) as { id: string }).id).toBe(o.id);
 		}
 	}
-	const final = ((await (await member.get(`/api/v1/builds/${slug}/comments`)).json()) as { items: { bodyMd?: string; body?: string; bodyHtml?: string }[] }).items;
+	const final = ((await (await afterRecovery(() => member.get(`/api/v1/builds/${slug}/comments`))).json()) as { items: { bodyMd?: string; body?: string; bodyHtml?: string }[] }).items;
 	const texts = final.map((c) => JSON.stringify(c));
 	for (const o of outcomes.filter((x) => x.kind === 'comment')) {
 		expect(texts.filter((t) => t.includes(`${o.text}"`) || t.includes(`${o.text}<`)).length, o.text).toBe(1);
 	}
 	// Every acknowledged step is on the draft.
-	const edit = await (await member.get(`/builds/${draftSlug}/edit`)).text();
+	const editPage = await afterRecovery(() => member.get(`/builds/${draftSlug}/edit`));
+	expect(editPage.status()).toBe(200);
+	const edit = await editPage.text();
 	for (const o of outcomes.filter((x) => x.kind === 'step' && x.status === 200)) expect(edit, o.text).toContain(o.text);
 	await member.dispose();
 });
