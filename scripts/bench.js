@@ -6,11 +6,18 @@
 // average is printed before and after.
 //
 //   node scripts/bench.js [--url http://127.0.0.1:3000] [--duration 5] [--rounds 2] [--connections 32]
-//                         [--slug some-build] [--q "toroid soft start"] [--only ping,build,search-miss]
+//                         [--slug some-build] [--q "toroid soft start"] [--only ping,build,search-miss] [--all]
+//
+// --all: then, in the same run, the issue's other figures — the ranked-search and hot queries
+// (scripts/explain.js, needs DATABASE_URL), the JavaScript per page (scripts/js-budget.js) and the photo
+// pipeline (scripts/bench-photos.js) — each in its own process, one after another.
 //
 // Start the app as in production first (`npm start`, or vite build then node server.js with the env
 // vars), on the large data set (scripts/seed-large.js). Uses autocannon (a dev dependency).
 import os from 'node:os';
+import path from 'node:path';
+import { spawnSync } from 'node:child_process';
+import { fileURLToPath } from 'node:url';
 import autocannon from 'autocannon';
 
 const arg = (name, d) => {
@@ -163,4 +170,18 @@ for (const r of rows) console.log(`| ${r.target} | ${r['req/s']} | ${r['p50 ms']
 if (rows.some((r) => r['non-2xx'] > 0)) {
 	console.error('Some requests failed (non-2xx or errors): the figures above are not trustworthy.');
 	process.exitCode = 1;
+}
+
+if (process.argv.includes('--all')) {
+	const here = path.dirname(fileURLToPath(import.meta.url));
+	const steps = [...(process.env.DATABASE_URL ? [['explain.js']] : []), ['js-budget.js', '--url', base], ['bench-photos.js']];
+	if (!process.env.DATABASE_URL) console.log('\nDATABASE_URL is not set: scripts/explain.js (ranked search, hot queries) skipped.');
+	for (const [script, ...args] of steps) {
+		console.log(`\n$ node scripts/${script} ${args.join(' ')}`);
+		const r = spawnSync(process.execPath, [path.join(here, script), ...args], { stdio: 'inherit' });
+		if (r.status !== 0) {
+			console.error(`scripts/${script} failed (${r.status ?? r.signal}).`);
+			process.exitCode = 1;
+		}
+	}
 }
