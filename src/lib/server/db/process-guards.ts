@@ -15,26 +15,21 @@
  * Each is logged in one line; anything else is logged and ends the process with exit code 1, as Node would.
  */
 
+import { unavailableService } from '../http/unavailable';
+
 type Proc = Pick<NodeJS.Process, 'on' | 'exit'>;
 
 export function isDriverWriteRace(err: unknown): boolean {
 	return err instanceof TypeError && /reading 'write'/.test(err.message) && /postgres[\\/]src[\\/]connection\.js/.test(err.stack ?? '');
 }
 
-/** Error codes that mean "the database could not be reached or dropped the connection". */
-const CONNECTION_CODES = new Set(['ECONNREFUSED', 'ECONNRESET', 'ETIMEDOUT', 'EPIPE', 'EHOSTUNREACH', 'ENETUNREACH', '57P01', '57P02', '57P03']);
-const CONNECTION_MESSAGE = /^(Connection terminated|timeout exceeded when trying to connect|Client has encountered a connection error)/;
-
 /**
- * A connection error raised by pg-boss's own code (its stack runs through pg-boss/src: node-postgres's pool
- * re-captures the stack where the query was made, so `Db.executeSql` and `Manager.complete` are in it).
+ * A connection error raised by pg-boss's own code: what the app answers 503 for (http/unavailable.ts, one list
+ * of codes and messages for both), with a stack that runs through pg-boss/src (node-postgres's pool re-captures
+ * the stack where the query was made, so `Db.executeSql` and `Manager.complete` are in it).
  */
 export function isQueueConnectionError(err: unknown): boolean {
-	if (!(err instanceof Error)) return false;
-	const code = (err as { code?: unknown }).code;
-	const connection =
-		(typeof code === 'string' && (CONNECTION_CODES.has(code) || /^08[0-9A-Z]{3}$/.test(code))) || CONNECTION_MESSAGE.test(err.message);
-	return connection && /[\\/]pg-boss[\\/]src[\\/]/.test(err.stack ?? '');
+	return err instanceof Error && unavailableService(err) === 'database' && /[\\/]pg-boss[\\/]src[\\/]/.test(err.stack ?? '');
 }
 
 function fatal(proc: Proc, err: unknown): void {

@@ -17,6 +17,7 @@ const DB_CODES = new Set([
 	'ETIMEDOUT',
 	'EPIPE',
 	'EHOSTUNREACH',
+	'ENETUNREACH',
 	'CONNECT_TIMEOUT',
 	'CONNECTION_CLOSED',
 	'CONNECTION_ENDED',
@@ -63,7 +64,7 @@ export function unavailableService(err: unknown, depth = 0): Unavailable | null 
 	if ('$metadata' in err) return isStorageFailure(err) ? 'storage' : null;
 	const e = err as { code?: unknown; errno?: unknown; message?: unknown; cause?: unknown; errors?: unknown };
 	if (typeof e.code === 'string' && DB_CODES.has(e.code)) return 'database';
-	if (typeof e.message === 'string' && /write CONNECTION_CLOSED|connect ECONNREFUSED .*:\d+|Connection terminated|the database system is (starting up|shutting down|in recovery mode)/.test(e.message)) {
+	if (typeof e.message === 'string' && /write CONNECTION_CLOSED|connect ECONNREFUSED .*:\d+|Connection terminated|timeout exceeded when trying to connect|Client has encountered a connection error|the database system is (starting up|shutting down|in recovery mode)/.test(e.message)) {
 		return 'database';
 	}
 	// AggregateError (several addresses refused), then the cause chain.
